@@ -1,0 +1,101 @@
+// Builds the Express app around a database, the mailer and better-auth. Used by the server and,
+// unchanged, by the API and browser tests.
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { openDb, type DbHandle } from '@resonote/db/client';
+import type { Config } from './config.ts';
+import { createAuth, type Auth } from './auth.ts';
+import { authHandler } from './auth-handler.ts';
+import { resolveUser } from './context.ts';
+import { errorHandler, unknownApiRoute } from './errors.ts';
+import { createMailer, type Mailer } from './mail.ts';
+import { campaignRoutes } from './routes/campaigns.ts';
+import { systemRoutes } from './routes/system.ts';
+
+export interface AppHandle {
+  app: Express;
+  auth: Auth;
+  mailer: Mailer;
+  database: DbHandle;
+  close(): Promise<void>;
+}
+
+export interface AppOptions {
+  config: Config;
+  log?: (message: string) => void;
+}
+
+const defaultWebDist = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
+
+export async function createApp({ config, log = (m) => console.log(m) }: AppOptions): Promise<AppHandle> {
+  const database = openDb(config.databaseUrl);
+  const mailer = await createMailer({ db: database.db, smtpUrl: config.smtpUrl, capturePort: config.smtpCapturePort, from: config.mailFrom });
+  const auth = createAuth(database.db, config, mailer);
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', false);
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // plotly injects style elements at run time.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'worker-src': ["'self'", 'blob:'],
+          'upgrade-insecure-requests': null,
+        },
+      },
+      hsts: config.publicUrl.startsWith('https://'),
+    }),
+  );
+
+  if (config.logRequests) {
+    app.use((req, res, next) => {
+      const started = process.hrtime.bigint();
+      res.on('finish', () => {
+        const ms = Number(process.hrtime.bigint() - started) / 1e6;
+        log(`${req.method} ${req.originalUrl.split('?')[0]} ${res.statusCode} ${ms.toFixed(1)} ms`);
+      });
+      next();
+    });
+  }
+
+  // better-auth reads the raw body itself, so it is mounted before express.json().
+  app.all('/api/auth/*splat', authHandler(auth));
+
+  app.use('/api', express.json({ limit: config.jsonBodyLimit, strict: true }));
+  app.use('/api', resolveUser(auth));
+  app.use('/api', systemRoutes(database.db, config));
+  app.use('/api', campaignRoutes(database.db));
+  app.use('/api', unknownApiRoute);
+
+  const webDist = config.webDist ?? defaultWebDist;
+  if (fs.existsSync(path.join(webDist, 'index.html'))) {
+    app.use(express.static(webDist, { index: false, maxAge: '1h', setHeaders: (res, file) => file.endsWith('.html') && res.setHeader('cache-control', 'no-cache') }));
+    app.get('/{*any}', (_req, res) => {
+      res.setHeader('cache-control', 'no-cache');
+      res.sendFile(path.join(webDist, 'index.html'));
+    });
+  } else {
+    app.get('/{*any}', (_req, res) => {
+      res.status(503).type('text/plain').send('The web app is not built yet: run `npm start` (it builds apps/web), or `pnpm --filter @resonote/web dev`.');
+    });
+  }
+
+  app.use(errorHandler(log));
+
+  return {
+    app,
+    auth,
+    mailer,
+    database,
+    async close() {
+      await mailer.close();
+      await database.close();
+    },
+  };
+}

@@ -1,0 +1,94 @@
+// Mounts better-auth under /api/auth. The request is handed over as a Web Request and the
+// answer copied back; error answers are rewritten into the API's one error shape.
+import type { Request as ExpressRequest, RequestHandler } from 'express';
+import type { Auth } from './auth.ts';
+import { CLIENT_IP_HEADER } from './auth.ts';
+import { errorBody } from './errors.ts';
+
+const MAX_AUTH_BODY = 64 * 1024;
+
+async function readBody(req: ExpressRequest): Promise<Buffer | 'too-large'> {
+  const chunks: Buffer[] = [];
+  let size = 0;
+  for await (const chunk of req) {
+    size += (chunk as Buffer).length;
+    if (size > MAX_AUTH_BODY) return 'too-large';
+    chunks.push(chunk as Buffer);
+  }
+  return Buffer.concat(chunks);
+}
+
+function codeFromAuth(status: number, raw: string | undefined): string {
+  if (raw) return raw.toLowerCase().replace(/_/g, '-');
+  if (status === 429) return 'rate-limited';
+  if (status === 401) return 'unauthorized';
+  if (status === 403) return 'forbidden';
+  if (status === 404) return 'not-found';
+  return 'bad-request';
+}
+
+const friendly: Record<string, string> = {
+  'invalid-email-or-password': 'The e-mail address or the password is wrong.',
+  'user-already-exists': 'An account with this e-mail address already exists. Sign in, or reset the password.',
+  'user-already-exists-use-another-email': 'An account with this e-mail address already exists. Sign in, or reset the password.',
+  'password-too-short': 'The password is too short: use at least 10 characters.',
+  'password-too-long': 'The password is too long: use at most 128 characters.',
+  'invalid-email': 'That is not a valid e-mail address.',
+  'invalid-token': 'This reset link is invalid or has expired. Ask for a new one.',
+  'email-not-verified': 'Confirm your e-mail address first: open the link in the mail we sent.',
+  'rate-limited': 'Too many attempts. Wait a minute and try again.',
+};
+
+export function authHandler(auth: Auth): RequestHandler {
+  return async (req, res, next) => {
+    try {
+      const headers = new Headers();
+      for (const [key, value] of Object.entries(req.headers)) {
+        if (value === undefined || key === CLIENT_IP_HEADER) continue;
+        if (Array.isArray(value)) value.forEach((v) => headers.append(key, v));
+        else headers.set(key, value);
+      }
+      headers.set(CLIENT_IP_HEADER, req.socket.remoteAddress ?? 'unknown');
+      let body: Buffer | undefined;
+      if (req.method !== 'GET' && req.method !== 'HEAD') {
+        const read = await readBody(req);
+        if (read === 'too-large') {
+          res.status(413).json(errorBody('too-large', `The request body is larger than the limit of ${MAX_AUTH_BODY} bytes.`));
+          return;
+        }
+        body = read;
+      }
+      const url = new URL(req.originalUrl, `http://${req.headers.host ?? 'localhost'}`);
+      const request = new Request(url, { method: req.method, headers, body: body && body.length ? body : undefined });
+      const response = await auth.handler(request);
+
+      res.status(response.status);
+      response.headers.forEach((value, key) => {
+        if (key === 'set-cookie' || key === 'content-length') return;
+        res.setHeader(key, value);
+      });
+      const cookies = response.headers.getSetCookie();
+      if (cookies.length) res.setHeader('set-cookie', cookies);
+
+      const text = await response.text();
+      const isJson = (response.headers.get('content-type') ?? '').includes('json');
+      if (response.status >= 400) {
+        let parsed: { code?: string; message?: string } = {};
+        if (isJson && text) {
+          try {
+            parsed = JSON.parse(text);
+          } catch {
+            parsed = {};
+          }
+        }
+        const code = codeFromAuth(response.status, parsed.code);
+        const message = friendly[code] ?? parsed.message ?? (text && !isJson ? text : 'The sign-in service refused the request.');
+        res.type('application/json').send(JSON.stringify(errorBody(code, message)));
+        return;
+      }
+      res.send(text);
+    } catch (err) {
+      next(err);
+    }
+  };
+}

@@ -1,0 +1,112 @@
+// Sign-in for Resonote: better-auth with its Drizzle adapter, e-mail and password, cookie
+// sessions. The first account on an empty instance becomes admin.
+import { betterAuth } from 'better-auth';
+import { drizzleAdapter } from 'better-auth/adapters/drizzle';
+import { sql } from 'drizzle-orm';
+import type { Db } from '@resonote/db/client';
+import * as schema from '@resonote/db/schema';
+import type { Config } from './config.ts';
+import type { Mailer } from './mail.ts';
+
+export const MIN_PASSWORD_LENGTH = 10;
+/** Header the API sets from the socket address (never from the client) for rate limiting. */
+export const CLIENT_IP_HEADER = 'x-resonote-client-ip';
+
+/**
+ * Fixed-window request counter kept by this app instance (two instances in one process, as in
+ * the tests, never share counts). Check and increment happen in one step.
+ */
+function windowCounter() {
+  const windows = new Map<string, { start: number; count: number }>();
+  return {
+    async consume(key: string, rule: { window: number; max: number }) {
+      const now = Date.now();
+      const entry = windows.get(key);
+      if (!entry || now - entry.start >= rule.window * 1000) {
+        windows.set(key, { start: now, count: 1 });
+        if (windows.size > 10_000) for (const [k, v] of windows) if (now - v.start >= rule.window * 1000) windows.delete(k);
+        return { allowed: true, retryAfter: null };
+      }
+      if (entry.count >= rule.max) return { allowed: false, retryAfter: Math.ceil((entry.start + rule.window * 1000 - now) / 1000) };
+      entry.count += 1;
+      return { allowed: true, retryAfter: null };
+    },
+  };
+}
+
+export function createAuth(db: Db, config: Config, mailer: Mailer) {
+  return betterAuth({
+    appName: 'Resonote',
+    baseURL: config.publicUrl,
+    basePath: '/api/auth',
+    secret: config.authSecret,
+    trustedOrigins: [config.publicUrl],
+    telemetry: { enabled: false },
+    database: drizzleAdapter(db, {
+      provider: 'pg',
+      schema: { user: schema.user, session: schema.session, account: schema.account, verification: schema.verification },
+    }),
+    user: {
+      additionalFields: {
+        role: { type: 'string', required: false, defaultValue: 'member', input: false },
+      },
+    },
+    emailAndPassword: {
+      enabled: true,
+      minPasswordLength: MIN_PASSWORD_LENGTH,
+      maxPasswordLength: 128,
+      requireEmailVerification: config.requireEmailVerification,
+      revokeSessionsOnPasswordReset: true,
+      resetPasswordTokenExpiresIn: 60 * 60,
+      async sendResetPassword({ user, url }) {
+        await mailer.send({
+          to: user.email,
+          subject: 'Reset your Resonote password',
+          text: `Hello ${user.name},\n\nSomeone asked to reset the password of your Resonote account. To choose a new password, open this link within one hour:\n\n${url}\n\nIf it was not you, ignore this mail; your password stays as it is.\n`,
+        });
+      },
+    },
+    emailVerification: {
+      sendOnSignUp: true,
+      autoSignInAfterVerification: true,
+      async sendVerificationEmail({ user, url }) {
+        await mailer.send({
+          to: user.email,
+          subject: 'Confirm your e-mail address for Resonote',
+          text: `Hello ${user.name},\n\nConfirm that this is your address by opening:\n\n${url}\n`,
+        });
+      },
+    },
+    databaseHooks: {
+      user: {
+        create: {
+          // The first account on an empty instance becomes its admin; everyone else is a member.
+          async before(data) {
+            const [row] = await db.select({ n: sql<number>`count(*)::int` }).from(schema.user);
+            return { data: { ...data, role: (row?.n ?? 0) === 0 ? 'admin' : 'member' } };
+          },
+        },
+      },
+    },
+    rateLimit: {
+      enabled: true,
+      customStorage: windowCounter(),
+      window: config.authRateLimit.windowS,
+      max: config.authRateLimit.max * 10,
+      customRules: {
+        '/sign-in/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/sign-up/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/request-password-reset': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/reset-password': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/get-session': false,
+      },
+    },
+    advanced: {
+      ipAddress: { ipAddressHeaders: [CLIENT_IP_HEADER] },
+      disableOriginCheck: false,
+      useSecureCookies: config.publicUrl.startsWith('https://'),
+    },
+  });
+}
+
+export type Auth = ReturnType<typeof createAuth>;

@@ -1,0 +1,57 @@
+// The server process: validate the configuration, migrate, optionally seed the demo, serve, and
+// shut down cleanly on SIGINT/SIGTERM.
+import { migrateDatabase } from '@resonote/db/migrate';
+import { ConfigError, loadConfig, type Config } from './config.ts';
+import { createApp } from './app.ts';
+import { seedDemo } from './seed.ts';
+
+let config: Config;
+try {
+  config = loadConfig(process.env);
+} catch (err) {
+  console.error(err instanceof ConfigError ? err.message : err);
+  process.exit(1);
+}
+
+try {
+  await migrateDatabase(config.databaseUrl);
+} catch (err) {
+  console.error(`[resonote] database migration failed against ${config.databaseUrl.replace(/:[^:@/]*@/, ':***@')}: ${(err as Error).message}`);
+  process.exit(1);
+}
+
+const handle = await createApp({ config });
+let demo: Awaited<ReturnType<typeof seedDemo>> | undefined;
+if (process.argv.includes('--seed')) demo = await seedDemo(handle);
+
+const server = handle.app.listen(config.port, config.host, () => {
+  console.log(`\n[resonote] serving on ${config.publicUrl}`);
+  if (demo) {
+    console.log('[resonote] demo sign-ins (password for all: ' + demo.password + '):');
+    for (const account of demo.accounts) console.log(`  ${account.role.padEnd(9)} ${account.email}`);
+  }
+  if (handle.mailer.capturePort) console.log(`[resonote] outgoing mail is captured on 127.0.0.1:${handle.mailer.capturePort}; admins read it under Admin → Mail`);
+  const bootStarted = Number(process.env.RESONOTE_BOOT_STARTED ?? 0);
+  if (bootStarted) console.log(`[resonote] ready in ${((Date.now() - bootStarted) / 1000).toFixed(1)} s`);
+});
+server.on('error', (err) => {
+  console.error(`[resonote] cannot listen on ${config.host}:${config.port}: ${err.message}`);
+  process.exit(1);
+});
+
+let closing = false;
+async function shutdown(signal: string) {
+  if (closing) return;
+  closing = true;
+  console.log(`[resonote] ${signal}: finishing open requests`);
+  server.close();
+  server.closeIdleConnections();
+  const force = setTimeout(() => server.closeAllConnections(), 5000);
+  await new Promise<void>((resolve) => server.once('close', () => resolve()));
+  clearTimeout(force);
+  await handle.close();
+  console.log('[resonote] stopped');
+  process.exit(0);
+}
+process.on('SIGINT', () => void shutdown('SIGINT'));
+process.on('SIGTERM', () => void shutdown('SIGTERM'));

@@ -1,0 +1,185 @@
+// Real-input FFT plans for any length N >= 1, built on fft.js (radix-4, power-of-two sizes).
+//
+// - N a power of two (>= 4): the N real samples are packed as N/2 complex samples
+//   z_n = x_{2n} + j·x_{2n+1}, transformed with one complex FFT of N/2 points and split into the
+//   one-sided spectrum (the standard "real FFT via half-length complex FFT", e.g. Press et al.,
+//   Numerical Recipes, §12.3).
+// - Any other N: Bluestein's chirp-z algorithm (Bluestein 1970; Rabiner, Schafer & Rader 1969),
+//   i.e. a circular convolution of length M = 2^k >= 2N-1 computed with fft.js.
+// Plans are cached per N, and each plan owns its work buffers, so a transform allocates nothing.
+// Sign convention: X_k = Σ x_n e^{-j2πkn/N}, as numpy.fft.
+import FFT from 'fft.js';
+
+export interface RealFftPlan {
+  readonly n: number;
+  /** Number of one-sided bins, ⌊N/2⌋ + 1. */
+  readonly bins: number;
+  /**
+   * One-sided DFT of `input` (first N samples used) into outRe/outIm (first `bins` entries).
+   * The input buffer is not modified.
+   */
+  forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void;
+}
+
+function isPowerOfTwo(n: number): boolean {
+  return n > 0 && (n & (n - 1)) === 0;
+}
+
+class TinyPlan implements RealFftPlan {
+  readonly bins: number;
+  constructor(readonly n: number) {
+    this.bins = Math.floor(n / 2) + 1;
+  }
+  forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void {
+    if (this.n === 1) {
+      outRe[0] = input[0];
+      outIm[0] = 0;
+    } else {
+      outRe[0] = input[0] + input[1];
+      outIm[0] = 0;
+      outRe[1] = input[0] - input[1];
+      outIm[1] = 0;
+    }
+  }
+}
+
+class PowerOfTwoPlan implements RealFftPlan {
+  readonly bins: number;
+  private readonly half: number;
+  private readonly fft: FFT;
+  private readonly packed: Float64Array;
+  private readonly spec: Float64Array;
+  private readonly cosT: Float64Array;
+  private readonly sinT: Float64Array;
+
+  constructor(readonly n: number) {
+    this.half = n >>> 1;
+    this.bins = this.half + 1;
+    this.fft = new FFT(this.half);
+    this.packed = new Float64Array(n);
+    this.spec = new Float64Array(n);
+    this.cosT = new Float64Array(this.half + 1);
+    this.sinT = new Float64Array(this.half + 1);
+    for (let k = 0; k <= this.half; k++) {
+      const a = (2 * Math.PI * k) / n;
+      this.cosT[k] = Math.cos(a);
+      this.sinT[k] = Math.sin(a);
+    }
+  }
+
+  forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void {
+    const n = this.n;
+    const m = this.half;
+    const packed = this.packed;
+    for (let i = 0; i < n; i++) packed[i] = input[i];
+    this.fft.transform(this.spec, packed);
+    const z = this.spec;
+    const cosT = this.cosT;
+    const sinT = this.sinT;
+    // k = 0 and k = N/2 use Z_0 only.
+    outRe[0] = z[0] + z[1];
+    outIm[0] = 0;
+    outRe[m] = z[0] - z[1];
+    outIm[m] = 0;
+    for (let k = 1; k < m; k++) {
+      const zr = z[2 * k];
+      const zi = z[2 * k + 1];
+      const cr = z[2 * (m - k)];
+      const ci = -z[2 * (m - k) + 1];
+      const er = 0.5 * (zr + cr);
+      const ei = 0.5 * (zi + ci);
+      const or = 0.5 * (zi - ci);
+      const oi = -0.5 * (zr - cr);
+      const wr = cosT[k];
+      const wi = -sinT[k];
+      outRe[k] = er + wr * or - wi * oi;
+      outIm[k] = ei + wr * oi + wi * or;
+    }
+  }
+}
+
+class BluesteinPlan implements RealFftPlan {
+  readonly bins: number;
+  private readonly m: number;
+  private readonly fft: FFT;
+  private readonly chirpRe: Float64Array;
+  private readonly chirpIm: Float64Array;
+  private readonly kernel: Float64Array; // FFT of the conjugate chirp, interleaved
+  private readonly work: Float64Array;
+  private readonly work2: Float64Array;
+
+  constructor(readonly n: number) {
+    this.bins = Math.floor(n / 2) + 1;
+    let m = 1;
+    while (m < 2 * n - 1) m <<= 1;
+    this.m = Math.max(m, 2);
+    this.fft = new FFT(this.m);
+    this.chirpRe = new Float64Array(n);
+    this.chirpIm = new Float64Array(n);
+    const twoN = 2 * n;
+    for (let i = 0; i < n; i++) {
+      // n² mod 2N keeps the angle small, so the chirp stays accurate for long records.
+      const r = (i * i) % twoN;
+      const a = (Math.PI * r) / n;
+      this.chirpRe[i] = Math.cos(a);
+      this.chirpIm[i] = -Math.sin(a);
+    }
+    const b = new Float64Array(2 * this.m);
+    b[0] = this.chirpRe[0];
+    b[1] = -this.chirpIm[0];
+    for (let i = 1; i < n; i++) {
+      b[2 * i] = this.chirpRe[i];
+      b[2 * i + 1] = -this.chirpIm[i];
+      b[2 * (this.m - i)] = this.chirpRe[i];
+      b[2 * (this.m - i) + 1] = -this.chirpIm[i];
+    }
+    this.kernel = new Float64Array(2 * this.m);
+    this.fft.transform(this.kernel, b);
+    this.work = new Float64Array(2 * this.m);
+    this.work2 = new Float64Array(2 * this.m);
+  }
+
+  forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void {
+    const n = this.n;
+    const a = this.work;
+    a.fill(0);
+    for (let i = 0; i < n; i++) {
+      a[2 * i] = input[i] * this.chirpRe[i];
+      a[2 * i + 1] = input[i] * this.chirpIm[i];
+    }
+    const spec = this.work2;
+    this.fft.transform(spec, a);
+    const kern = this.kernel;
+    for (let i = 0; i < 2 * this.m; i += 2) {
+      const xr = spec[i];
+      const xi = spec[i + 1];
+      const yr = kern[i];
+      const yi = kern[i + 1];
+      spec[i] = xr * yr - xi * yi;
+      spec[i + 1] = xr * yi + xi * yr;
+    }
+    this.fft.inverseTransform(a, spec);
+    for (let k = 0; k < this.bins; k++) {
+      const cr = a[2 * k];
+      const ci = a[2 * k + 1];
+      outRe[k] = cr * this.chirpRe[k] - ci * this.chirpIm[k];
+      outIm[k] = cr * this.chirpIm[k] + ci * this.chirpRe[k];
+    }
+    outIm[0] = 0;
+    if (n % 2 === 0) outIm[this.bins - 1] = 0;
+  }
+}
+
+const plans = new Map<number, RealFftPlan>();
+
+/** Returns the cached real-FFT plan for length n (n >= 1). Not thread-safe across workers (each worker has its own cache). */
+export function realFftPlan(n: number): RealFftPlan {
+  let plan = plans.get(n);
+  if (!plan) {
+    if (n <= 2) plan = new TinyPlan(n);
+    else if (isPowerOfTwo(n)) plan = new PowerOfTwoPlan(n);
+    else plan = new BluesteinPlan(n);
+    plans.set(n, plan);
+  }
+  return plan;
+}

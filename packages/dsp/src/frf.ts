@@ -1,0 +1,209 @@
+import { SpectralAverager, frequencyAxis, oneSided } from './spectral-engine.ts';
+import type { Complex, ExponentialWindowOptions, ForceWindowOptions } from './types.ts';
+import { checkFs, checkSameLength, checkSamples } from './validate.ts';
+import { coherenceFromSums } from './welch.ts';
+import { exponentialWindow, forceWindow } from './windows.ts';
+
+/** One impact record: the force channel (N) and one or more response channels, equal lengths. */
+export interface Hit {
+  force: ArrayLike<number>;
+  responses: readonly ArrayLike<number>[];
+}
+
+export interface AverageFrfOptions {
+  /** Force window settings (applied to the force only), or null for none. */
+  forceWindow: ForceWindowOptions | null;
+  /** Exponential window settings (applied to force AND responses), or null for none. */
+  exponentialWindow: ExponentialWindowOptions | null;
+  /** Also compute the Hv (total least squares) estimator. Default false. */
+  hv?: boolean;
+}
+
+export interface AveragedFrf {
+  /** Frequency lines k·fs/N (Hz), k = 0 … ⌊N/2⌋. */
+  f: Float64Array;
+  /** H1 = G_fx/G_ff per response channel, in [response]/N (e.g. (m/s²)/N for accelerance). */
+  h1: Complex[];
+  /** H2 = G_xx/G_xf per response channel, same unit. */
+  h2: Complex[];
+  /** Hv (total least squares) per response channel, only when requested. */
+  hv?: Complex[];
+  /** Ordinary coherence γ² per response channel, 0 … 1. */
+  coherence: Float64Array[];
+  /** Averaged single-sided force ESD per hit, (2/n_d)·Σ|F_i|² (DC/Nyquist not doubled), N²·s/Hz. */
+  gff: Float64Array;
+  /** Averaged single-sided response ESD per hit for each channel, [response]²·s/Hz. */
+  gxx: Float64Array[];
+  /** Averaged single-sided cross ESD per hit (2/n_d)·Σ conj(F_i)·X_i, [response]·N·s/Hz. */
+  gfx: Complex[];
+  /** Number of hits averaged (n_d). */
+  averages: number;
+}
+
+function divideComplex(nr: number, ni: number, dr: number, di: number, out: Complex, k: number): void {
+  const d = dr * dr + di * di;
+  if (d > 0) {
+    out.re[k] = (nr * dr + ni * di) / d;
+    out.im[k] = (ni * dr - nr * di) / d;
+  } else {
+    out.re[k] = 0;
+    out.im[k] = 0;
+  }
+}
+
+/**
+ * Averages impact hits into FRF estimates, one per response channel (field-reference §2).
+ *
+ * For each hit i the windows are applied (force window on the force only, exponential window on the
+ * force and on every response, §3.1–§3.2), F_i and X_i are the transient spectra Δt·DFT, and
+ *   G_ff = (2/n_d)Σ|F_i|², G_xx = (2/n_d)Σ|X_i|², G_fx = (2/n_d)Σ conj(F_i)·X_i (force conjugated),
+ *   H1 = G_fx/G_ff, H2 = G_xx/G_xf with G_xf = conj(G_fx), γ² = |G_fx|²/(G_ff·G_xx),
+ *   Hv = [G_xx − G_ff + √((G_xx − G_ff)² + 4|G_fx|²)]/(2·G_xf) (optional; depends on the units of the
+ *   channels, which the caller records).
+ * Exactly H1/H2 = γ², so |H1| ≤ |H2|; one hit gives γ² ≡ 1. Lines whose denominator is exactly 0
+ * (no force or no response energy at all) return 0 for H and γ², never NaN.
+ * Inputs: hits with equal-length records (force in N, responses in their unit), fs in Hz.
+ * The force offset is not removed here: subtract the pre-trigger mean before calling.
+ * Sources: Bendat & Piersol, Random Data (2010); Ewins, Modal Testing (2000) Ch. 3; Vold, Crowley &
+ * Rocklin 1984 for Hv. Same sign as numpy.fft (e^{−j2πft}).
+ */
+export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrfOptions): AveragedFrf {
+  checkFs(fs);
+  if (!Array.isArray(hits) || hits.length === 0) throw new RangeError('hits is empty (length 0): at least one hit is needed');
+  if (!options || typeof options !== 'object') throw new RangeError(`options=${String(options)} must be an object`);
+  const first = hits[0];
+  if (!first || !first.force || !first.responses) throw new RangeError('hits[0] must have force and responses');
+  const n = first.force.length;
+  if (n === 0) throw new RangeError('hits[0].force is empty (length 0)');
+  const channels = first.responses.length;
+  if (channels === 0) throw new RangeError('hits[0].responses is empty: at least one response channel is needed');
+  hits.forEach((h, i) => {
+    if (!h || !h.force || !Array.isArray(h.responses)) throw new RangeError(`hits[${i}] must have force and responses`);
+    checkSameLength(n, h.force.length, 'hits[0].force', `hits[${i}].force`);
+    if (h.responses.length !== channels) {
+      throw new RangeError(`hits[${i}] has ${h.responses.length} response channels but hits[0] has ${channels}`);
+    }
+    h.responses.forEach((r: ArrayLike<number>, c: number) => checkSameLength(n, r?.length ?? 0, `hits[${i}].force`, `hits[${i}].responses[${c}]`));
+  });
+
+  const ew = options.exponentialWindow ? exponentialWindow(n, fs, options.exponentialWindow) : null;
+  let fw = options.forceWindow ? forceWindow(n, fs, options.forceWindow) : null;
+  if (fw && ew) for (let i = 0; i < n; i++) fw[i] *= ew[i];
+  else if (ew) fw = ew;
+
+  const avg = new SpectralAverager(n, channels);
+  hits.forEach((h, i) => {
+    avg.add(h.force, h.responses, 0, fw, ew, {
+      ref: `hits[${i}].force`,
+      other: (c) => `hits[${i}].responses[${c}]`,
+    });
+  });
+  return frfFromSums(avg, fs, options.hv === true);
+}
+
+/** The estimator layer: H1, H2, Hv, γ² and the ESD-per-hit spectra from the engine's raw sums. */
+function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): AveragedFrf {
+  const bins = avg.bins;
+  const n = avg.n;
+  const dt = 1 / fs;
+  const esdScale = (dt * dt) / avg.count;
+  const h1: Complex[] = [];
+  const h2: Complex[] = [];
+  const hv: Complex[] = [];
+  const gfx: Complex[] = [];
+  const gxx: Float64Array[] = [];
+  const coherence: Float64Array[] = [];
+  const gffRaw = avg.refAuto;
+  for (let c = 0; c < avg.channels; c++) {
+    const cr = avg.crossRe[c];
+    const ci = avg.crossIm[c];
+    const xx = avg.auto[c];
+    const a: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
+    const b: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
+    const v: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
+    for (let k = 0; k < bins; k++) {
+      // H1 = G_fx / G_ff (G_ff real)
+      const ff = gffRaw[k];
+      a.re[k] = ff > 0 ? cr[k] / ff : 0;
+      a.im[k] = ff > 0 ? ci[k] / ff : 0;
+      // H2 = G_xx / conj(G_fx)
+      divideComplex(xx[k], 0, cr[k], -ci[k], b, k);
+      if (withHv) {
+        const d = xx[k] - ff;
+        const num = d + Math.sqrt(d * d + 4 * (cr[k] * cr[k] + ci[k] * ci[k]));
+        divideComplex(num, 0, 2 * cr[k], -2 * ci[k], v, k);
+      }
+    }
+    h1.push(a);
+    h2.push(b);
+    if (withHv) hv.push(v);
+    coherence.push(coherenceFromSums(avg, c));
+    gxx.push(oneSided(xx, n, esdScale));
+    gfx.push({ re: oneSided(cr, n, esdScale), im: oneSided(ci, n, esdScale) });
+  }
+  const result: AveragedFrf = {
+    f: frequencyAxis(n, fs, bins),
+    h1,
+    h2,
+    coherence,
+    gff: oneSided(gffRaw, n, esdScale),
+    gxx,
+    gfx,
+    averages: avg.count,
+  };
+  if (withHv) result.hv = hv;
+  return result;
+}
+
+export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
+
+const ORDER: Record<FrfKind, number> = { receptance: 0, mobility: 1, accelerance: 2 };
+
+/**
+ * Converts an FRF between receptance (m/N), mobility ((m/s)/N) and accelerance ((m/s²)/N) by
+ * multiplying by jω once per step up (receptance → mobility → accelerance) or dividing by jω once per
+ * step down, ω = 2πf (field-reference §5.1: Y = jω·α, A = −ω²·α; time dependence e^{+jωt}).
+ *
+ * In: h (complex, per line), f (Hz, same length). Out: a new complex array.
+ * At f = 0 a division has no finite value (a free structure's receptance is unbounded there): that
+ * line is set to 0 (never NaN or Infinity); a multiplication gives 0 at f = 0 naturally.
+ */
+export function convertFrf(h: Complex, f: ArrayLike<number>, from: FrfKind, to: FrfKind): Complex {
+  if (!(from in ORDER)) throw new RangeError(`from=${String(from)} must be 'receptance', 'mobility' or 'accelerance'`);
+  if (!(to in ORDER)) throw new RangeError(`to=${String(to)} must be 'receptance', 'mobility' or 'accelerance'`);
+  if (!h || !h.re || !h.im) throw new RangeError('h must have re and im arrays');
+  const n = checkSamples(h.re, 'h.re');
+  checkSameLength(n, checkSamples(h.im, 'h.im'), 'h.re', 'h.im');
+  checkSameLength(n, checkSamples(f, 'f'), 'h.re', 'f');
+  const steps = ORDER[to] - ORDER[from];
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const w = 2 * Math.PI * f[k];
+    let r = h.re[k];
+    let i = h.im[k];
+    if (steps > 0) {
+      for (let s = 0; s < steps; s++) {
+        // (r + ji)·jω = −ωi + jωr
+        const t = -w * i;
+        i = w * r;
+        r = t;
+      }
+    } else if (steps < 0) {
+      if (w === 0) {
+        r = 0;
+        i = 0;
+      } else {
+        for (let s = 0; s < -steps; s++) {
+          // (r + ji)/(jω) = i/ω − j·r/ω
+          const t = i / w;
+          i = -r / w;
+          r = t;
+        }
+      }
+    }
+    re[k] = r;
+    im[k] = i;
+  }
+  return { re, im };
+}

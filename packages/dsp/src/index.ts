@@ -1,0 +1,29 @@
+// @resonote/dsp — signal processing for impact-hammer FRF testing. Pure TypeScript, no I/O.
+export type { Complex, WindowName, SpectrumScaling, ForceWindowOptions, ExponentialWindowOptions } from './types.ts';
+export {
+  transientSpectrum,
+  energySpectralDensity,
+  linearSpectrum,
+  autopowerSpectrum,
+  type PeriodicSpectrumOptions,
+} from './spectra.ts';
+export { welchPsd, welchCsd, welchCoherence, type WelchOptions } from './welch.ts';
+export {
+  analysisWindow,
+  forceWindow,
+  exponentialWindow,
+  tauFromEndLevel,
+  correctExponentialDamping,
+} from './windows.ts';
+export { findTrigger, type TriggerOptions, type TriggerResult } from './trigger.ts';
+export {
+  checkHit,
+  defaultHitLimits,
+  type HitLimits,
+  type HitCheck,
+  type HitReason,
+  type HitReasonCode,
+  type ResponseCheck,
+} from './hit-check.ts';
+export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
+export { mac, frac } from './assurance.ts';

@@ -1,0 +1,68 @@
+// Starts the real API (createApp) on a fresh database for one test file.
+import net from 'node:net';
+import type { Server } from 'node:http';
+import request from 'supertest';
+import { createApp, type AppHandle } from '@resonote/api/app';
+import { loadConfig, type Config } from '@resonote/api/config';
+import { freshDatabase } from './db.ts';
+
+export interface TestApp {
+  handle: AppHandle;
+  config: Config;
+  /** The Origin header better-auth expects on cookie-carrying POSTs. */
+  origin: string;
+  agent(): ReturnType<typeof request.agent>;
+  close(): Promise<void>;
+}
+
+export async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = net.createServer();
+    server.once('error', reject);
+    server.listen(0, '127.0.0.1', () => {
+      const port = (server.address() as net.AddressInfo).port;
+      server.close(() => resolve(port));
+    });
+  });
+}
+
+export async function startTestApp(
+  template: string,
+  env: Record<string, string> = {},
+  options: { listen?: boolean } = {},
+): Promise<TestApp & { server?: Server; baseUrl: string }> {
+  const database = await freshDatabase(template);
+  const port = options.listen ? await freePort() : 3999;
+  const config = loadConfig({
+    NODE_ENV: 'test',
+    PORT: String(port),
+    DATABASE_URL: database.url,
+    SMTP_CAPTURE_PORT: '0',
+    LOG_REQUESTS: 'false',
+    AUTH_RATE_LIMIT_MAX: '1000',
+    ...env,
+  });
+  const handle = await createApp({ config, log: () => undefined });
+  let server: Server | undefined;
+  if (options.listen) {
+    server = await new Promise<Server>((resolve) => {
+      const s = handle.app.listen(port, '127.0.0.1', () => resolve(s));
+    });
+  }
+  return {
+    handle,
+    config,
+    server,
+    baseUrl: config.publicUrl,
+    origin: config.publicUrl,
+    agent: () => request.agent(handle.app).set('origin', config.publicUrl),
+    async close() {
+      if (server) {
+        server.closeAllConnections();
+        await new Promise<void>((resolve) => server!.close(() => resolve()));
+      }
+      await handle.close();
+      await database.drop();
+    },
+  };
+}

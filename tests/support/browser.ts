@@ -1,0 +1,38 @@
+// Debian's chromium driven by playwright-core (never a downloaded browser). Screenshots land in
+// test-output/screenshots so a person can open and judge them.
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type Browser, type Page } from 'playwright-core';
+
+export const screenshotDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../test-output/screenshots');
+
+export async function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.RESONOTE_CHROMIUM ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}
+
+export const viewports = {
+  laptop: { width: 1366, height: 768 },
+  tablet: { width: 768, height: 1024 },
+} as const;
+
+export async function screenshot(page: Page, name: string): Promise<string> {
+  fs.mkdirSync(screenshotDir, { recursive: true });
+  const file = path.join(screenshotDir, `${name}.png`);
+  await page.screenshot({ path: file, fullPage: true });
+  return file;
+}
+
+/** Collects errors the page logs, so a test can assert there were none. */
+export function watchConsole(page: Page): string[] {
+  const errors: string[] = [];
+  page.on('console', (msg) => {
+    if (msg.type() === 'error' && !/Failed to load resource: the server responded with a status of 40[13]/.test(msg.text())) errors.push(msg.text());
+  });
+  page.on('pageerror', (err) => errors.push(err.message));
+  return errors;
+}
