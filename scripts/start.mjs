@@ -7,7 +7,7 @@ import { buildWeb, ensurePostgres, installDependencies, log, root } from './boot
 
 const started = Date.now();
 installDependencies();
-const pg = ensurePostgres({ name: 'dev', port: 54329, database: 'resonote' });
+const pg = ensurePostgres({ name: 'dev', port: Number(process.env.RESONOTE_PG_PORT ?? 54329), database: 'resonote' });
 buildWeb();
 
 const server = spawn(process.execPath, ['--import', 'tsx', 'src/server.ts', '--seed'], {

@@ -6,7 +6,7 @@ import path from 'node:path';
 import { buildWeb, ensureChromium, ensurePostgres, installDependencies, log, root } from './bootstrap.mjs';
 
 installDependencies();
-const pg = ensurePostgres({ name: 'test', port: 54339, database: 'postgres' });
+const pg = ensurePostgres({ name: 'test', port: Number(process.env.RESONOTE_TEST_PG_PORT ?? 54339), database: 'postgres' });
 const chromium = ensureChromium();
 buildWeb();
 
