@@ -1,4 +1,5 @@
 import { digitiseInPlace, quantisationStep } from './adc.ts';
+import { decimationFilter, filterDecimate } from './anti-alias.ts';
 import { parseDof } from './dof.ts';
 import { addSdofHalfSineResponse, halfSineForce, type HalfSinePulse } from './half-sine.ts';
 import { compileModel, shapeVector, type ModalModel } from './modal-model.ts';
@@ -41,6 +42,15 @@ export interface HitOptions {
   adcBits?: number;
   /** Constant offsets added before digitising (force in N; responses in m/s², one or per channel). */
   dcOffset?: { forceN?: number; responseMs2?: number | number[] };
+  /**
+   * Pass the signals through the front end's anti-alias filter (anti-alias.ts): computed exactly
+   * at `oversample`·fs, low-pass filtered at fs/2 and decimated, the same on every channel.
+   * Default true, as in every real front end. Set false to get the exact samples of the
+   * continuous signals (then force content above fs/2 aliases into the band).
+   */
+  antiAlias?: boolean;
+  /** Oversampling factor of the anti-alias stage, integer 2…64 (default 8). */
+  oversample?: number;
 }
 
 /** What the simulator put in, for checks and for the demo's "did the fit recover it" test. */
@@ -57,7 +67,10 @@ export interface HitTruth {
   /** Quantisation steps, N and m/s² per channel. */
   quantStepForceN: number;
   quantStepResponseMs2: number[];
-  /** Noise-free, offset-free, undigitised signals: force (N) and accelerations (m/s²). */
+  /** Whether the anti-alias stage was applied, and its oversampling factor (1 when not). */
+  antiAlias: boolean;
+  oversample: number;
+  /** Noise-free, offset-free, undigitised signals (after the anti-alias filter when it is on): force (N) and accelerations (m/s²). */
   cleanForce: Float64Array;
   cleanResponses: Float64Array[];
 }
@@ -88,9 +101,11 @@ function perChannel(name: string, value: number | number[] | undefined, channels
  *   optional second pulse for a double hit (§4.1).
  * - Response: acceleration a_i(t) = Σ_r φ_ir·φ_kr·q̈_r(t), with q̈_r the EXACT response of mode r
  *   (unit modal mass) to the force, from the closed-form Duhamel integral of a half-sine
- *   (half-sine.ts). So Δt·DFT(a)/Δt·DFT(f) of a fully decayed, noise-free record equals the
- *   accelerance of modelFrf up to sampling aliasing. No anti-alias filter is modelled: choose fs
- *   well above the force spectrum's useful band (its first zero is at 1.5/T, §1.2).
+ *   (half-sine.ts) — no time stepping.
+ * - Front end: both signals are computed at `oversample`·fs and pass the same linear-phase
+ *   anti-alias filter before decimation (anti-alias.ts; `antiAlias: false` skips it). So
+ *   Δt·DFT(a)/Δt·DFT(f) of a fully decayed, noise-free record equals the accelerance of
+ *   modelFrf to ~1e-4 across the band below 0.4·fs.
  * - Then, per channel: + DC offset + white gaussian noise (rms as given), then a `adcBits`
  *   converter over ±range (quantisation step 2·range/2^bits; values beyond the range are limited
  *   and set the overload flag, §4.2).
@@ -143,20 +158,40 @@ export function simulateHit(model: ModalModel, options: HitOptions, rng: Rng): S
   const responseDofs = o.responseDofs.map((d) => parseDof(d).label);
   const phiJ = responseDofs.map((d) => shapeVector(compiled, d));
 
-  // Clean signals.
-  const cleanForce = halfSineForce(pulses, fs, samples);
-  const cleanResponses = responseDofs.map(() => new Float64Array(samples));
-  const modal = new Float64Array(samples);
+  // Clean signals, exact at the (over)sampling instants. With the anti-alias stage, high-rate
+  // sample m lies at t = (m − D)/(R·fs), D = the filter's centre tap, so that output sample n
+  // (centred on high-rate sample nR + D) lies at t = n/fs and the filter adds no delay.
+  const antiAlias = o.antiAlias ?? true;
+  const R = antiAlias ? requireInteger('oversample', o.oversample ?? 8, 2, 64) : 1;
+  const taps = antiAlias ? decimationFilter(R) : null;
+  const D = taps ? (taps.length - 1) / 2 : 0;
+  const fsHi = fs * R;
+  const hiLength = (samples - 1) * R + 1 + 2 * D;
+  const hiPulses = pulses.map((p) => ({ ...p, startS: p.startS + D / fsHi }));
+  const forceHi = halfSineForce(hiPulses, fsHi, hiLength);
+  const responsesHi = responseDofs.map(() => new Float64Array(hiLength));
+  const modal = new Float64Array(hiLength);
   for (let r = 0; r < compiled.count; r++) {
     if (phiK[r] === 0) continue;
     modal.fill(0);
-    for (const pulse of pulses) addSdofHalfSineResponse(modal, compiled.omega[r], compiled.zeta[r], pulse, fs, 1, 2);
+    for (const pulse of hiPulses) addSdofHalfSineResponse(modal, compiled.omega[r], compiled.zeta[r], pulse, fsHi, 1, 2);
     for (let c = 0; c < channels; c++) {
       const gain = phiJ[c][r] * phiK[r];
       if (gain === 0) continue;
-      const out = cleanResponses[c];
-      for (let n = 0; n < samples; n++) out[n] += gain * modal[n];
+      const out = responsesHi[c];
+      for (let n = 0; n < hiLength; n++) out[n] += gain * modal[n];
     }
+  }
+  let cleanForce = forceHi;
+  let cleanResponses = responsesHi;
+  if (taps) {
+    cleanForce = new Float64Array(samples);
+    filterDecimate(forceHi, taps, R, cleanForce);
+    cleanResponses = responsesHi.map((x) => {
+      const y = new Float64Array(samples);
+      filterDecimate(x, taps, R, y);
+      return y;
+    });
   }
 
   // Measured signals: offset + noise, then the converter.
@@ -187,6 +222,8 @@ export function simulateHit(model: ModalModel, options: HitOptions, rng: Rng): S
       samples,
       pulses,
       doubleHit: pulses.length > 1,
+      antiAlias,
+      oversample: R,
       impulseNs: pulses.reduce((sum, p) => sum + (2 * p.amplitudeN * p.widthS) / Math.PI, 0),
       quantStepForceN: quantisationStep(forceRange, bits),
       quantStepResponseMs2: responseRanges.map((r) => quantisationStep(r, bits)),

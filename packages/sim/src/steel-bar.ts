@@ -35,7 +35,8 @@ export interface SteelBarModelInput {
   /** Number of stiff-direction (±Y) bending modes, default 2 (0 to leave them out). */
   stiffCount?: number;
   /**
-   * Add the four rigid-body modes (translation and rotation in Z and in Y) as fnHz = 0 modes, so
+   * Add the rigid-body modes (translation and rotation, in Z and/or Y for each direction that has
+   * elastic modes) as fnHz = 0 modes, so
    * the accelerance tends to the mass line at low frequency. Default false: the bar hangs on
    * supports soft enough that their modes are far below the band and the demo's modal fit
    * only has elastic poles to recover.
@@ -65,7 +66,7 @@ export function steelBarModel(input: SteelBarModelInput): ModalModel {
   };
   const weakCount = requireInteger('weakCount', input.weakCount ?? 5, 0, 200);
   const stiffCount = requireInteger('stiffCount', input.stiffCount ?? 2, 0, 200);
-  if (weakCount + stiffCount === 0 && !input.rigidBody) {
+  if (weakCount + stiffCount === 0) {
     throw new RangeError('weakCount=0 and stiffCount=0 leave the bar model without modes');
   }
   if (!Array.isArray(input.points) || input.points.length === 0) {
@@ -88,9 +89,9 @@ export function steelBarModel(input: SteelBarModelInput): ModalModel {
     ['stiff', 'Y', stiffCount],
   ];
   for (const [direction, axis, count] of families) {
-    if (count === 0 && !input.rigidBody) continue;
-    const beam = freeFreeBeamModes({ ...geometry, direction, count: Math.max(count, 1) });
-    for (const mode of beam.modes.slice(0, count)) {
+    if (count === 0) continue;
+    const beam = freeFreeBeamModes({ ...geometry, direction, count });
+    for (const mode of beam.modes) {
       const shape: Record<string, number> = {};
       for (const p of input.points) shape[dofLabel(p.label, axis)] = mode.shapeAt(p.xM);
       elastic.push({ fnHz: mode.fnHz, shape });
