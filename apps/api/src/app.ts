@@ -12,14 +12,21 @@ import { authHandler } from './auth-handler.ts';
 import { resolveUser } from './context.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
 import { createMailer, type Mailer } from './mail.ts';
-import { campaignRoutes } from './routes/campaigns.ts';
-import { systemRoutes } from './routes/system.ts';
+import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
+import { registerCampaignRoutes } from './routes/campaigns.ts';
+import { registerGeometryRoutes } from './routes/geometry.ts';
+import { registerKitRoutes } from './routes/kit.ts';
+import { registerScheduleRoutes } from './routes/schedule.ts';
+import { registerSettingsRoutes } from './routes/settings.ts';
+import { registerSystemRoutes } from './routes/system.ts';
 
 export interface AppHandle {
   app: Express;
   auth: Auth;
   mailer: Mailer;
   database: DbHandle;
+  /** Every API route with its access rule (OpenAPI and the authorization matrix test use it). */
+  routes: RegisteredRoute[];
   close(): Promise<void>;
 }
 
@@ -67,10 +74,17 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   // better-auth reads the raw body itself, so it is mounted before express.json().
   app.all('/api/auth/*splat', authHandler(auth));
 
-  app.use('/api', express.json({ limit: config.jsonBodyLimit, strict: true }));
+  const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
+  const deps = { routes, db: database.db, config, mailer };
+  registerSystemRoutes(deps);
+  registerCampaignRoutes(deps);
+  registerGeometryRoutes(deps);
+  registerScheduleRoutes(deps);
+  registerKitRoutes(deps);
+  registerSettingsRoutes(deps);
+
   app.use('/api', resolveUser(auth));
-  app.use('/api', systemRoutes(database.db, config));
-  app.use('/api', campaignRoutes(database.db));
+  app.use('/api', routes.router);
   app.use('/api', unknownApiRoute);
 
   const webDist = config.webDist ?? defaultWebDist;
@@ -86,13 +100,15 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     });
   }
 
-  app.use(errorHandler(log));
+  // Unexpected errors always reach the console (and fail a test through its console.error guard).
+  app.use(errorHandler((message) => console.error(message)));
 
   return {
     app,
     auth,
     mailer,
     database,
+    routes: routes.registry,
     async close() {
       await mailer.close();
       await database.close();

@@ -1,45 +1,82 @@
-// Health, the signed-in user, the public settings the browser may see, and the admin's mail box.
-import { Router } from 'express';
+// Health, the signed-in user, the public settings the browser may see, the admin's mail box, and
+// the API reference.
 import { count, desc, eq, sql } from 'drizzle-orm';
 import { capturedMail, campaignMember } from '@resonote/db/schema';
-import type { Db } from '@resonote/db/client';
-import type { Config } from '../config.ts';
-import { requireAdmin, requireUser } from '../context.ts';
+import type { Deps } from './deps.ts';
 import { MIN_PASSWORD_LENGTH } from '../auth.ts';
+import { apiReferenceHtml, openApiDocument } from '../http/openapi.ts';
 
-export function systemRoutes(db: Db, config: Config): Router {
-  const router = Router();
-
-  router.get('/health', async (_req, res) => {
-    const started = Date.now();
-    try {
-      await db.execute(sql`SELECT 1`);
-      res.json({ status: 'ok', database: { status: 'up', latencyMs: Date.now() - started } });
-    } catch (err) {
-      res.status(503).json({ status: 'degraded', database: { status: 'down', message: (err as Error).message } });
-    }
+export function registerSystemRoutes({ routes, db, config }: Deps): void {
+  routes.add({
+    method: 'get',
+    path: '/health',
+    tag: 'System',
+    access: 'public',
+    summary: 'Health of the server and its database',
+    returns: '{ status, database: { status, latencyMs } }; 503 when the database is down',
+    handler: async ({ res }) => {
+      const started = Date.now();
+      try {
+        await db.execute(sql`SELECT 1`);
+        return { status: 'ok', database: { status: 'up', latencyMs: Date.now() - started } };
+      } catch (err) {
+        res.status(503).json({ status: 'degraded', database: { status: 'down', message: (err as Error).message } });
+      }
+    },
   });
 
   // What the browser may know of the configuration: an explicit allow-list.
-  router.get('/public-settings', (_req, res) => {
-    res.json({
-      appName: 'Resonote',
-      requireEmailVerification: config.requireEmailVerification,
-      minPasswordLength: MIN_PASSWORD_LENGTH,
-      mailCapture: !config.smtpUrl,
-    });
+  routes.add({
+    method: 'get',
+    path: '/public-settings',
+    tag: 'System',
+    access: 'public',
+    summary: 'Settings the sign-up page needs',
+    handler: () => ({ appName: 'Resonote', requireEmailVerification: config.requireEmailVerification, minPasswordLength: MIN_PASSWORD_LENGTH, mailCapture: !config.smtpUrl }),
   });
 
-  router.get('/me', requireUser, async (req, res) => {
-    const user = req.user!;
-    const [row] = await db.select({ n: count() }).from(campaignMember).where(eq(campaignMember.userId, user.id));
-    res.json({ user, campaignCount: row?.n ?? 0 });
+  routes.add({
+    method: 'get',
+    path: '/me',
+    tag: 'System',
+    access: 'user',
+    summary: 'The signed-in person, their instance role and how many campaigns they belong to',
+    handler: async ({ user }) => {
+      const [row] = await db.select({ n: count() }).from(campaignMember).where(eq(campaignMember.userId, user.id));
+      return { user, campaignCount: row?.n ?? 0 };
+    },
   });
 
-  router.get('/admin/mail', requireAdmin, async (_req, res) => {
-    const rows = await db.select().from(capturedMail).orderBy(desc(capturedMail.receivedAt)).limit(200);
-    res.json({ mail: rows, capturing: !config.smtpUrl });
+  routes.add({
+    method: 'get',
+    path: '/admin/mail',
+    tag: 'System',
+    access: 'admin',
+    summary: 'Mail captured by the local SMTP fake, newest first (200 at most)',
+    handler: async () => {
+      const rows = await db.select().from(capturedMail).orderBy(desc(capturedMail.receivedAt)).limit(200);
+      return { mail: rows, capturing: !config.smtpUrl };
+    },
   });
 
-  return router;
+  routes.add({
+    method: 'get',
+    path: '/openapi.json',
+    tag: 'System',
+    access: 'public',
+    summary: 'This API as an OpenAPI 3.1 document',
+    handler: () => openApiDocument(routes.registry, config.publicUrl),
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/docs',
+    tag: 'System',
+    access: 'public',
+    summary: 'Readable API reference',
+    produces: 'text/html',
+    handler: ({ res }) => {
+      res.type('html').send(apiReferenceHtml(routes.registry));
+    },
+  });
 }

@@ -1,6 +1,6 @@
 // Campaigns and per-campaign roles (design.md, "Who uses it"). A person's role is per campaign;
 // the instance role (admin) lives on the user row.
-import { integer, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
+import { index, integer, pgTable, primaryKey, text, timestamp, uuid } from 'drizzle-orm/pg-core';
 import { user } from './auth.ts';
 
 export const campaignRoles = ['lead', 'engineer', 'viewer'] as const;
@@ -41,4 +41,25 @@ export const campaignMember = pgTable(
     addedAt: timestamp('added_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.campaignId, t.userId] })],
+);
+
+/** An invitation mailed by a lead: a link that signs up or joins. Only a hash of the token is stored. */
+export const campaignInvitation = pgTable(
+  'campaign_invitation',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    campaignId: uuid('campaign_id')
+      .notNull()
+      .references(() => campaign.id, { onDelete: 'cascade' }),
+    email: text('email').notNull(),
+    role: text('role', { enum: campaignRoles }).notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    invitedBy: text('invited_by').references(() => user.id, { onDelete: 'set null' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+    acceptedBy: text('accepted_by').references(() => user.id, { onDelete: 'set null' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+  },
+  (t) => [index('campaign_invitation_campaign_idx').on(t.campaignId)],
 );

@@ -2,3 +2,7 @@
 export * from './auth.ts';
 export * from './campaign.ts';
 export * from './mail.ts';
+export * from './plan.ts';
+export * from './kit.ts';
+export * from './audit.ts';
+export * from './hits.ts';

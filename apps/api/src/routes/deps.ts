@@ -1,0 +1,12 @@
+import type { Db } from '@resonote/db/client';
+import type { Config } from '../config.ts';
+import type { Mailer } from '../mail.ts';
+import type { ApiRoutes } from '../http/route.ts';
+
+/** What every route module gets. */
+export interface Deps {
+  routes: ApiRoutes;
+  db: Db;
+  config: Config;
+  mailer: Mailer;
+}

@@ -1,0 +1,179 @@
+// The point schedule: generated from the test type and the reference DOFs, ordered, with status,
+// required hits and assignee.
+import { aliasedTable, and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
+import { z } from 'zod';
+import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema, type Direction } from '@resonote/contracts';
+import { acquisitionSettings, campaign, campaignMember, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import type { Deps } from './deps.ts';
+import { audit } from '../http/audit.ts';
+import { staleWrite } from '../http/concurrency.ts';
+import { badRequest, forbidden, HttpError, notFound } from '../errors.ts';
+import { pairKey, planSchedule } from '../plan/schedule-plan.ts';
+
+const responsePoint = aliasedTable(point, 'response_point');
+const excitationPoint = aliasedTable(point, 'excitation_point');
+
+export function registerScheduleRoutes({ routes, db }: Deps): void {
+  async function listSchedule(campaignId: string, entryIds?: string[]) {
+    const counts = db
+      .select({
+        entryId: hit.scheduleEntryId,
+        accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`.as('accepted'),
+        rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`.as('rejected'),
+      })
+      .from(hit)
+      .where(eq(hit.campaignId, campaignId))
+      .groupBy(hit.scheduleEntryId)
+      .as('counts');
+    const rows = await db
+      .select({
+        id: scheduleEntry.id,
+        position: scheduleEntry.position,
+        responsePointId: scheduleEntry.responsePointId,
+        responseLabel: responsePoint.label,
+        responseDirection: scheduleEntry.responseDirection,
+        excitationPointId: scheduleEntry.excitationPointId,
+        excitationLabel: excitationPoint.label,
+        excitationDirection: scheduleEntry.excitationDirection,
+        drivingPoint: scheduleEntry.drivingPoint,
+        status: scheduleEntry.status,
+        requiredHits: scheduleEntry.requiredHits,
+        assigneeId: scheduleEntry.assigneeId,
+        assigneeName: user.name,
+        note: scheduleEntry.note,
+        version: scheduleEntry.version,
+        updatedAt: scheduleEntry.updatedAt,
+        acceptedHits: sql<number>`coalesce(${counts.accepted}, 0)`,
+        rejectedHits: sql<number>`coalesce(${counts.rejected}, 0)`,
+      })
+      .from(scheduleEntry)
+      .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
+      .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
+      .leftJoin(user, eq(user.id, scheduleEntry.assigneeId))
+      .leftJoin(counts, eq(counts.entryId, scheduleEntry.id))
+      .where(and(eq(scheduleEntry.campaignId, campaignId), entryIds ? inArray(scheduleEntry.id, entryIds) : undefined))
+      .orderBy(asc(scheduleEntry.position));
+    return rows.map((r) => ({ ...r, responseDof: `${r.responseLabel}:${r.responseDirection}`, excitationDof: `${r.excitationLabel}:${r.excitationDirection}` }));
+  }
+
+  routes.add({
+    method: 'get',
+    path: '/campaigns/:campaignId/schedule',
+    tag: 'Schedule',
+    access: 'viewer',
+    summary: 'The schedule in working order: each entry is H(response DOF, excitation DOF) with status, hits and assignee',
+    handler: async ({ campaign: access }) => ({ entries: await listSchedule(access.campaignId) }),
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/campaigns/:campaignId/schedule/next',
+    tag: 'Schedule',
+    access: 'viewer',
+    summary: 'The entry to work on next: the first in progress, else the first planned (optionally among those assigned to the caller)',
+    query: z.strictObject({ mine: z.enum(['true', 'false']).optional() }),
+    handler: async ({ query, user: me, campaign: access }) => {
+      const entries = await listSchedule(access.campaignId);
+      const pool = query.mine === 'true' ? entries.filter((e) => e.assigneeId === me.id || e.assigneeId === null) : entries;
+      const next = pool.find((e) => e.status === 'in-progress') ?? pool.find((e) => e.status === 'planned') ?? null;
+      return { next, remaining: entries.filter((e) => e.status === 'planned' || e.status === 'in-progress').length };
+    },
+  });
+
+  routes.add({
+    method: 'post',
+    path: '/campaigns/:campaignId/schedule/generate',
+    tag: 'Schedule',
+    access: 'lead',
+    summary: 'Build the schedule from the test type, the reference DOFs and the points’ directions. Keeps existing entries; adds the missing ones at the end; removes planned entries that no longer apply and have no hits',
+    body: scheduleGenerateSchema,
+    returns: '{ added, removed, kept, entries }',
+    handler: async ({ body, campaign: access, user: me }) => {
+      const summary = await db.transaction(async (tx) => {
+        const [c] = await tx.select().from(campaign).where(eq(campaign.id, access.campaignId)).for('update');
+        if (!c) throw notFound('That campaign');
+        const points = await tx.select({ id: point.id, label: point.label, directions: point.directions }).from(point).where(and(eq(point.campaignId, c.id), isNull(point.retiredAt)));
+        const plan = planSchedule(c.testType, c.referenceDofs, points.map((p) => ({ ...p, directions: p.directions as Direction[] })));
+        if (!plan.ok) throw new HttpError(400, 'cannot-plan', plan.message);
+        const [settings] = await tx.select({ settings: acquisitionSettings.settings }).from(acquisitionSettings).where(eq(acquisitionSettings.campaignId, c.id)).orderBy(sql`${acquisitionSettings.version} DESC`).limit(1);
+        const requiredHits = body.requiredHits ?? (settings?.settings as { hitsToAverage?: number } | undefined)?.hitsToAverage ?? 5;
+        const existing = await tx.select().from(scheduleEntry).where(eq(scheduleEntry.campaignId, c.id));
+        const wanted = new Set(plan.pairs.map(pairKey));
+        const have = new Map(existing.map((e) => [pairKey(e), e]));
+        const stale = existing.filter((e) => !wanted.has(pairKey(e)));
+        let removed = 0;
+        if (stale.length) {
+          const withHits = new Set(
+            (await tx.selectDistinct({ id: hit.scheduleEntryId }).from(hit).where(inArray(hit.scheduleEntryId, stale.map((s) => s.id)))).map((r) => r.id),
+          );
+          const removable = stale.filter((s) => s.status === 'planned' && !withHits.has(s.id)).map((s) => s.id);
+          if (removable.length) {
+            await tx.delete(scheduleEntry).where(inArray(scheduleEntry.id, removable));
+            removed = removable.length;
+          }
+        }
+        let position = existing.reduce((m, e) => Math.max(m, e.position), 0);
+        const toAdd = plan.pairs.filter((p) => !have.has(pairKey(p))).map((p) => ({ ...p, campaignId: c.id, position: ++position, requiredHits }));
+        for (let i = 0; i < toAdd.length; i += 1000) await tx.insert(scheduleEntry).values(toAdd.slice(i, i + 1000));
+        const result = { added: toAdd.length, removed, kept: existing.length - removed };
+        await audit(tx, { campaignId: c.id, actorId: me.id, entity: 'schedule', entityId: c.id, action: 'generate', after: { ...result, testType: c.testType, referenceDofs: c.referenceDofs, requiredHits } });
+        return result;
+      });
+      return { ...summary, entries: await listSchedule(access.campaignId) };
+    },
+  });
+
+  routes.add({
+    method: 'patch',
+    path: '/campaigns/:campaignId/schedule/:entryId',
+    tag: 'Schedule',
+    access: 'engineer',
+    summary: 'Change an entry: status and note (engineers and leads); required hits and assignee (leads)',
+    body: scheduleEntryPatchSchema,
+    handler: async ({ body, params, campaign: access, user: me }) => {
+      if (!uuidSchema.safeParse(params.entryId).success) throw notFound('That schedule entry');
+      const isLead = access.role === 'lead' || access.role === 'admin';
+      if (!isLead && (body.requiredHits !== undefined || body.assigneeId !== undefined)) throw forbidden('Only a lead changes the required hits or the assignee.');
+      if (body.assigneeId) {
+        const [m] = await db.select({ userId: campaignMember.userId }).from(campaignMember).where(and(eq(campaignMember.campaignId, access.campaignId), eq(campaignMember.userId, body.assigneeId)));
+        if (!m) throw badRequest('The assignee must be a member of this campaign.');
+      }
+      const { version, ...changes } = body;
+      await db.transaction(async (tx) => {
+        const [before] = await tx.select().from(scheduleEntry).where(and(eq(scheduleEntry.id, params.entryId!), eq(scheduleEntry.campaignId, access.campaignId))).for('update');
+        if (!before) throw notFound('That schedule entry');
+        if (before.version !== version) throw staleWrite('The schedule entry', before);
+        const [after] = await tx.update(scheduleEntry).set({ ...changes, version: before.version + 1, updatedAt: new Date() }).where(eq(scheduleEntry.id, before.id)).returning();
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'schedule-entry', entityId: before.id, action: 'update', before, after });
+      });
+      const [entry] = await listSchedule(access.campaignId, [params.entryId!]);
+      return { entry };
+    },
+  });
+
+  routes.add({
+    method: 'post',
+    path: '/campaigns/:campaignId/schedule/reorder',
+    tag: 'Schedule',
+    access: 'lead',
+    summary: 'Put the schedule in a new order: send every entry id once, in the wanted order',
+    body: scheduleReorderSchema,
+    handler: async ({ body, campaign: access, user: me }) => {
+      await db.transaction(async (tx) => {
+        await tx.select({ id: campaign.id }).from(campaign).where(eq(campaign.id, access.campaignId)).for('update');
+        const existing = await tx.select({ id: scheduleEntry.id, position: scheduleEntry.position }).from(scheduleEntry).where(eq(scheduleEntry.campaignId, access.campaignId));
+        const ids = new Set(existing.map((e) => e.id));
+        if (new Set(body.order).size !== body.order.length) throw badRequest('An entry appears twice in the order.');
+        if (body.order.length !== existing.length || body.order.some((id) => !ids.has(id))) {
+          throw new HttpError(409, 'schedule-changed', `The order must list all ${existing.length} entries of the schedule exactly once; reload the schedule and try again.`);
+        }
+        // Two steps so the positions never collide half-way.
+        await tx.update(scheduleEntry).set({ position: sql`-${scheduleEntry.position}` }).where(eq(scheduleEntry.campaignId, access.campaignId));
+        const values = body.order.map((id, i) => sql`(${id}::uuid, ${i + 1}::int)`);
+        await tx.execute(sql`UPDATE ${scheduleEntry} SET position = v.pos, version = ${scheduleEntry.version} + 1, updated_at = now() FROM (VALUES ${sql.join(values, sql`, `)}) AS v(id, pos) WHERE ${scheduleEntry.id} = v.id`);
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'schedule', entityId: access.campaignId, action: 'reorder', before: existing.sort((a, b) => a.position - b.position).map((e) => e.id), after: body.order });
+      });
+      return { entries: await listSchedule(access.campaignId) };
+    },
+  });
+}

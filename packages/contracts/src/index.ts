@@ -1,0 +1,8 @@
+// zod schemas and types shared by the API (validation, OpenAPI) and the web app (forms).
+export * from './common.ts';
+export * from './errors.ts';
+export * from './campaign.ts';
+export * from './geometry.ts';
+export * from './schedule.ts';
+export * from './kit.ts';
+export * from './settings.ts';

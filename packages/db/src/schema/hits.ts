@@ -1,0 +1,44 @@
+// Hits: the raw record of the test. Never deleted; a rejected hit keeps its reason.
+import { customType, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex, uuid, doublePrecision } from 'drizzle-orm/pg-core';
+import { user } from './auth.ts';
+import { campaign } from './campaign.ts';
+import { scheduleEntry } from './plan.ts';
+
+export const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType: () => 'bytea',
+});
+
+export const verdicts = ['accept', 'reject'] as const;
+
+export const hit = pgTable(
+  'hit',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    campaignId: uuid('campaign_id')
+      .notNull()
+      .references(() => campaign.id, { onDelete: 'restrict' }),
+    scheduleEntryId: uuid('schedule_entry_id')
+      .notNull()
+      .references(() => scheduleEntry.id, { onDelete: 'restrict' }),
+    sequence: integer('sequence').notNull(),
+    settingsVersion: integer('settings_version').notNull(),
+    sampleRateHz: doublePrecision('sample_rate_hz').notNull(),
+    samplesPerChannel: integer('samples_per_channel').notNull(),
+    /** Snapshot of the channel map and calibration used: channel, kit item, sensitivity, DOF, sign, unit. */
+    channels: jsonb('channels').notNull(),
+    /** float32 little-endian, channel after channel (force first), engineering units. */
+    samples: bytea('samples').notNull(),
+    source: text('source').notNull(),
+    idempotencyKey: text('idempotency_key').notNull(),
+    autoVerdict: text('auto_verdict', { enum: verdicts }).notNull(),
+    verdict: text('verdict', { enum: verdicts }).notNull(),
+    reasons: jsonb('reasons').notNull(),
+    metrics: jsonb('metrics').notNull(),
+    overrideNote: text('override_note'),
+    overriddenBy: text('overridden_by').references(() => user.id, { onDelete: 'set null' }),
+    version: integer('version').notNull().default(1),
+    recordedBy: text('recorded_by').references(() => user.id, { onDelete: 'set null' }),
+    recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('hit_idempotency_uq').on(t.campaignId, t.idempotencyKey), index('hit_entry_idx').on(t.scheduleEntryId, t.sequence)],
+);
