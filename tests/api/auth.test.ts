@@ -135,7 +135,9 @@ describe('refusals and bad input', () => {
   });
 
   it('answers 400 to malformed JSON without a stack trace', async () => {
-    const res = await request(app.handle.app).post('/api/campaigns').set('content-type', 'application/json').send('{"name": ');
+    const admin = app.agent();
+    await admin.post('/api/auth/sign-in/email').send({ email: 'ada@lab.test', password: PASSWORD }).expect(200);
+    const res = await admin.post('/api/campaigns').set('content-type', 'application/json').send('{"name": ');
     expect(res.status).toBe(400);
     expect(res.body.error.code).toBe('malformed-json');
     expect(JSON.stringify(res.body)).not.toMatch(/at .*\.ts/);
@@ -143,7 +145,9 @@ describe('refusals and bad input', () => {
 
   it('answers 413 to a body over the limit', async () => {
     const big = JSON.stringify({ notes: 'x'.repeat(2 * 1024 * 1024) });
-    const res = await request(app.handle.app).post('/api/campaigns').set('content-type', 'application/json').send(big);
+    const admin = app.agent();
+    await admin.post('/api/auth/sign-in/email').send({ email: 'ada@lab.test', password: PASSWORD }).expect(200);
+    const res = await admin.post('/api/campaigns').set('content-type', 'application/json').send(big);
     expect(res.status).toBe(413);
     expect(res.body.error.code).toBe('too-large');
     const auth = await request(app.handle.app).post('/api/auth/sign-in/email').set('content-type', 'application/json').send(big);

@@ -1,0 +1,143 @@
+// The authorization matrix: every route registered on the API, called by six kinds of caller
+// (signed out, viewer, engineer, lead, a member of another campaign, admin). It fails when a
+// route exists without an entry here, so a new route cannot skip this review.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { startTestApp, type TestApp } from '../support/app.ts';
+import { signUp } from '../support/accounts.ts';
+import { invite, type Person } from '../support/campaign.ts';
+import { API_TEMPLATE } from '../support/global-setup-api.ts';
+
+type Access = 'public' | 'user' | 'admin' | 'viewer' | 'engineer' | 'lead';
+
+/** Who may call each route. Adding a route means adding a line here. */
+const matrix: Record<string, Access> = {
+  'GET /health': 'public',
+  'GET /public-settings': 'public',
+  'GET /openapi.json': 'public',
+  'GET /docs': 'public',
+  'GET /me': 'user',
+  'GET /admin/mail': 'admin',
+  'GET /campaigns': 'user',
+  'POST /campaigns': 'user',
+  'GET /campaigns/:campaignId': 'viewer',
+  'PATCH /campaigns/:campaignId': 'lead',
+  'GET /campaigns/:campaignId/members': 'viewer',
+  'PATCH /campaigns/:campaignId/members/:userId': 'lead',
+  'DELETE /campaigns/:campaignId/members/:userId': 'lead',
+  'GET /campaigns/:campaignId/invitations': 'lead',
+  'POST /campaigns/:campaignId/invitations': 'lead',
+  'DELETE /campaigns/:campaignId/invitations/:invitationId': 'lead',
+  'GET /invitations/:token': 'public',
+  'POST /invitations/:token/accept': 'user',
+  'GET /campaigns/:campaignId/audit': 'lead',
+  'GET /campaigns/:campaignId/points': 'viewer',
+  'POST /campaigns/:campaignId/points': 'lead',
+  'PATCH /campaigns/:campaignId/points/:pointId': 'lead',
+  'DELETE /campaigns/:campaignId/points/:pointId': 'lead',
+  'POST /campaigns/:campaignId/lines': 'lead',
+  'DELETE /campaigns/:campaignId/lines/:lineId': 'lead',
+  'POST /campaigns/:campaignId/geometry/import': 'lead',
+  'GET /campaigns/:campaignId/geometry/export.csv': 'viewer',
+  'GET /campaigns/:campaignId/schedule': 'viewer',
+  'GET /campaigns/:campaignId/schedule/next': 'viewer',
+  'POST /campaigns/:campaignId/schedule/generate': 'lead',
+  'PATCH /campaigns/:campaignId/schedule/:entryId': 'engineer',
+  'POST /campaigns/:campaignId/schedule/reorder': 'lead',
+  'GET /campaigns/:campaignId/kit': 'viewer',
+  'POST /campaigns/:campaignId/kit': 'lead',
+  'PATCH /campaigns/:campaignId/kit/:itemId': 'lead',
+  'POST /campaigns/:campaignId/kit/:itemId/calibrations': 'lead',
+  'GET /campaigns/:campaignId/channels': 'viewer',
+  'POST /campaigns/:campaignId/channels': 'lead',
+  'PATCH /campaigns/:campaignId/channels/:channelId': 'lead',
+  'DELETE /campaigns/:campaignId/channels/:channelId': 'lead',
+  'GET /campaigns/:campaignId/settings': 'viewer',
+  'PUT /campaigns/:campaignId/settings': 'lead',
+};
+
+const rank = { viewer: 1, engineer: 2, lead: 3 } as const;
+type Caller = 'signed-out' | 'viewer' | 'engineer' | 'lead' | 'outsider' | 'admin';
+
+let app: TestApp;
+let people: Record<Exclude<Caller, 'signed-out'>, Person>;
+let campaignId: string;
+
+beforeAll(async () => {
+  app = await startTestApp(API_TEMPLATE);
+  const admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
+  const lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
+  const engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
+  const viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
+  const outsider = await signUp(app, 'Otto Outsider', 'otto@lab.test');
+  campaignId = (await admin.agent.post('/api/campaigns').send({ name: 'Matrix campaign' })).body.campaign.id;
+  const other = (await admin.agent.post('/api/campaigns').send({ name: 'Other campaign' })).body.campaign.id;
+  await invite(app, admin, campaignId, lead, 'lead');
+  await invite(app, admin, campaignId, engineer, 'engineer');
+  await invite(app, admin, campaignId, viewer, 'viewer');
+  await invite(app, admin, other, outsider, 'lead');
+  // The admin steps down to viewer in the matrix campaign, so only their instance role counts.
+  const members = (await admin.agent.get(`/api/campaigns/${campaignId}/members`)).body.members as { userId: string; version: number; email: string }[];
+  const adminRow = members.find((m) => m.email === 'admin@lab.test')!;
+  await lead.agent.delete(`/api/campaigns/${campaignId}/members/${adminRow.userId}`).expect(204);
+  people = { admin, lead, engineer, viewer, outsider };
+});
+afterAll(async () => {
+  await app?.close();
+});
+
+function key(route: { method: string; path: string }) {
+  return `${route.method.toUpperCase()} ${route.path}`;
+}
+
+function concretePath(path: string): string {
+  return path
+    .replace(':campaignId', campaignId)
+    .replace(':token', 'no-such-invitation-token')
+    .replace(/:[A-Za-z]+/g, '00000000-0000-4000-8000-000000000000');
+}
+
+async function call(caller: Caller, method: string, path: string) {
+  const url = `/api${concretePath(path)}`;
+  const agent = caller === 'signed-out' ? request(app.handle.app) : people[caller].agent;
+  const req = (agent as unknown as Record<string, (u: string) => request.Test>)[method]!(url);
+  return method === 'get' || method === 'delete' ? req : req.send({});
+}
+
+function expected(access: Access, caller: Caller): 'allowed' | 401 | 403 | 404 {
+  if (access === 'public') return 'allowed';
+  if (caller === 'signed-out') return 401;
+  if (access === 'user') return 'allowed';
+  if (access === 'admin') return caller === 'admin' ? 'allowed' : 403;
+  if (caller === 'admin') return 'allowed';
+  if (caller === 'outsider') return 404;
+  return rank[caller] >= rank[access] ? 'allowed' : 403;
+}
+
+describe('authorization matrix', () => {
+  it('has an entry for every route the API registers, and none for routes that do not exist', () => {
+    const registered = app.handle.routes.map(key).sort();
+    expect(registered).toEqual(Object.keys(matrix).sort());
+    for (const route of app.handle.routes) expect(route.access, key(route)).toBe(matrix[key(route)]);
+  });
+
+  const callers: Caller[] = ['signed-out', 'viewer', 'engineer', 'lead', 'outsider', 'admin'];
+  it.each(Object.entries(matrix))('%s is open to %s only', async (route, access) => {
+    const [method, path] = route.split(' ') as [string, string];
+    for (const caller of callers) {
+      const res = await call(caller, method.toLowerCase(), path);
+      const want = expected(access, caller);
+      const label = `${route} as ${caller} → ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+      expect(res.status, label).toBeLessThan(500);
+      if (want === 'allowed') {
+        expect([401, 403], label).not.toContain(res.status);
+        expect(res.body?.error?.message ?? '', label).not.toBe('That campaign was not found.');
+      } else if (want === 404) {
+        expect(res.status, label).toBe(404);
+        expect(res.body.error.message, label).toBe('That campaign was not found.');
+      } else {
+        expect(res.status, label).toBe(want);
+      }
+    }
+  });
+});
