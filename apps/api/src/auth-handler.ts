@@ -59,7 +59,7 @@ export function authHandler(auth: Auth): RequestHandler {
         body = read;
       }
       const url = new URL(req.originalUrl, `http://${req.headers.host ?? 'localhost'}`);
-      const request = new Request(url, { method: req.method, headers, body: body && body.length ? body : undefined });
+      const request = new Request(url, { method: req.method, headers, body: body && body.length ? new Uint8Array(body) : undefined });
       const response = await auth.handler(request);
 
       res.status(response.status);

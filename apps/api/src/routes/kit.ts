@@ -169,6 +169,7 @@ export function registerKitRoutes({ routes, db }: Deps): void {
               certificateRef: calibrationRecord.certificateRef,
               performedBy: calibrationRecord.performedBy,
               sensitivity: calibrationRecord.sensitivity,
+              sensitivityUnit: calibrationRecord.sensitivityUnit,
               recordedBy: calibrationRecord.recordedBy,
               recordedByName: user.name,
               createdAt: calibrationRecord.createdAt,
@@ -297,6 +298,7 @@ export function registerKitRoutes({ routes, db }: Deps): void {
             certificateRef: body.certificateRef,
             performedBy: body.performedBy,
             sensitivity: body.sensitivity ?? null,
+            sensitivityUnit: body.sensitivity === undefined ? null : before.sensitivityUnit,
             recordedBy: me.id,
           })
           .returning();

@@ -1,5 +1,6 @@
 // Kit: hammers and accelerometers, calibration records, the channel map, and versioned
 // acquisition settings (design.md, "Kit").
+import { sql } from 'drizzle-orm';
 import { date, doublePrecision, index, integer, jsonb, pgTable, smallint, text, timestamp, uniqueIndex, uuid, boolean } from 'drizzle-orm/pg-core';
 import { user } from './auth.ts';
 import { campaign } from './campaign.ts';
@@ -30,7 +31,7 @@ export const kitItem = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index('kit_item_campaign_idx').on(t.campaignId)],
+  (t) => [index('kit_item_campaign_idx').on(t.campaignId), uniqueIndex('kit_item_identity_uq').on(t.campaignId, t.kind, sql`lower(${t.model})`, sql`lower(${t.serial})`)],
 );
 
 export const calibrationRecord = pgTable(
@@ -45,6 +46,8 @@ export const calibrationRecord = pgTable(
     certificateRef: text('certificate_ref').notNull(),
     performedBy: text('performed_by').notNull(),
     sensitivity: doublePrecision('sensitivity'),
+    /** Unit of `sensitivity` as the certificate states it (the item's unit at that time). */
+    sensitivityUnit: text('sensitivity_unit'),
     recordedBy: text('recorded_by').references(() => user.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
   },

@@ -1,0 +1,2 @@
+ALTER TABLE "calibration_record" ADD COLUMN "sensitivity_unit" text;--> statement-breakpoint
+CREATE UNIQUE INDEX "kit_item_identity_uq" ON "kit_item" USING btree ("campaign_id","kind",lower("model"),lower("serial"));
