@@ -80,10 +80,14 @@ def welch_fixture(out_dir):
         _, pxy = signal.csd(x, y, **kw)
         _, cxy = signal.coherence(x, y, **kw)
         results.append({**s, "f": arr(f), "psd": arr(pxx), "csdRe": arr(pxy.real), "csdIm": arr(pxy.imag), "coherence": arr(cxy)})
+    windows = []
+    for name, scipy_name in [("hann", "hann"), ("rectangular", "boxcar"), ("flattop", "flattop")]:
+        for m in [1, 2, 16, 17]:
+            windows.append({"window": name, "n": m, "values": arr(signal.get_window(scipy_name, m, fftbins=True))})
     write(out_dir, "welch.json", {
-        "source": "scipy.signal.welch/csd/coherence(detrend=False, scaling='density', average='mean')",
+        "source": "scipy.signal.welch/csd/coherence(detrend=False, scaling='density', average='mean'); scipy.signal.get_window(fftbins=True)",
         "versions": versions(),
-        "fs": fs, "x": arr(x), "y": arr(y), "results": results,
+        "fs": fs, "x": arr(x), "y": arr(y), "results": results, "windows": windows,
     })
 
 

@@ -1,9 +1,9 @@
 // Real-input FFT plans for any length N >= 1, built on fft.js (radix-4, power-of-two sizes).
 //
-// - N a power of two (>= 4): the N real samples are packed as N/2 complex samples
+// - N a power of two (>= 4): the N real samples are read as N/2 complex samples
 //   z_n = x_{2n} + j·x_{2n+1}, transformed with one complex FFT of N/2 points and split into the
 //   one-sided spectrum (the standard "real FFT via half-length complex FFT", e.g. Press et al.,
-//   Numerical Recipes, §12.3).
+//   Numerical Recipes, 2nd ed., §12.3).
 // - Any other N: Bluestein's chirp-z algorithm (Bluestein 1970; Rabiner, Schafer & Rader 1969),
 //   i.e. a circular convolution of length M = 2^k >= 2N-1 computed with fft.js.
 // Plans are cached per N, and each plan owns its work buffers, so a transform allocates nothing.
@@ -15,7 +15,7 @@ export interface RealFftPlan {
   /** Number of one-sided bins, ⌊N/2⌋ + 1. */
   readonly bins: number;
   /**
-   * One-sided DFT of `input` (first N samples used) into outRe/outIm (first `bins` entries).
+   * One-sided DFT of `input` (exactly N samples long) into outRe/outIm (first `bins` entries).
    * The input buffer is not modified.
    */
   forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void;
@@ -47,7 +47,6 @@ class PowerOfTwoPlan implements RealFftPlan {
   readonly bins: number;
   private readonly half: number;
   private readonly fft: FFT;
-  private readonly packed: Float64Array;
   private readonly spec: Float64Array;
   private readonly cosT: Float64Array;
   private readonly sinT: Float64Array;
@@ -56,7 +55,6 @@ class PowerOfTwoPlan implements RealFftPlan {
     this.half = n >>> 1;
     this.bins = this.half + 1;
     this.fft = new FFT(this.half);
-    this.packed = new Float64Array(n);
     this.spec = new Float64Array(n);
     this.cosT = new Float64Array(this.half + 1);
     this.sinT = new Float64Array(this.half + 1);
@@ -68,32 +66,38 @@ class PowerOfTwoPlan implements RealFftPlan {
   }
 
   forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void {
-    const n = this.n;
     const m = this.half;
-    const packed = this.packed;
-    for (let i = 0; i < n; i++) packed[i] = input[i];
-    this.fft.transform(this.spec, packed);
+    // The real samples, read as interleaved (re, im) pairs, are exactly z_n = x_{2n} + j·x_{2n+1}:
+    // no packing copy is needed.
+    this.fft.transform(this.spec, input);
     const z = this.spec;
     const cosT = this.cosT;
     const sinT = this.sinT;
-    // k = 0 and k = N/2 use Z_0 only.
     outRe[0] = z[0] + z[1];
     outIm[0] = 0;
     outRe[m] = z[0] - z[1];
     outIm[m] = 0;
-    for (let k = 1; k < m; k++) {
+    // Lines k and m − k come from the same two values Z_k, Z_{m−k}:
+    // E_k = (Z_k + Z*_{m−k})/2, O_k = (Z_k − Z*_{m−k})/(2j), X_k = E_k + W^k·O_k,
+    // X_{m−k} = conj(E_k − W^k·O_k), with W = e^{−j2π/N}.
+    for (let k = 1; k <= m >> 1; k++) {
+      const j = m - k;
       const zr = z[2 * k];
       const zi = z[2 * k + 1];
-      const cr = z[2 * (m - k)];
-      const ci = -z[2 * (m - k) + 1];
+      const cr = z[2 * j];
+      const ci = z[2 * j + 1];
       const er = 0.5 * (zr + cr);
-      const ei = 0.5 * (zi + ci);
-      const or = 0.5 * (zi - ci);
+      const ei = 0.5 * (zi - ci);
+      const or = 0.5 * (zi + ci);
       const oi = -0.5 * (zr - cr);
       const wr = cosT[k];
       const wi = -sinT[k];
-      outRe[k] = er + wr * or - wi * oi;
-      outIm[k] = ei + wr * oi + wi * or;
+      const tr = wr * or - wi * oi;
+      const ti = wr * oi + wi * or;
+      outRe[k] = er + tr;
+      outIm[k] = ei + ti;
+      outRe[j] = er - tr;
+      outIm[j] = ti - ei;
     }
   }
 }

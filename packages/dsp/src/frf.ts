@@ -1,7 +1,6 @@
-import { SpectralAverager, frequencyAxis, oneSided } from './spectral-engine.ts';
+import { SpectralAverager, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
 import type { Complex, ExponentialWindowOptions, ForceWindowOptions } from './types.ts';
 import { checkFs, checkSameLength, checkSamples } from './validate.ts';
-import { coherenceFromSums } from './welch.ts';
 import { exponentialWindow, forceWindow } from './windows.ts';
 
 /** One impact record: the force channel (N) and one or more response channels, equal lengths. */
@@ -40,17 +39,6 @@ export interface AveragedFrf {
   averages: number;
 }
 
-function divideComplex(nr: number, ni: number, dr: number, di: number, out: Complex, k: number): void {
-  const d = dr * dr + di * di;
-  if (d > 0) {
-    out.re[k] = (nr * dr + ni * di) / d;
-    out.im[k] = (ni * dr - nr * di) / d;
-  } else {
-    out.re[k] = 0;
-    out.im[k] = 0;
-  }
-}
-
 /**
  * Averages impact hits into FRF estimates, one per response channel (field-reference §2).
  *
@@ -86,12 +74,8 @@ export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrf
     h.responses.forEach((r: ArrayLike<number>, c: number) => checkSameLength(n, r?.length ?? 0, `hits[${i}].force`, `hits[${i}].responses[${c}]`));
   });
 
-  const ew = options.exponentialWindow ? exponentialWindow(n, fs, options.exponentialWindow) : null;
-  let fw = options.forceWindow ? forceWindow(n, fs, options.forceWindow) : null;
-  if (fw && ew) for (let i = 0; i < n; i++) fw[i] *= ew[i];
-  else if (ew) fw = ew;
-
-  const avg = new SpectralAverager(n, channels);
+  const { fw, ew } = impactWindows(n, fs, options.forceWindow, options.exponentialWindow);
+  const avg = pooledAverager(n, channels);
   hits.forEach((h, i) => {
     avg.add(h.force, h.responses, 0, fw, ew, {
       ref: `hits[${i}].force`,
@@ -101,10 +85,34 @@ export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrf
   return frfFromSums(avg, fs, options.hv === true);
 }
 
+const windowCache = new Map<string, { fw: Float64Array | null; ew: Float64Array | null }>();
+
+/** Force-channel window (force × exponential) and response window (exponential), memoised per settings. */
+function impactWindows(
+  n: number,
+  fs: number,
+  fOpt: ForceWindowOptions | null,
+  eOpt: ExponentialWindowOptions | null,
+): { fw: Float64Array | null; ew: Float64Array | null } {
+  const key = JSON.stringify([n, fs, fOpt && [fOpt.startS, fOpt.lengthS, fOpt.taperS], eOpt && [eOpt.startS, eOpt.tauS]]);
+  let w = windowCache.get(key);
+  if (!w) {
+    const ew = eOpt ? exponentialWindow(n, fs, eOpt) : null;
+    let fw = fOpt ? forceWindow(n, fs, fOpt) : null;
+    if (fw && ew) for (let i = 0; i < n; i++) fw[i] *= ew[i];
+    else if (ew) fw = ew;
+    w = { fw, ew };
+    if (windowCache.size >= 16) windowCache.clear();
+    windowCache.set(key, w);
+  }
+  return w;
+}
+
 /** The estimator layer: H1, H2, Hv, γ² and the ESD-per-hit spectra from the engine's raw sums. */
 function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): AveragedFrf {
   const bins = avg.bins;
   const n = avg.n;
+  const last = n % 2 === 0 ? bins - 1 : -1; // Nyquist line, not doubled
   const dt = 1 / fs;
   const esdScale = (dt * dt) / avg.count;
   const h1: Complex[] = [];
@@ -113,40 +121,64 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
   const gfx: Complex[] = [];
   const gxx: Float64Array[] = [];
   const coherence: Float64Array[] = [];
-  const gffRaw = avg.refAuto;
+  const ffs = avg.refAuto;
   for (let c = 0; c < avg.channels; c++) {
-    const cr = avg.crossRe[c];
-    const ci = avg.crossIm[c];
-    const xx = avg.auto[c];
-    const a: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
-    const b: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
-    const v: Complex = { re: new Float64Array(bins), im: new Float64Array(bins) };
+    const crs = avg.crossRe[c];
+    const cis = avg.crossIm[c];
+    const xxs = avg.auto[c];
+    const h1r = new Float64Array(bins);
+    const h1i = new Float64Array(bins);
+    const h2r = new Float64Array(bins);
+    const h2i = new Float64Array(bins);
+    const coh = new Float64Array(bins);
+    const gxxC = new Float64Array(bins);
+    const gfr = new Float64Array(bins);
+    const gfi = new Float64Array(bins);
+    const hvr = withHv ? new Float64Array(bins) : null;
+    const hvi = withHv ? new Float64Array(bins) : null;
     for (let k = 0; k < bins; k++) {
-      // H1 = G_fx / G_ff (G_ff real)
-      const ff = gffRaw[k];
-      a.re[k] = ff > 0 ? cr[k] / ff : 0;
-      a.im[k] = ff > 0 ? ci[k] / ff : 0;
-      // H2 = G_xx / conj(G_fx)
-      divideComplex(xx[k], 0, cr[k], -ci[k], b, k);
-      if (withHv) {
-        const d = xx[k] - ff;
-        const num = d + Math.sqrt(d * d + 4 * (cr[k] * cr[k] + ci[k] * ci[k]));
-        divideComplex(num, 0, 2 * cr[k], -2 * ci[k], v, k);
+      const ff = ffs[k];
+      const xx = xxs[k];
+      const cr = crs[k];
+      const ci = cis[k];
+      const p = cr * cr + ci * ci; // |G_fx|²
+      // H1 = G_fx / G_ff (G_ff real); 0 where no force energy
+      const inv = ff > 0 ? 1 / ff : 0;
+      h1r[k] = cr * inv;
+      h1i[k] = ci * inv;
+      // H2 = G_xx / conj(G_fx) = G_xx·G_fx / |G_fx|²
+      const q = p > 0 ? xx / p : 0;
+      h2r[k] = q * cr;
+      h2i[k] = q * ci;
+      // γ² = |G_fx|² / (G_ff·G_xx), clamped: rounding can put it a few ulps above 1
+      const den = ff * xx;
+      const g = den > 0 ? p / den : 0;
+      coh[k] = g > 1 ? 1 : g;
+      if (hvr && hvi) {
+        // Hv = [G_xx − G_ff + √((G_xx − G_ff)² + 4|G_fx|²)] / (2·conj(G_fx))
+        const d = xx - ff;
+        const r = p > 0 ? (d + Math.sqrt(d * d + 4 * p)) / (2 * p) : 0;
+        hvr[k] = r * cr;
+        hvi[k] = r * ci;
       }
+      const s = k === 0 || k === last ? esdScale : 2 * esdScale;
+      gxxC[k] = xx * s;
+      gfr[k] = cr * s;
+      gfi[k] = ci * s;
     }
-    h1.push(a);
-    h2.push(b);
-    if (withHv) hv.push(v);
-    coherence.push(coherenceFromSums(avg, c));
-    gxx.push(oneSided(xx, n, esdScale));
-    gfx.push({ re: oneSided(cr, n, esdScale), im: oneSided(ci, n, esdScale) });
+    h1.push({ re: h1r, im: h1i });
+    h2.push({ re: h2r, im: h2i });
+    if (hvr && hvi) hv.push({ re: hvr, im: hvi });
+    coherence.push(coh);
+    gxx.push(gxxC);
+    gfx.push({ re: gfr, im: gfi });
   }
   const result: AveragedFrf = {
     f: frequencyAxis(n, fs, bins),
     h1,
     h2,
     coherence,
-    gff: oneSided(gffRaw, n, esdScale),
+    gff: oneSided(ffs, n, esdScale),
     gxx,
     gfx,
     averages: avg.count,

@@ -285,7 +285,7 @@ export function checkHit(
   if (forceClipped > 0) {
     reasons.push({
       code: 'overload',
-      message: `force channel clipped: ${forceClipped} sample${forceClipped === 1 ? '' : 's'} at ${pct(l.overloadFraction)} % or more of the ${fmt(l.forceRangeN as number)} N range: use a lower range or hit softer`,
+      message: `force channel clipped: ${forceClipped} sample${forceClipped === 1 ? '' : 's'} at ${pct(l.overloadFraction)} % or more of the ${fmt(l.forceRangeN as number)} N range: use a higher range or hit softer`,
     });
   } else if (flatCounts) {
     reasons.push({

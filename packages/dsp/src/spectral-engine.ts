@@ -23,6 +23,17 @@ export class SpectralAverager {
   /** Number of records accumulated. */
   count = 0;
 
+  /** Clears the sums so the same buffers serve another average. */
+  reset(): void {
+    this.refAuto.fill(0);
+    for (let c = 0; c < this.channels; c++) {
+      this.auto[c].fill(0);
+      this.crossRe[c].fill(0);
+      this.crossIm[c].fill(0);
+    }
+    this.count = 0;
+  }
+
   private readonly plan: RealFftPlan;
   private readonly scratch: Float64Array;
   private readonly refRe: Float64Array;
@@ -52,33 +63,30 @@ export class SpectralAverager {
     }
   }
 
-  /**
-   * Windows samples [offset, offset + n) of `src` into the scratch buffer. Returns a probe that is
-   * 0 when every sample was finite (x·0 is NaN for NaN and ±Infinity).
-   */
-  private load(src: ArrayLike<number>, offset: number, window: Float64Array | null): number {
+  /** Windows samples [offset, offset + n) of `src` into the scratch buffer. */
+  private load(src: ArrayLike<number>, offset: number, window: Float64Array | null): void {
     const s = this.scratch;
     const n = this.n;
-    let probe = 0;
     if (window) {
-      for (let i = 0; i < n; i++) {
-        const v = src[offset + i];
-        probe += v * 0;
-        s[i] = v * window[i];
-      }
+      for (let i = 0; i < n; i++) s[i] = src[offset + i] * window[i];
     } else {
-      for (let i = 0; i < n; i++) {
-        const v = src[offset + i];
-        probe += v * 0;
-        s[i] = v;
-      }
+      for (let i = 0; i < n; i++) s[i] = src[offset + i];
     }
-    return probe;
+  }
+
+  /**
+   * A NaN or ±Infinity sample makes the DC line (the sum of all windowed samples) non-finite, so one
+   * test per record replaces a test per sample; only then is the record scanned to name the sample.
+   */
+  private static ensureFinite(dc: number, src: ArrayLike<number>, name: string): void {
+    if (Number.isFinite(dc)) return;
+    checkSamples(src, name);
+    throw new RangeError(`${name} holds values so large that its spectrum overflows`);
   }
 
   /**
    * Adds one record. `names` gives the names used in the RangeError if a sample is not finite
-   * (the data are checked while they are windowed, so no separate pass over them is needed).
+   * (checked through the transform, so no separate pass over the data is needed).
    */
   add(
     ref: ArrayLike<number>,
@@ -89,8 +97,9 @@ export class SpectralAverager {
     names: { ref: string; other: (c: number) => string } = { ref: 'x', other: (c) => `y${c}` },
   ): void {
     const bins = this.bins;
-    if (this.load(ref, offset, refWindow) !== 0) checkSamples(ref, names.ref);
+    this.load(ref, offset, refWindow);
     this.plan.forward(this.scratch, this.refRe, this.refIm);
+    SpectralAverager.ensureFinite(this.refRe[0], ref, names.ref);
     const rr = this.refRe;
     const ri = this.refIm;
     const ra = this.refAuto;
@@ -98,8 +107,9 @@ export class SpectralAverager {
     const xr = this.chRe;
     const xi = this.chIm;
     for (let c = 0; c < this.channels; c++) {
-      if (this.load(others[c], offset, otherWindow) !== 0) checkSamples(others[c], names.other(c));
+      this.load(others[c], offset, otherWindow);
       this.plan.forward(this.scratch, xr, xi);
+      SpectralAverager.ensureFinite(xr[0], others[c], names.other(c));
       const au = this.auto[c];
       const cr = this.crossRe[c];
       const ci = this.crossIm[c];
@@ -116,6 +126,26 @@ export class SpectralAverager {
     }
     this.count++;
   }
+}
+
+const pool = new Map<string, SpectralAverager>();
+
+/**
+ * A cleared averager for records of n samples and `channels` non-reference channels, reused across
+ * calls (the package is synchronous, so one per shape is enough): a long campaign of equal-length
+ * hits then allocates only its results. The caller must read the sums before the next call.
+ */
+export function pooledAverager(n: number, channels: number): SpectralAverager {
+  const key = `${n}:${channels}`;
+  let avg = pool.get(key);
+  if (!avg) {
+    if (pool.size >= 8) pool.clear();
+    avg = new SpectralAverager(n, channels);
+    pool.set(key, avg);
+  } else {
+    avg.reset();
+  }
+  return avg;
 }
 
 /**

@@ -18,7 +18,10 @@ const FLATTOP = [0.21557895, 0.41663158, 0.277263158, 0.083578947, 0.006947368];
 export function analysisWindow(name: WindowName, n: number): Float64Array {
   checkInteger(n, 'n', 1);
   const w = new Float64Array(n);
-  if (name === 'rectangular') {
+  if (n === 1 && (name === 'hann' || name === 'flattop')) {
+    // scipy returns [1] for a one-point window of any kind.
+    w[0] = 1;
+  } else if (name === 'rectangular') {
     w.fill(1);
   } else if (name === 'hann') {
     for (let i = 0; i < n; i++) w[i] = 0.5 - 0.5 * Math.cos((2 * Math.PI * i) / n);
@@ -68,12 +71,12 @@ export function forceWindow(n: number, fs: number, options: ForceWindowOptions):
   checkFs(fs);
   checkForceWindowOptions(options, 'options');
   const w = new Float64Array(n);
-  const te = options.startS + options.lengthS;
-  const taper = options.taperS;
+  // Work in samples; the 1e-9 slack keeps a sample that sits on t_e (up to rounding of the sum) in the unity part.
+  const ie = (options.startS + options.lengthS) * fs;
+  const taper = options.taperS * fs;
   for (let i = 0; i < n; i++) {
-    const t = i / fs;
-    if (t <= te) w[i] = 1;
-    else if (t < te + taper) w[i] = 0.5 * (1 + Math.cos((Math.PI * (t - te)) / taper));
+    if (i <= ie + 1e-9) w[i] = 1;
+    else if (i < ie + taper) w[i] = 0.5 * (1 + Math.cos((Math.PI * (i - ie)) / taper));
     else w[i] = 0;
   }
   return w;
