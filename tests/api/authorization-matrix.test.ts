@@ -54,6 +54,16 @@ const matrix: Record<string, Access> = {
   'DELETE /campaigns/:campaignId/channels/:channelId': 'lead',
   'GET /campaigns/:campaignId/settings': 'viewer',
   'PUT /campaigns/:campaignId/settings': 'lead',
+  'POST /campaigns/:campaignId/schedule/:entryId/hits': 'engineer',
+  'POST /campaigns/:campaignId/schedule/:entryId/simulate': 'engineer',
+  'GET /campaigns/:campaignId/schedule/:entryId/hits': 'viewer',
+  'GET /campaigns/:campaignId/hits/:hitId': 'viewer',
+  'POST /campaigns/:campaignId/hits/:hitId/verdict': 'engineer',
+  'GET /campaigns/:campaignId/schedule/:entryId/frf': 'viewer',
+  'GET /campaigns/:campaignId/progress': 'viewer',
+  'GET /campaigns/:campaignId/events': 'viewer',
+  'GET /campaigns/:campaignId/checks': 'viewer',
+  'GET /campaigns/:campaignId/frfs': 'viewer',
 };
 
 const rank = { viewer: 1, engineer: 2, lead: 3 } as const;
@@ -101,6 +111,21 @@ async function call(caller: Caller, method: string, path: string) {
   const url = `/api${concretePath(path)}`;
   const agent = caller === 'signed-out' ? request(app.handle.app) : people[caller].agent;
   const req = (agent as unknown as Record<string, (u: string) => request.Test>)[method]!(url);
+  if (path.endsWith('/events')) {
+    // A Server-Sent-Events stream never ends by itself: read the status, then hang up.
+    return req.buffer(false).parse((res, done) => {
+      if (res.statusCode === 200) {
+        res.once('data', () => {
+          res.destroy();
+          done(null, {});
+        });
+        return;
+      }
+      let text = '';
+      res.on('data', (c: Buffer) => (text += c.toString()));
+      res.on('end', () => done(null, JSON.parse(text)));
+    });
+  }
   return method === 'get' || method === 'delete' ? req : req.send({});
 }
 

@@ -15,6 +15,8 @@ import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
 import { registerGeometryRoutes } from './routes/geometry.ts';
+import { registerHitRoutes } from './routes/hits.ts';
+import { CampaignEvents } from './hits/events.ts';
 import { registerKitRoutes } from './routes/kit.ts';
 import { registerScheduleRoutes } from './routes/schedule.ts';
 import { registerSettingsRoutes } from './routes/settings.ts';
@@ -82,6 +84,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerScheduleRoutes(deps);
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
+  registerHitRoutes(deps, new CampaignEvents());
 
   app.use('/api', resolveUser(auth));
   app.use('/api', routes.router);

@@ -8,6 +8,8 @@ export const campaignStatuses = ['planning', 'testing', 'analysis', 'handed-over
 export type CampaignStatus = (typeof campaignStatuses)[number];
 export const campaignPurposes = ['calibrated-frf', 'quick-survey'] as const;
 export const testTypes = ['roving-hammer', 'roving-response'] as const;
+/** Structure behind the simulated rig: the demo bar, the demo baseplate, or a beam-like model built from the geometry. */
+export const simulatorModels = ['steel-bar', 'pump-skid', 'generic'] as const;
 export type TestType = (typeof testTypes)[number];
 
 export const statusLabels: Record<CampaignStatus, string> = {
@@ -27,6 +29,7 @@ export const campaignCreateSchema = z.strictObject({
   testType: z.enum(testTypes).default('roving-hammer'),
   referenceDofs: z.array(dofLabelSchema).max(12).default([]),
   notes: z.string().max(10_000).default(''),
+  simulator: z.enum(simulatorModels).default('generic'),
 });
 export type CampaignCreate = z.infer<typeof campaignCreateSchema>;
 
@@ -40,6 +43,7 @@ export const campaignPatchSchema = z.strictObject({
   testType: z.enum(testTypes).optional(),
   referenceDofs: z.array(dofLabelSchema).max(12).optional(),
   notes: z.string().max(10_000).optional(),
+  simulator: z.enum(simulatorModels).optional(),
 });
 export type CampaignPatch = z.infer<typeof campaignPatchSchema>;
 

@@ -38,6 +38,8 @@ export const acquisitionSettingsSchema = z
     rollOffDb: z.number().finite().min(1).max(60),
     /** Mean coherence over the band needed for a DOF to count as done (common practice). */
     coherenceThreshold: z.number().finite().min(0).max(1),
+    /** Weakest acceptable peak force, N (below it the hit is too soft: poor signal-to-noise). Common practice. */
+    minPeakN: z.number().finite().min(0).default(20),
     forceRangeN: positive('the force input range (N)'),
     responseRangeMs2: positive('the response input range (m/s²)'),
   })
@@ -51,7 +53,7 @@ export const acquisitionSettingsSchema = z
     if (s.recordLengthS * s.sampleRateHz > 2_097_152) ctx.addIssue({ code: 'custom', path: ['recordLengthS'], message: 'a record can hold at most 2 097 152 samples per channel' });
   });
 
-export type AcquisitionSettings = z.infer<typeof acquisitionSettingsSchema>;
+export type AcquisitionSettings = z.output<typeof acquisitionSettingsSchema>;
 
 /**
  * Defaults a lead starts from: 12.8 kHz, 1.28 s records (16 384 samples, Δf = 0.78 Hz), 5 hits,
@@ -72,6 +74,7 @@ export const defaultAcquisitionSettings: AcquisitionSettings = {
   overloadPercent: 99,
   rollOffDb: 20,
   coherenceThreshold: 0.9,
+  minPeakN: 20,
   forceRangeN: 2000,
   responseRangeMs2: 500,
 };

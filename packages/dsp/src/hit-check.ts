@@ -251,11 +251,14 @@ function resolveLimits(limits: Partial<HitLimits> | undefined, channels: number)
  * - `double-hit`: the force, offset-removed and turned to the main pulse's polarity, has another
  *   peak that rises at least max(doubleHitRatio·peak, noiseFactor·noise) above the dip before it
  *   and reaches that level — a second pulse after (or before) the main one, or a second local
- *   maximum inside it (time-domain method of §4.1);
+ *   maximum inside it (time-domain method of §4.1); a lobe within 4 pulse widths that is mirrored
+ *   at half its height or more on the other side of the main peak is anti-alias filter ringing
+ *   (§4.4) and not counted;
  * - `overload`: force samples at ≥ overloadFraction × forceRangeN, or ≥ flatRunLength equal samples
  *   at the largest magnitude (§4.2);
- * - `roll-off`: |F(f)|² of the whole offset-removed record first falls rollOffDb below |F(0)|²
- *   inside bandHz (§4.3; the 10 and 20 dB frequencies are always reported);
+ * - `roll-off`: |F(f)|² of the offset-removed pulse (gated to ±4 pulse widths, as a force window
+ *   would) first falls rollOffDb below |F(0)|² inside bandHz (§4.3; the 10 and 20 dB frequencies
+ *   are always reported);
  * - `response-overload`: as overload, per response channel, against responseRange;
  * - `not-decayed`: rms of the last tailFraction of a response (after the exponential window if set)
  *   above notDecayedRatio × its peak (§4.5).
@@ -365,7 +368,14 @@ export function checkHit(
     const thr = Math.max(l.doubleHitRatio * peak, l.noiseFactor * noise.std);
     let second = -1;
     for (const q of prominentPeaks(s, thr)) {
-      if (q !== p && s[q] >= thr && (second < 0 || s[q] > s[second])) second = q;
+      if (q === p || s[q] < thr) continue;
+      // A linear-phase anti-alias filter rings symmetrically around a pulse it band-limits
+      // (field-reference §4.4: "early ringing from linear-phase anti-alias filters"): a lobe
+      // mirrored on the other side of the main peak at the same level is that ringing, not a
+      // second impact, which has no mirror image before the first.
+      const mirror = 2 * p - q;
+      if (mirror >= 0 && mirror < n && Math.abs(q - p) * dt < 4 * ((b - a + 1) * dt) && s[mirror] >= 0.5 * s[q]) continue;
+      if (second < 0 || s[q] > s[second]) second = q;
     }
     if (second >= 0) {
       const ratio = s[second] / peak;
@@ -385,7 +395,15 @@ export function checkHit(
     const plan = realFftPlan(n);
     const re = new Float64Array(plan.bins);
     const im = new Float64Array(plan.bins);
-    plan.forward(s, re, im);
+    // The spectrum of the pulse alone: samples further than 4 pulse widths from it are noise and
+    // after-ringing, which a force window removes before any FRF (§3.1), so they are gated out here
+    // too; over a long record their integrated offset error would otherwise dominate |F(0)|.
+    const width = b - a + 1;
+    const gateFrom = Math.max(0, a - 4 * width - 8);
+    const gateTo = Math.min(n, b + 4 * width + 8);
+    const gated = new Float64Array(n);
+    gated.set(s.subarray(gateFrom, gateTo), gateFrom);
+    plan.forward(gated, re, im);
     const ref = re[0] * re[0] + im[0] * im[0];
     if (ref > 0) {
       const crossing = (db: number): number | null => {

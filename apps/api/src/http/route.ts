@@ -103,8 +103,10 @@ export class ApiRoutes {
           campaign: req.campaignAccess!,
         });
         if (res.headersSent) return;
-        if (result === undefined) res.status(spec.status ?? 204).end();
-        else res.status(spec.status ?? 200).json(result);
+        // A handler may choose another success status through res.locals.status (a replayed upload answers 200).
+        const status = (res.locals.status as number | undefined) ?? spec.status;
+        if (result === undefined) res.status(status ?? 204).end();
+        else res.status(status ?? 200).json(result);
       } catch (err) {
         next(err);
       }

@@ -9,6 +9,7 @@ export type CampaignRole = (typeof campaignRoles)[number];
 export const campaignStatuses = ['planning', 'testing', 'analysis', 'handed-over'] as const;
 export const campaignPurposes = ['calibrated-frf', 'quick-survey'] as const;
 export const testTypes = ['roving-hammer', 'roving-response'] as const;
+export const simulatorModels = ['steel-bar', 'pump-skid', 'generic'] as const;
 
 export const campaign = pgTable('campaign', {
   id: uuid('id').primaryKey().defaultRandom(),
@@ -21,6 +22,8 @@ export const campaign = pgTable('campaign', {
   referenceDofs: text('reference_dofs').array().notNull().default([]),
   lengthUnit: text('length_unit').notNull().default('mm'),
   notes: text('notes').notNull().default(''),
+  /** Structure model behind the "simulated rig" hit source. */
+  simulator: text('simulator', { enum: simulatorModels }).notNull().default('generic'),
   version: integer('version').notNull().default(1),
   createdBy: text('created_by').references(() => user.id, { onDelete: 'set null' }),
   createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),

@@ -42,3 +42,32 @@ export const hit = pgTable(
   },
   (t) => [uniqueIndex('hit_idempotency_uq').on(t.campaignId, t.idempotencyKey), index('hit_entry_idx').on(t.scheduleEntryId, t.sequence)],
 );
+
+/**
+ * Averaged spectra of one schedule entry, recomputable from its accepted hits and the settings.
+ * `inputHash` covers the accepted hit ids (and their verdict versions) and the settings version,
+ * so a stale result is never served. Arrays are float64 little-endian (see apps/api/src/hits/results.ts).
+ */
+export const frfResult = pgTable(
+  'frf_result',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    campaignId: uuid('campaign_id')
+      .notNull()
+      .references(() => campaign.id, { onDelete: 'cascade' }),
+    scheduleEntryId: uuid('schedule_entry_id')
+      .notNull()
+      .references(() => scheduleEntry.id, { onDelete: 'cascade' }),
+    inputHash: text('input_hash').notNull(),
+    settingsVersion: integer('settings_version').notNull(),
+    hitIds: uuid('hit_ids').array().notNull(),
+    averages: integer('averages').notNull(),
+    sampleRateHz: doublePrecision('sample_rate_hz').notNull(),
+    samples: integer('samples').notNull(),
+    /** Per response channel: DOF, sign, unit, mean coherence over the band. */
+    channels: jsonb('channels').notNull(),
+    data: bytea('data').notNull(),
+    computedAt: timestamp('computed_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('frf_result_entry_uq').on(t.scheduleEntryId)],
+);

@@ -1,0 +1,58 @@
+// Measurement validity checks (field-reference §6.8): reciprocity H_ij against H_ji, and
+// linearity — the same DOF pair at two force levels. Both report FRAC over the band (§6.7) and
+// the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
+import { frac, type Complex } from '@resonote/dsp';
+
+export interface PeakDifference {
+  fHz: number;
+  /** 20·log10(|Ha|/|Hb|), dB. */
+  dbDifference: number;
+  /** arg(Ha) − arg(Hb), degrees wrapped to (−180, 180]. */
+  phaseDifferenceDeg: number;
+  /** Frequency of the nearest peak of Hb minus that of Ha, Hz (within ±5 %). */
+  peakShiftHz: number;
+}
+
+export interface Comparison {
+  frac: number;
+  peaks: PeakDifference[];
+}
+
+function bandSlice(h: Complex, f: Float64Array, lo: number, hi: number): { h: Complex; f: Float64Array } {
+  let a = 0;
+  while (a < f.length && f[a]! < Math.max(lo, f[1] ?? 0)) a++;
+  let b = a;
+  while (b < f.length && f[b]! <= hi) b++;
+  return { h: { re: h.re.slice(a, b), im: h.im.slice(a, b) }, f: f.slice(a, b) };
+}
+
+const mag = (h: Complex, k: number) => Math.hypot(h.re[k]!, h.im[k]!);
+
+/** Local maxima of |H| in the band, largest first (at most `count`). */
+export function peaksOf(h: Complex, count = 3): number[] {
+  const idx: number[] = [];
+  for (let k = 1; k + 1 < h.re.length; k++) {
+    const m = mag(h, k);
+    if (m > mag(h, k - 1) && m >= mag(h, k + 1)) idx.push(k);
+  }
+  return idx.sort((x, y) => mag(h, y) - mag(h, x)).slice(0, count);
+}
+
+export function compareFrfs(ha: Complex, hb: Complex, f: Float64Array, band: { low: number; high: number }): Comparison {
+  const a = bandSlice(ha, f, band.low, band.high);
+  const b = bandSlice(hb, f, band.low, band.high);
+  const peaks = peaksOf(a.h).map((k) => {
+    const span = Math.max(1, Math.round((0.05 * a.f[k]!) / ((a.f[1]! - a.f[0]!) || 1)));
+    let best = k;
+    for (let j = Math.max(0, k - span); j <= Math.min(b.f.length - 1, k + span); j++) if (mag(b.h, j) > mag(b.h, best)) best = j;
+    const phase = (Math.atan2(a.h.im[k]!, a.h.re[k]!) - Math.atan2(b.h.im[k]!, b.h.re[k]!)) * (180 / Math.PI);
+    const wrapped = phase - 360 * Math.ceil((phase - 180) / 360);
+    return {
+      fHz: a.f[k]!,
+      dbDifference: 20 * Math.log10(mag(a.h, k) / Math.max(mag(b.h, k), 1e-300)),
+      phaseDifferenceDeg: wrapped,
+      peakShiftHz: b.f[best]! - a.f[k]!,
+    };
+  });
+  return { frac: frac(a.h, b.h), peaks };
+}
