@@ -27,3 +27,4 @@ export {
 } from './hit-check.ts';
 export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
+export * from './modal/index.ts';

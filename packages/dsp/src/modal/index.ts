@@ -1,0 +1,20 @@
+// Modal parameter estimation: mode indicators, poly-reference LSCF stabilization diagram, frequency-domain
+// residue fit with residual terms, FRF synthesis, window-damping correction, shape correlation.
+export type { FrfSet, ModalFrf, ModalFrfKind, ComplexValue, PoleInput } from './types.ts';
+export { cmif, sumFrf, type IndicatorCurves } from './cmif.ts';
+export {
+  stabilizationDiagram,
+  classifyPoles,
+  pickStablePoles,
+  DEFAULT_STABILITY_TOLERANCES,
+  type Stability,
+  type StabilityTolerances,
+  type StabilizationOptions,
+  type StabilizationDiagram,
+  type DiagramPole,
+  type PoleForStability,
+} from './lscf.ts';
+export { estimateShapes, synthesize, type ShapeOptions, type ModalModel, type ModelMode } from './lsfd.ts';
+export { correctWindowDamping } from './window-correction.ts';
+export { macMatrix, mpc, realShape } from './shape-tools.ts';
+export type { PoleValues } from './poles.ts';

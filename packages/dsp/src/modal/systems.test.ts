@@ -1,0 +1,124 @@
+// The test systems themselves are checked first: the TypeScript builders against numpy/scipy fixtures
+// (tests/reference/modal_fixtures.py → tests/fixtures/modal/) and against field-reference check values.
+import { describe, expect, it } from 'vitest';
+import { axis, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, twoDof63 } from './test-support.ts';
+
+const sys = loadModalFixture('systems.json');
+const bar = loadModalFixture('free-free-bar.json');
+
+function gridAt(set: ReturnType<typeof twoDof63>, k: number, n: number, refs: number[]) {
+  // returns H[i][j] for references refs (columns)
+  return Array.from({ length: n }, (_, i) =>
+    refs.map((j) => {
+      const x = set.frfs.find((q) => q.response === String(i + 1) && q.reference === String(j + 1))!;
+      return { re: x.h.re[k], im: x.h.im[k] };
+    }),
+  );
+}
+
+describe('test systems', () => {
+  it('builds the §6.2/§6.3 2-DOF receptances exactly as numpy.linalg.inv(K − ω²M + jωC)', () => {
+    const c = sys.twoDof63;
+    const f = Float64Array.from(c.f as number[]);
+    const set = twoDof63(f, [0, 1]);
+    for (let k = 0; k < f.length; k++) {
+      const H = gridAt(set, k, 2, [0, 1]);
+      for (let i = 0; i < 2; i++) {
+        for (let j = 0; j < 2; j++) {
+          const re = c.re[k][i * 2 + j];
+          const im = c.im[k][i * 2 + j];
+          // numpy 2.4 fixture systems.json, rounding-level agreement
+          expect(Math.hypot(H[i][j].re - re, H[i][j].im - im) / Math.hypot(re, im)).toBeLessThan(1e-10);
+        }
+      }
+    }
+    // scipy.linalg.eig of the state matrix (fixture): Rayleigh damping gives exactly 1 % and 2 %
+    expect(c.zeta[0]).toBeCloseTo(0.01, 12);
+    expect(c.zeta[1]).toBeCloseTo(0.02, 12);
+    // field-reference §6.2: f = 100.6584 and 174.3455 Hz
+    expect(c.fn[0]).toBeCloseTo(100.6584, 4);
+    expect(c.fn[1]).toBeCloseTo(174.3455, 4);
+  });
+
+  it('builds the §7.3(d) 3-DOF receptances with modal damping exactly as numpy does', () => {
+    const c = sys.threeDof73d;
+    const f = Float64Array.from(c.f as number[]);
+    const K = [
+      [2000, -1000, 0],
+      [-1000, 2000, -1000],
+      [0, -1000, 2000],
+    ];
+    const M = [
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+    ];
+    const s = Math.SQRT1_2;
+    // field-reference §7.3(d): ω² = (2 − √2, 2, 2 + √2)·k/m, modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
+    const phi = [
+      [0.5, -s, 0.5],
+      [s, 0, -s],
+      [0.5, s, 0.5],
+    ];
+    const w = [2 - Math.SQRT2, 2, 2 + Math.SQRT2].map((v) => Math.sqrt(1000 * v));
+    const set = systemFrfs(M, K, modalDamping(M, phi, w, [0.01, 0.015, 0.02]), f, [0, 1, 2]);
+    for (let k = 0; k < f.length; k++) {
+      const H = gridAt(set, k, 3, [0, 1, 2]);
+      for (let i = 0; i < 3; i++) {
+        for (let j = 0; j < 3; j++) {
+          const re = c.re[k][i * 3 + j];
+          const im = c.im[k][i * 3 + j];
+          // numpy 2.4 fixture systems.json
+          expect(Math.hypot(H[i][j].re - re, H[i][j].im - im) / Math.hypot(re, im)).toBeLessThan(1e-10);
+        }
+      }
+    }
+    // field-reference §7.3(d): 3.85203, 7.11763 and 9.29963 Hz (scipy.linalg.eigh, fixture)
+    expect(c.undampedHz[0]).toBeCloseTo(3.85203, 5);
+    expect(c.undampedHz[1]).toBeCloseTo(7.11763, 5);
+    expect(c.undampedHz[2]).toBeCloseTo(9.29963, 5);
+    expect(c.zeta).toEqual([expect.closeTo(0.01, 12), expect.closeTo(0.015, 12), expect.closeTo(0.02, 12)]);
+  });
+
+  it('gives the damped §7.3(a) check values α₁₁(6 Hz) and α₁₂(ω₂)', () => {
+    const M = [
+      [1, 0],
+      [0, 1],
+    ];
+    const K = [
+      [2000, -1000],
+      [-1000, 2000],
+    ];
+    // field-reference §7.3(a): a = 0.801921 s⁻¹, b = 4.62990e-4 s give ζ = 2 % in both modes
+    const { a, b } = rayleigh(0.02, Math.sqrt(1000), 0.02, Math.sqrt(3000));
+    expect(a).toBeCloseTo(0.801921, 6);
+    expect(b).toBeCloseTo(4.6299e-4, 9);
+    const f = Float64Array.of(6, Math.sqrt(3000) / (2 * Math.PI));
+    const set = systemFrfs(M, K, lin(a, M, b, K), f, [0]);
+    const h11 = set.frfs[0].h;
+    const h21 = set.frfs[1].h;
+    // field-reference §7.3(a): α₁₁(6 Hz) = −8.56163e-4 − 1.49203e-4·j m/N
+    expect(h11.re[0]).toBeCloseTo(-8.56163e-4, 9);
+    expect(h11.im[0]).toBeCloseTo(-1.49203e-4, 9);
+    // field-reference §7.3(a): α₁₂(ω₂) = −2.49700e-4 + 4.15802e-3·j m/N
+    expect(h21.re[1]).toBeCloseTo(-2.497e-4, 9);
+    expect(h21.im[1]).toBeCloseTo(4.15802e-3, 8);
+  });
+
+  it('solves the free–free beam equation and builds mass-normalised shapes as scipy brentq does', () => {
+    for (let n = 0; n < 6; n++) {
+      // scipy 1.17 brentq (fixture free-free-bar.json)
+      expect(freeFreeRoot(n + 1)).toBeCloseTo(bar.betaL[n], 10);
+      for (let i = 0; i < 21; i++) {
+        expect(freeFreeShape(freeFreeRoot(n + 1), 1, 7850 * 4e-4, bar.x[i])).toBeCloseTo(bar.shapes[n][i], 8); // cosh − σ·sinh cancels: ~1e-9 is the formula's own rounding
+      }
+    }
+    // field-reference §7.1: βL = 4.730041, 7.853205, 10.995608, 14.137165
+    expect([1, 2, 3, 4].map(freeFreeRoot).map((v) => Number(v.toFixed(6)))).toEqual([4.730041, 7.853205, 10.995608, 14.137165]);
+    const ei = (210e9 * 0.04 * 0.01 ** 3) / 12;
+    const f = [1, 2, 3, 4].map((n) => freeFreeRoot(n) ** 2 / (2 * Math.PI) * Math.sqrt(ei / (7850 * 4e-4)));
+    // field-reference §7.1 table, weak direction: 53.17, 146.55, 287.30, 474.93 Hz
+    expect(f.map((v) => Number(v.toFixed(2)))).toEqual([53.17, 146.55, 287.3, 474.93]);
+    expect(axis(0, 0.5, 3)).toEqual(Float64Array.of(0, 0.5, 1));
+  });
+});
