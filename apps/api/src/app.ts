@@ -27,6 +27,7 @@ export interface AppHandle {
   auth: Auth;
   mailer: Mailer;
   database: DbHandle;
+  config: Config;
   /** Every API route with its access rule (OpenAPI and the authorization matrix test use it). */
   routes: RegisteredRoute[];
   close(): Promise<void>;
@@ -111,6 +112,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     auth,
     mailer,
     database,
+    config,
     routes: routes.registry,
     async close() {
       await mailer.close();
