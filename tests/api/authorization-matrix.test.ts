@@ -64,6 +64,12 @@ const matrix: Record<string, Access> = {
   'GET /campaigns/:campaignId/events': 'viewer',
   'GET /campaigns/:campaignId/checks': 'viewer',
   'GET /campaigns/:campaignId/frfs': 'viewer',
+  'POST /campaigns/:campaignId/modes/fits': 'lead',
+  'GET /campaigns/:campaignId/modes/fits': 'viewer',
+  'GET /campaigns/:campaignId/modes/fits/:fitId': 'viewer',
+  'POST /campaigns/:campaignId/modes/fits/:fitId/modes': 'lead',
+  'GET /campaigns/:campaignId/modes/fits/:fitId/synthesis': 'viewer',
+  'GET /campaigns/:campaignId/modes': 'viewer',
 };
 
 const rank = { viewer: 1, engineer: 2, lead: 3 } as const;

@@ -17,6 +17,8 @@ import { registerCampaignRoutes } from './routes/campaigns.ts';
 import { registerGeometryRoutes } from './routes/geometry.ts';
 import { registerHitRoutes } from './routes/hits.ts';
 import { CampaignEvents } from './hits/events.ts';
+import { registerModeRoutes } from './routes/modes.ts';
+import { FitQueue } from './modes/jobs.ts';
 import { registerKitRoutes } from './routes/kit.ts';
 import { registerScheduleRoutes } from './routes/schedule.ts';
 import { registerSettingsRoutes } from './routes/settings.ts';
@@ -28,6 +30,8 @@ export interface AppHandle {
   mailer: Mailer;
   database: DbHandle;
   config: Config;
+  /** Background modal fits. */
+  fits: FitQueue;
   /** Every API route with its access rule (OpenAPI and the authorization matrix test use it). */
   routes: RegisteredRoute[];
   close(): Promise<void>;
@@ -86,6 +90,9 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
   registerHitRoutes(deps, new CampaignEvents());
+  const fits = new FitQueue(database.db);
+  await fits.recover();
+  registerModeRoutes(deps, fits);
 
   app.use('/api', resolveUser(auth));
   app.use('/api', routes.router);
@@ -113,8 +120,10 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     mailer,
     database,
     config,
+    fits,
     routes: routes.registry,
     async close() {
+      await fits.close();
       await mailer.close();
       await database.close();
     },

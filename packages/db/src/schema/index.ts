@@ -6,3 +6,4 @@ export * from './plan.ts';
 export * from './kit.ts';
 export * from './audit.ts';
 export * from './hits.ts';
+export * from './modes.ts';

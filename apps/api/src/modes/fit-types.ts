@@ -1,0 +1,30 @@
+import type { StabilityTolerances } from '@resonote/dsp';
+
+export interface FitJob {
+  f: Float64Array;
+  kind: 'receptance' | 'mobility' | 'accelerance';
+  frfs: { response: string; reference: string; re: Float64Array; im: Float64Array }[];
+  bandHz: [number, number];
+  orders: number[];
+  tolerances: Partial<StabilityTolerances>;
+}
+
+export interface StoredDiagram {
+  bandHz: [number, number];
+  dtS: number;
+  lines: number;
+  responses: string[];
+  references: string[];
+  transposed: boolean;
+  orders: { order: number; poles: { fHz: number; zeta: number; stable: string; lambda: { re: number; im: number } }[] }[];
+}
+
+export interface FitResult {
+  cmif: { f: number[]; values: number[][] };
+  diagram: StoredDiagram;
+}
+
+export type FitMessage =
+  | { type: 'progress'; progress: number; message: string }
+  | { type: 'done'; result: FitResult }
+  | { type: 'failed'; message: string };
