@@ -5,6 +5,7 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import './index.css';
 import { applyStoredTheme } from './lib/theme.ts';
 import { ApiError } from './lib/api.ts';
+import { ToastProvider } from './lib/toast.tsx';
 import { AppShell } from './layout/app-shell.tsx';
 import { CampaignsPage } from './pages/campaigns-page.tsx';
 import { AdminMailPage } from './pages/admin-mail-page.tsx';
@@ -13,6 +14,13 @@ import { SignInPage } from './pages/auth/sign-in-page.tsx';
 import { SignUpPage } from './pages/auth/sign-up-page.tsx';
 import { ForgotPasswordPage } from './pages/auth/forgot-password-page.tsx';
 import { ResetPasswordPage } from './pages/auth/reset-password-page.tsx';
+import { InvitationPage } from './pages/invitation-page.tsx';
+import { CampaignLayout } from './pages/campaign/campaign-layout.tsx';
+import { OverviewPage } from './pages/campaign/overview-page.tsx';
+import { PlanPage } from './pages/campaign/plan-page.tsx';
+import { KitPage } from './pages/campaign/kit-page.tsx';
+import { TapPage } from './pages/campaign/tap-page.tsx';
+import { ReviewPage } from './pages/campaign/review-page.tsx';
 
 applyStoredTheme();
 
@@ -30,11 +38,24 @@ const router = createBrowserRouter([
   { path: '/sign-up', element: <SignUpPage /> },
   { path: '/forgot-password', element: <ForgotPasswordPage /> },
   { path: '/reset-password', element: <ResetPasswordPage /> },
+  { path: '/invitations/:token', element: <InvitationPage /> },
   {
     element: <AppShell />,
     children: [
       { index: true, element: <Navigate to="/campaigns" replace /> },
       { path: '/campaigns', element: <CampaignsPage /> },
+      {
+        path: '/campaigns/:campaignId',
+        element: <CampaignLayout />,
+        children: [
+          { index: true, element: <OverviewPage /> },
+          { path: 'plan', element: <PlanPage /> },
+          { path: 'kit', element: <KitPage /> },
+          { path: 'tap', element: <TapPage /> },
+          { path: 'review', element: <ReviewPage /> },
+          { path: '*', element: <NotFoundPage /> },
+        ],
+      },
       { path: '/admin/mail', element: <AdminMailPage /> },
       { path: '*', element: <NotFoundPage /> },
     ],
@@ -44,7 +65,9 @@ const router = createBrowserRouter([
 createRoot(document.getElementById('root')!).render(
   <StrictMode>
     <QueryClientProvider client={queryClient}>
-      <RouterProvider router={router} />
+      <ToastProvider>
+        <RouterProvider router={router} />
+      </ToastProvider>
     </QueryClientProvider>
   </StrictMode>,
 );

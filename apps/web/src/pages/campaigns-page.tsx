@@ -1,71 +1,196 @@
-// The campaigns the signed-in person belongs to (every campaign for an admin).
-import { useQuery } from '@tanstack/react-query';
-import { api } from '../lib/api.ts';
+// The campaigns the signed-in person belongs to (every campaign for an admin), with progress,
+// a search box (?q=) and, for admins and leads, a form for a new campaign.
+import { useEffect, useState, type FormEvent } from 'react';
+import { Link, useNavigate, useSearchParams } from 'react-router';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { campaignCreateSchema, type CampaignStatus } from '@resonote/contracts';
+import { api, ApiError } from '../lib/api.ts';
 import { useMe } from '../lib/session.ts';
-import { Notice, Panel, Spinner } from '../components/ui.tsx';
+import { useToast } from '../lib/toast.tsx';
+import { issuesToErrors, type FieldErrors } from '../lib/forms.ts';
+import { purposeLabel, roleLabel, simulatorLabel, testTypeLabel, type MyRole } from '../lib/campaign-data.ts';
+import { Button, Field, Notice, Panel, Spinner } from '../components/ui.tsx';
+import { Select } from '../components/form-controls.tsx';
+import { CampaignStatusBadge, ProgressBar } from '../components/status.tsx';
 
 interface CampaignRow {
   id: string;
   name: string;
   structure: string;
   client: string;
-  status: string;
-  myRole: string;
+  status: CampaignStatus;
+  myRole: MyRole | null;
   updatedAt: string;
+  leads: string[];
+  progress: { planned: number; 'in-progress': number; done: number; flagged: number; skipped: number; total: number };
 }
 
-const statusLabel: Record<string, string> = { planning: 'Planning', testing: 'Testing', analysis: 'Analysis', 'handed-over': 'Handed over' };
+const listCampaigns = (q: string) => api<{ campaigns: CampaignRow[] }>(`/campaigns${q ? `?q=${encodeURIComponent(q)}` : ''}`);
 
 export function CampaignsPage() {
   const me = useMe();
-  const campaigns = useQuery({ queryKey: ['campaigns'], queryFn: () => api<{ campaigns: CampaignRow[] }>('/campaigns') });
+  const [params, setParams] = useSearchParams();
+  const q = params.get('q') ?? '';
+  const [typed, setTyped] = useState(q);
+  const [creating, setCreating] = useState(false);
+  useEffect(() => {
+    const t = setTimeout(() => {
+      if (typed.trim() !== q) setParams(typed.trim() ? { q: typed.trim() } : {}, { replace: true });
+    }, 250);
+    return () => clearTimeout(t);
+  }, [typed, q, setParams]);
+
+  const campaigns = useQuery({ queryKey: ['campaigns', q], queryFn: () => listCampaigns(q) });
+  // Unfiltered list, to know whether the caller leads any campaign (and so may create one).
+  const all = useQuery({ queryKey: ['campaigns', ''], queryFn: () => listCampaigns('') });
+  const isAdmin = me.data?.user.role === 'admin';
+  const canCreate = isAdmin || Boolean(all.data?.campaigns.some((c) => c.myRole === 'lead'));
 
   return (
     <div className="space-y-4">
-      <div className="flex items-end justify-between">
+      <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-semibold">Campaigns</h1>
           <p className="text-sm text-[var(--muted)]">Test campaigns you take part in, with your role in each.</p>
         </div>
+        <div className="flex flex-wrap items-end gap-2">
+          <label className="flex flex-col gap-1 text-sm font-medium">
+            <span className="sr-only">Search campaigns</span>
+            <input
+              type="search"
+              value={typed}
+              onChange={(e) => setTyped(e.target.value)}
+              placeholder="Search by name, structure or client"
+              aria-label="Search campaigns"
+              className="min-h-10 w-72 max-w-full rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm outline-none focus:border-accent focus:ring-2 focus:ring-accent/30"
+            />
+          </label>
+          {canCreate && !creating && <Button onClick={() => setCreating(true)}>New campaign</Button>}
+        </div>
       </div>
+      {creating && <NewCampaignForm onClose={() => setCreating(false)} />}
       <Panel>
         {campaigns.isPending && <Spinner label="Loading campaigns…" />}
-        {campaigns.isError && <Notice tone="error">{campaigns.error.message}</Notice>}
+        {campaigns.isError && <Notice tone="error">The campaigns could not be loaded: {campaigns.error.message}</Notice>}
         {campaigns.data && campaigns.data.campaigns.length === 0 && (
           <div className="py-10 text-center" data-testid="campaigns-empty">
-            <p className="text-base font-medium">No campaigns yet</p>
-            <p className="mx-auto mt-1 max-w-md text-sm text-[var(--muted)]">
-              {me.data?.user.role === 'admin'
-                ? 'As admin you see every campaign of this instance once one exists.'
-                : 'A test lead adds you to a campaign with a role: lead, engineer or viewer. Ask your lead for an invitation.'}
-            </p>
+            {q ? (
+              <>
+                <p className="text-base font-medium">No campaign matches “{q}”</p>
+                <p className="mt-1 text-sm text-[var(--muted)]">Search looks at the name, the structure and the client.</p>
+              </>
+            ) : (
+              <>
+                <p className="text-base font-medium">No campaigns yet</p>
+                <p className="mx-auto mt-1 max-w-md text-sm text-[var(--muted)]">
+                  {isAdmin
+                    ? 'As admin you see every campaign of this instance once one exists. Use “New campaign” to start one.'
+                    : 'A test lead adds you to a campaign with a role: lead, engineer or viewer. Ask your lead for an invitation.'}
+                </p>
+              </>
+            )}
           </div>
         )}
         {campaigns.data && campaigns.data.campaigns.length > 0 && (
-          <table className="w-full text-sm">
-            <thead className="text-left text-xs text-[var(--muted)] uppercase">
-              <tr>
-                <th className="py-2">Campaign</th>
-                <th>Structure</th>
-                <th>Client</th>
-                <th>Status</th>
-                <th>Your role</th>
-              </tr>
-            </thead>
-            <tbody>
-              {campaigns.data.campaigns.map((c) => (
-                <tr key={c.id} className="border-t border-[var(--line)]">
-                  <td className="py-2 font-medium">{c.name}</td>
-                  <td>{c.structure}</td>
-                  <td>{c.client}</td>
-                  <td>{statusLabel[c.status] ?? c.status}</td>
-                  <td className="capitalize">{c.myRole}</td>
+          <div className="-mx-4 overflow-x-auto px-4">
+            <table className="w-full min-w-[640px] text-sm">
+              <thead className="text-left text-xs text-[var(--muted)] uppercase">
+                <tr>
+                  <th className="py-2 pr-3 font-medium">Campaign</th>
+                  <th className="pr-3 font-medium">Client</th>
+                  <th className="pr-3 font-medium">Status</th>
+                  <th className="pr-3 font-medium">DOFs done</th>
+                  <th className="pr-3 font-medium">Leads</th>
+                  <th className="font-medium">Your role</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {campaigns.data.campaigns.map((c) => (
+                  <tr key={c.id} className="border-t border-[var(--line)] align-top hover:bg-accent-soft/40">
+                    <td className="py-2.5 pr-3">
+                      <Link to={`/campaigns/${c.id}`} className="font-medium text-accent-strong hover:underline">
+                        {c.name}
+                      </Link>
+                      <div className="text-xs text-[var(--muted)]">{c.structure || '—'}</div>
+                    </td>
+                    <td className="py-2.5 pr-3">{c.client || '—'}</td>
+                    <td className="py-2.5 pr-3">
+                      <CampaignStatusBadge status={c.status} />
+                    </td>
+                    <td className="py-2.5 pr-3">
+                      <ProgressBar done={c.progress.done} total={c.progress.total} />
+                    </td>
+                    <td className="py-2.5 pr-3">{c.leads.length ? c.leads.join(', ') : '—'}</td>
+                    <td className="py-2.5">{c.myRole ? roleLabel[c.myRole] : '—'}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
         )}
       </Panel>
     </div>
+  );
+}
+
+function NewCampaignForm({ onClose }: { onClose: () => void }) {
+  const navigate = useNavigate();
+  const client = useQueryClient();
+  const toast = useToast();
+  const [errors, setErrors] = useState<FieldErrors>({});
+  const [failure, setFailure] = useState<string>();
+  const [busy, setBusy] = useState(false);
+
+  async function submit(event: FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const f = new FormData(event.currentTarget);
+    const parsed = campaignCreateSchema.safeParse({
+      name: String(f.get('name') ?? ''),
+      structure: String(f.get('structure') ?? ''),
+      client: String(f.get('client') ?? ''),
+      purpose: f.get('purpose'),
+      testType: f.get('testType'),
+      simulator: f.get('simulator'),
+    });
+    if (!parsed.success) return setErrors(issuesToErrors(parsed.error));
+    setErrors({});
+    setBusy(true);
+    setFailure(undefined);
+    try {
+      const made = await api<{ campaign: { id: string; name: string } }>('/campaigns', { body: parsed.data });
+      await client.invalidateQueries({ queryKey: ['campaigns'] });
+      toast('ok', `Campaign “${made.campaign.name}” created. You are its lead.`);
+      navigate(`/campaigns/${made.campaign.id}/plan`);
+    } catch (err) {
+      setFailure(err instanceof ApiError ? err.message : 'The campaign could not be created.');
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  return (
+    <Panel title="New campaign">
+      <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-3">
+        {failure && (
+          <div className="md:col-span-3">
+            <Notice tone="error">{failure}</Notice>
+          </div>
+        )}
+        <Field id="new-name" name="name" label="Name" required error={errors.name} autoFocus />
+        <Field id="new-structure" name="structure" label="Structure" placeholder="e.g. pump-skid baseplate" error={errors.structure} />
+        <Field id="new-client" name="client" label="Client" error={errors.client} />
+        <Select id="new-purpose" name="purpose" label="Purpose" options={Object.entries(purposeLabel)} />
+        <Select id="new-test-type" name="testType" label="Test type" options={Object.entries(testTypeLabel)} />
+        <Select id="new-simulator" name="simulator" label="Simulated rig model" options={Object.entries(simulatorLabel)} defaultValue="generic" hint="Structure model behind simulated hits." />
+        <div className="flex gap-2 md:col-span-3">
+          <Button type="submit" disabled={busy}>
+            {busy ? 'Creating…' : 'Create campaign'}
+          </Button>
+          <Button type="button" variant="secondary" onClick={onClose}>
+            Cancel
+          </Button>
+        </div>
+      </form>
+    </Panel>
   );
 }

@@ -44,7 +44,7 @@ export function SignInPage() {
           <Link className="text-accent hover:underline" to="/forgot-password">
             Forgot the password?
           </Link>
-          <Link className="text-accent hover:underline" to="/sign-up">
+          <Link className="text-accent hover:underline" to={params.get('next') ? `/sign-up?next=${encodeURIComponent(params.get('next')!)}` : '/sign-up'}>
             Create an account
           </Link>
         </div>

@@ -1,5 +1,5 @@
 import { useState, type FormEvent } from 'react';
-import { Link, useNavigate } from 'react-router';
+import { Link, useNavigate, useSearchParams } from 'react-router';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from '../../lib/api.ts';
 import { meKey } from '../../lib/session.ts';
@@ -14,6 +14,10 @@ interface PublicSettings {
 export function SignUpPage() {
   const navigate = useNavigate();
   const client = useQueryClient();
+  const [params] = useSearchParams();
+  // Back to where the person came from (an invitation link, say), never to another site.
+  const rawNext = params.get('next');
+  const next = rawNext && rawNext.startsWith('/') && !rawNext.startsWith('//') ? rawNext : null;
   const settings = useQuery({ queryKey: ['public-settings'], queryFn: () => api<PublicSettings>('/public-settings') });
   const min = settings.data?.minPasswordLength ?? 10;
   const [error, setError] = useState<string>();
@@ -42,7 +46,7 @@ export function SignUpPage() {
         return;
       }
       client.removeQueries({ queryKey: meKey });
-      navigate('/campaigns', { replace: true });
+      navigate(next ?? '/campaigns', { replace: true });
     } catch (err) {
       setError(err instanceof ApiError ? err.message : 'Sign-up failed.');
     } finally {
@@ -63,14 +67,14 @@ export function SignUpPage() {
       <form onSubmit={submit} className="flex flex-col gap-4" noValidate>
         {error && <Notice tone="error">{error}</Notice>}
         <Field id="name" name="name" label="Name" autoComplete="name" required error={fieldErrors.name} autoFocus />
-        <Field id="email" name="email" type="email" label="E-mail" autoComplete="email" required error={fieldErrors.email} />
+        <Field id="email" name="email" type="email" label="E-mail" autoComplete="email" required error={fieldErrors.email} defaultValue={params.get('email') ?? undefined} />
         <Field id="password" name="password" type="password" label="Password" autoComplete="new-password" required hint={`At least ${min} characters.`} error={fieldErrors.password} />
         <Button type="submit" disabled={busy}>
           {busy ? 'Creating the account…' : 'Create account'}
         </Button>
         <p className="text-sm">
           Already registered?{' '}
-          <Link className="text-accent hover:underline" to="/sign-in">
+          <Link className="text-accent hover:underline" to={next ? `/sign-in?next=${encodeURIComponent(next)}` : '/sign-in'}>
             Sign in
           </Link>
         </p>

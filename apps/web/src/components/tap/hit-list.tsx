@@ -1,0 +1,53 @@
+// The hits of one DOF, newest last: sequence, verdict (icon + colour + word), peak force, pulse
+// width and reasons. A row can be chosen to see its traces (and, on Tap, to override its verdict).
+import type { HitSummary } from '../../lib/hits-data.ts';
+import { VerdictBadge } from './verdict.tsx';
+
+export function HitList({ hits, selectedId, onSelect }: { hits: HitSummary[]; selectedId: string | null; onSelect: (id: string) => void }) {
+  if (hits.length === 0) return <p className="text-sm text-[var(--muted)]">No hits at this DOF yet.</p>;
+  return (
+    <div className="overflow-x-auto">
+      <table className="w-full text-sm" data-testid="hit-list">
+        <thead className="text-left text-xs text-[var(--muted)]">
+          <tr>
+            <th className="py-1 pr-2 font-medium">#</th>
+            <th className="pr-2 font-medium">Verdict</th>
+            <th className="pr-2 text-right font-medium">Peak force</th>
+            <th className="pr-2 text-right font-medium">Pulse width</th>
+            <th className="font-medium">Reasons</th>
+          </tr>
+        </thead>
+        <tbody>
+          {hits.map((h) => {
+            const selected = h.id === selectedId;
+            return (
+              <tr
+                key={h.id}
+                data-hit={h.sequence}
+                data-verdict={h.verdict}
+                aria-selected={selected}
+                onClick={() => onSelect(h.id)}
+                className={`cursor-pointer border-t border-[var(--line)] align-top ${selected ? 'bg-accent-soft' : 'hover:bg-[var(--surface)]'}`}
+              >
+                <td className="num py-1.5 pr-2">
+                  <button type="button" className="min-h-8 min-w-8 text-left underline-offset-2 hover:underline" onClick={() => onSelect(h.id)} aria-label={`Show hit ${h.sequence}`}>
+                    {h.sequence}
+                  </button>
+                </td>
+                <td className="py-1.5 pr-2">
+                  <VerdictBadge verdict={h.verdict} overridden={h.overridden} />
+                </td>
+                <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.peakForceN.toFixed(1)} N</td>
+                <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.pulseWidthS === null ? '–' : `${(h.metrics.pulseWidthS * 1000).toFixed(2)} ms`}</td>
+                <td className="py-1.5 text-xs text-[var(--muted)]">
+                  {h.reasons.length ? h.reasons.map((r) => r.message).join('; ') : 'checks passed'}
+                  {h.overridden && h.overrideNote ? ` · note: ${h.overrideNote}` : ''}
+                </td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,116 @@
+// Recording hits at one entry (simulated rig or upload) and overriding verdicts, with the caches
+// brought up to date from the answer at once and every related query refreshed after.
+import { useRef, useState } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { api, ApiError } from '../../lib/api.ts';
+import { hitKeys, invalidateTestData, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary, type Verdict } from '../../lib/hits-data.ts';
+import { useToast } from '../../lib/toast.tsx';
+
+export type Tip = 'soft' | 'medium' | 'hard';
+export interface UploadFields {
+  file: File;
+  units: 'volts' | 'engineering';
+  sampleRateHz: string;
+  fullScaleVolts: string;
+}
+
+/** A retry (same request after a network or server failure) reuses the key, so nothing is stored twice. */
+function retryable(err: unknown) {
+  return err instanceof ApiError && (err.status === 0 || err.status >= 500);
+}
+
+function summary(answer: HitsAnswer): string {
+  const parts = answer.hits.map((h) => `hit ${h.sequence} ${h.verdict === 'accept' ? '✓ accepted' : `✕ rejected (${h.reasons.map((r) => r.message).join('; ')})`}`);
+  const skipped = answer.skipped.length ? ` ${answer.skipped.length} trigger${answer.skipped.length === 1 ? '' : 's'} skipped: ${answer.skipped.map((s) => s.reason).join('; ')}.` : '';
+  return `${parts.join(', ')}.${skipped}`;
+}
+
+export function useRecordHits(campaignId: string, entryId: string | null, onRecorded: (answer: HitsAnswer) => void) {
+  const client = useQueryClient();
+  const toast = useToast();
+  const [busy, setBusy] = useState<'strike' | 'upload' | 'verdict' | null>(null);
+  const [progress, setProgress] = useState<number | null>(null);
+  const pendingKey = useRef<{ what: string; key: string } | null>(null);
+  const [failedUpload, setFailedUpload] = useState<UploadFields | null>(null);
+
+  function keyFor(what: string) {
+    if (pendingKey.current?.what === what) return pendingKey.current.key;
+    const key = newIdempotencyKey();
+    pendingKey.current = { what, key };
+    return key;
+  }
+
+  function apply(answer: HitsAnswer) {
+    if (!entryId) return;
+    if (answer.frf) client.setQueryData(hitKeys.frf(campaignId, entryId, 'accelerance'), answer.frf);
+    client.setQueryData<EntryHits>(hitKeys.entryHits(campaignId, entryId), (old) => {
+      if (!old) return old;
+      const byId = new Map(old.hits.map((h) => [h.id, h]));
+      for (const h of answer.hits) byId.set(h.id, { ...byId.get(h.id), ...h } as HitSummary);
+      return { ...old, entry: { ...old.entry, status: answer.entry.status }, hits: [...byId.values()].sort((a, b) => a.sequence - b.sequence) };
+    });
+    void invalidateTestData(client, campaignId);
+  }
+
+  async function run(kind: 'strike' | 'upload', what: string, call: (key: string) => Promise<HitsAnswer>) {
+    if (!entryId || busy) return;
+    setBusy(kind);
+    try {
+      const answer = await call(keyFor(what));
+      pendingKey.current = null;
+      setFailedUpload(null);
+      apply(answer);
+      onRecorded(answer);
+      toast(answer.hits.every((h) => h.verdict === 'accept') ? 'ok' : 'info', `${answer.replayed ? 'Already stored: ' : ''}${summary(answer)}`);
+    } catch (err) {
+      if (!retryable(err)) pendingKey.current = null;
+      toast('error', `${err instanceof Error ? err.message : 'The hit could not be recorded.'}${retryable(err) ? ' Try again: the retry is safe.' : ''}`);
+      throw err;
+    } finally {
+      setBusy(null);
+      setProgress(null);
+    }
+  }
+
+  const strike = (tip: Tip) =>
+    run('strike', `strike:${entryId}:${tip}`, (key) => api<HitsAnswer>(`/campaigns/${campaignId}/schedule/${entryId}/simulate`, { body: { count: 1, tip, idempotencyKey: key, kind: 'accelerance' } })).catch(() => undefined);
+
+  const upload = (fields: UploadFields) => {
+    const form = new FormData();
+    form.append('units', fields.units);
+    if (fields.sampleRateHz.trim()) form.append('sampleRateHz', fields.sampleRateHz.trim());
+    if (fields.fullScaleVolts.trim()) form.append('fullScaleVolts', fields.fullScaleVolts.trim());
+    form.append('kind', 'accelerance');
+    form.append('file', fields.file);
+    setProgress(0);
+    const what = `upload:${entryId}:${fields.file.name}:${fields.file.size}:${fields.file.lastModified}:${fields.units}`;
+    return run('upload', what, (key) => uploadRecording(`/campaigns/${campaignId}/schedule/${entryId}/hits`, form, key, setProgress)).catch((err) => {
+      if (retryable(err)) setFailedUpload(fields);
+    });
+  };
+
+  async function override(hit: HitSummary, verdict: Verdict, note: string) {
+    if (busy) return;
+    if (hit.verdict === verdict) {
+      toast('info', `Hit ${hit.sequence} is already ${verdict === 'accept' ? 'accepted' : 'rejected'}.`);
+      return;
+    }
+    setBusy('verdict');
+    try {
+      const answer = await api<HitsAnswer>(`/campaigns/${campaignId}/hits/${hit.id}/verdict`, { body: { verdict, note, version: hit.version, kind: 'accelerance' } });
+      apply(answer);
+      toast('ok', `Hit ${hit.sequence} ${verdict === 'accept' ? '✓ accepted' : '✕ rejected'} by hand. ${answer.entry.acceptedHits} good hit${answer.entry.acceptedHits === 1 ? '' : 's'} at this DOF.`);
+    } catch (err) {
+      if (err instanceof ApiError && err.status === 409) {
+        toast('info', `${err.message} Reloaded: check hit ${hit.sequence} and decide again.`);
+        void invalidateTestData(client, campaignId);
+      } else {
+        toast('error', err instanceof Error ? err.message : 'The verdict could not be changed.');
+      }
+    } finally {
+      setBusy(null);
+    }
+  }
+
+  return { busy, progress, strike, upload, override, failedUpload };
+}

@@ -1,0 +1,107 @@
+// Plotly figures of FRFs, for one DOF (Tap, Review) and for overlays of up to 100 (Review):
+// magnitude + phase (+ coherence), real + imaginary, or Nyquist (Re against Im). All the complex
+// arithmetic goes through frf-math.ts; here only traces, axes and labels.
+import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
+import { axis, baseLayout, type PlotColours } from './plot-style.ts';
+
+export type FrfView = 'magphase' | 'reim' | 'nyquist';
+export const frfViewLabel: Record<FrfView, string> = { magphase: 'Magnitude and phase', reim: 'Real and imaginary', nyquist: 'Nyquist (Re against Im)' };
+
+export interface FrfCurve {
+  name: string;
+  f: ArrayLike<number>;
+  h: ComplexArrays;
+  coherence?: ArrayLike<number>;
+  colour: string;
+  dash?: 'solid' | 'dot' | 'dash';
+  /** Hidden from the legend (e.g. H2 beside H1 of the same channel). */
+  legend?: boolean;
+}
+
+export interface FrfFigureOptions {
+  kind: FrfKind;
+  view: FrfView;
+  db: boolean;
+  logF: boolean;
+  colours: PlotColours;
+  /** Adds a coherence row under magnitude and phase. */
+  coherence: boolean;
+  /** WebGL traces: needed for overlays of many long FRFs. */
+  gl?: boolean;
+  title?: string;
+  showLegend?: boolean;
+  /** Keeps zoom and pan across data updates while this string stays the same. */
+  uirevision?: string;
+}
+
+function slice(a: ArrayLike<number>, from: number): Float64Array {
+  const t = toFloat64(a);
+  return from === 0 ? t : t.subarray(from);
+}
+
+/** Builds plotly data and layout for the chosen view. */
+export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Record<string, unknown>[]; layout: Record<string, unknown> } {
+  const unit = frfUnit[o.kind];
+  const c = o.colours;
+  const type = o.gl ? 'scattergl' : 'scatter';
+  const data: Record<string, unknown>[] = [];
+  const magTitle = o.db ? `|H| (dB re 1 ${unit})` : `|H| (${unit})`;
+  const magSuffix = o.db ? ` dB re 1 ${unit}` : ` ${unit}`;
+  const showLegend = o.showLegend ?? curves.length <= 12;
+
+  for (const curve of curves) {
+    const from = o.logF ? firstPositiveLine(curve.f) : 0;
+    const f = slice(curve.f, from);
+    const h = { re: slice(curve.h.re, from), im: slice(curve.h.im, from) };
+    const line = { color: curve.colour, width: 1.2, dash: curve.dash ?? 'solid' };
+    const common = { type, mode: 'lines', name: curve.name, legendgroup: curve.name, line, showlegend: false };
+    if (o.view === 'magphase') {
+      const mag = o.db ? magnitudesDb(h) : magnitudes(h);
+      data.push({ ...common, x: f, y: mag, yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name}: %{y:.${o.db ? 2 : 4}${o.db ? 'f' : 'g'}}${magSuffix}<extra></extra>` });
+      data.push({ ...common, x: f, y: phasesDeg(h), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
+      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
+    } else if (o.view === 'reim') {
+      data.push({ ...common, x: f, y: h.re, yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name} Re: %{y:.4g} ${unit}<extra></extra>` });
+      data.push({ ...common, x: f, y: h.im, yaxis: 'y2', hovertemplate: `${curve.name} Im: %{y:.4g} ${unit}<extra></extra>` });
+      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
+    } else {
+      data.push({
+        ...common,
+        x: h.re,
+        y: h.im,
+        customdata: f,
+        showlegend: showLegend && curve.legend !== false,
+        hovertemplate: `${curve.name}<br>%{customdata:.2f} Hz<br>Re %{x:.4g} ${unit}<br>Im %{y:.4g} ${unit}<extra></extra>`,
+      });
+    }
+  }
+
+  const fAxis = axis(c, 'Frequency (Hz)', { type: o.logF ? 'log' : 'linear', hoverformat: '.2f' });
+  const withCoh = o.coherence && o.view !== 'nyquist' && curves.some((x) => x.coherence);
+  if (o.view === 'nyquist') {
+    return {
+      data,
+      layout: baseLayout(c, {
+        title: o.title ? { text: o.title, font: { size: 13 }, x: 0, xanchor: 'left' } : undefined,
+        hovermode: 'closest',
+        showlegend: showLegend,
+        uirevision: o.uirevision,
+        xaxis: axis(c, `Re(H) (${unit})`, { exponentformat: 'power', zeroline: true }),
+        yaxis: axis(c, `Im(H) (${unit})`, { exponentformat: 'power', zeroline: true, scaleanchor: 'x', scaleratio: 1 }),
+      }),
+    };
+  }
+  const domains = withCoh ? [[0.5, 1], [0.26, 0.46], [0, 0.2]] : [[0.42, 1], [0, 0.36]];
+  const top = o.view === 'magphase' ? magTitle : `Re(H) (${unit})`;
+  const mid = o.view === 'magphase' ? 'Phase (°)' : `Im(H) (${unit})`;
+  const layout = baseLayout(c, {
+    title: o.title ? { text: o.title, font: { size: 13 }, x: 0, xanchor: 'left' } : undefined,
+    showlegend: showLegend,
+    uirevision: o.uirevision,
+    xaxis: { ...fAxis, anchor: withCoh ? 'y3' : 'y2' },
+    yaxis: axis(c, top, { domain: domains[0], exponentformat: 'power' }),
+    yaxis2: axis(c, mid, o.view === 'magphase' ? { domain: domains[1], range: [-185, 185], tickvals: [-180, -90, 0, 90, 180] } : { domain: domains[1], exponentformat: 'power' }),
+    ...(withCoh ? { yaxis3: axis(c, 'Coherence γ²', { domain: domains[2], range: [0, 1.05], tickvals: [0, 0.5, 1] }) } : {}),
+  });
+  return { data, layout };
+}

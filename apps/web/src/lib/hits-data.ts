@@ -1,0 +1,263 @@
+// Types and queries of the test day: hits, their traces, averaged FRFs, overlays and checks
+// (apps/api/src/routes/hits.ts), and the live link that keeps every member's screen current.
+import { useEffect, useState } from 'react';
+import { useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
+import type { ScheduleStatus } from '@resonote/contracts';
+import { api, ApiError } from './api.ts';
+import type { FrfKind } from './frf-math.ts';
+import type { ScheduleEntry } from './campaign-data.ts';
+
+export type Verdict = 'accept' | 'reject';
+export interface HitReason {
+  code: string;
+  message: string;
+}
+export interface HitMetrics {
+  peakForceN: number;
+  pulseWidthS: number | null;
+  impulseNs: number;
+  rollOff10dBHz: number | null;
+  rollOff20dBHz: number | null;
+  secondPeakRatio: number | null;
+  secondPeakDelayS: number | null;
+  forceClippedSamples: number;
+  noiseRmsN: number;
+  peakTimeS: number | null;
+  responsePeaks: number[];
+  responseTailRatios: number[];
+}
+export interface HitSummary {
+  id: string;
+  sequence: number;
+  verdict: Verdict;
+  autoVerdict: Verdict;
+  overridden: boolean;
+  reasons: HitReason[];
+  metrics: HitMetrics;
+  overrideNote: string | null;
+  source: string;
+  settingsVersion: number;
+  recordedBy: string | null;
+  recordedAt: string;
+  version: number;
+}
+export interface EntryHits {
+  entry: { id: string; responseDof: string; excitationDof: string; status: ScheduleStatus; requiredHits: number };
+  hits: HitSummary[];
+}
+export interface TraceChannel {
+  channel: number;
+  role: 'force' | 'response';
+  dof: string | null;
+  unit: string;
+  sign: number;
+  kitItem: string;
+  values: number[];
+}
+export interface HitDetail {
+  hit: HitSummary;
+  sampleRateHz: number;
+  samples: number;
+  decimation: number;
+  t: number[];
+  channels: TraceChannel[];
+  triggerTimeS: number;
+  forceWindow: { startS: number; lengthS: number; taperS: number };
+  exponentialWindow: { startS: number; tauS: number; endLevelPercent: number } | null;
+  forceSpectrum: { f: number[]; levelDb: number[]; reference: string; bandHz: { low: number; high: number }; rollOffDb: number };
+}
+export interface ComplexJson {
+  re: number[];
+  im: number[];
+}
+export interface FrfAnswer {
+  entry?: { id: string; responseDof: string; excitationDof: string; drivingPoint: boolean };
+  kind: FrfKind;
+  unit: string;
+  estimators: string;
+  averages: number;
+  sampleRateHz: number;
+  samples: number;
+  df: number;
+  f: number[];
+  excitationDof: string;
+  forceEsd: { unit: string; scaling: string; values: number[] };
+  channels: { responseDof: string; meanCoherence: number | null; h1: ComplexJson; h2: ComplexJson; coherence: number[] }[];
+}
+export interface HitsAnswer {
+  replayed: boolean;
+  hits: HitSummary[];
+  skipped: { timeS: number; reason: string }[];
+  entry: { id: string; status: ScheduleStatus; acceptedHits: number; totalHits: number };
+  frf: FrfAnswer | null;
+  next: string | null;
+}
+export interface OverlayFrf {
+  entryId: string;
+  responseDof: string;
+  excitationDof: string;
+  averages: number;
+  f: number[];
+  h1: ComplexJson;
+  coherence: number[];
+  meanCoherence: number | null;
+}
+export interface OverlayAnswer {
+  kind: FrfKind;
+  unit: string;
+  frfs: OverlayFrf[];
+}
+export interface PeakDifference {
+  fHz: number;
+  dbDifference: number;
+  phaseDifferenceDeg: number;
+  peakShiftHz: number;
+}
+export interface DofPair {
+  response: string;
+  excitation: string;
+}
+export interface ChecksAnswer {
+  reciprocity: { a: DofPair; b: DofPair; frac: number; peaks: PeakDifference[] }[];
+  linearity: { entry: DofPair; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number; frac: number; peaks: PeakDifference[] }[];
+  note: string;
+}
+export interface CampaignListItem {
+  id: string;
+  name: string;
+  myRole: string | null;
+}
+
+export const hitKeys = {
+  next: (id: string) => ['campaign', id, 'schedule-next'] as const,
+  entryHits: (id: string, entryId: string) => ['campaign', id, 'hits', entryId] as const,
+  hit: (id: string, hitId: string) => ['campaign', id, 'hit', hitId] as const,
+  frf: (id: string, entryId: string, kind: FrfKind) => ['campaign', id, 'frf', entryId, kind] as const,
+  frfs: (id: string, entryIds: string[], kind: FrfKind) => ['campaign', id, 'frfs', kind, entryIds.join(',')] as const,
+  checks: (id: string) => ['campaign', id, 'checks'] as const,
+};
+
+export const useNextEntry = (id: string, enabled = true) =>
+  useQuery({ queryKey: hitKeys.next(id), queryFn: () => api<{ next: ScheduleEntry | null; remaining: number }>(`/campaigns/${id}/schedule/next`), enabled });
+
+export const useEntryHits = (id: string, entryId: string | null | undefined) =>
+  useQuery({ queryKey: hitKeys.entryHits(id, entryId ?? ''), queryFn: () => api<EntryHits>(`/campaigns/${id}/schedule/${entryId}/hits`), enabled: Boolean(entryId) });
+
+/** One hit with its traces; maxPoints high enough that a 2 ms pulse keeps every sample. */
+export const useHitDetail = (id: string, hitId: string | null | undefined) =>
+  useQuery({ queryKey: hitKeys.hit(id, hitId ?? ''), queryFn: () => api<HitDetail>(`/campaigns/${id}/hits/${hitId}?maxPoints=40000`), enabled: Boolean(hitId), staleTime: 60_000 });
+
+/** The averaged FRF of an entry; null (not an error) while it has no accepted hit. */
+export const useEntryFrf = (id: string, entryId: string | null | undefined, kind: FrfKind) =>
+  useQuery({
+    queryKey: hitKeys.frf(id, entryId ?? '', kind),
+    queryFn: async () => {
+      try {
+        return await api<FrfAnswer>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
+      } catch (err) {
+        if (err instanceof ApiError && err.status === 404 && err.code === 'no-result') return null;
+        throw err;
+      }
+    },
+    enabled: Boolean(entryId),
+  });
+
+export const useChecks = (id: string) => useQuery({ queryKey: hitKeys.checks(id), queryFn: () => api<ChecksAnswer>(`/campaigns/${id}/checks`) });
+
+export const useMyCampaigns = () => useQuery({ queryKey: ['campaigns', 'mine-for-overlay'], queryFn: () => api<{ campaigns: CampaignListItem[] }>('/campaigns') });
+
+/** Overlay data; `receivedAt` (performance.now() once the JSON is parsed) starts the draw timer. */
+export async function fetchOverlay(path: string): Promise<OverlayAnswer & { receivedAt: number }> {
+  const answer = await api<OverlayAnswer>(path);
+  return { ...answer, receivedAt: performance.now() };
+}
+
+/** Everything a hit or a verdict can change, for one campaign. */
+const liveParts = new Set(['schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress']);
+export function invalidateTestData(client: QueryClient, campaignId: string) {
+  return client.invalidateQueries({ predicate: (q) => q.queryKey[0] === 'campaign' && q.queryKey[1] === campaignId && liveParts.has(String(q.queryKey[2])) });
+}
+
+/**
+ * Follows the campaign's Server-Sent Events and refreshes what changed, so other members see a
+ * hit within about 2 s; when the stream cannot be held, polls every 5 s instead.
+ */
+export function useLiveCampaign(campaignId: string): 'live' | 'polling' | 'connecting' {
+  const client = useQueryClient();
+  const [state, setState] = useState<'live' | 'polling' | 'connecting'>('connecting');
+  useEffect(() => {
+    let source: EventSource | null = null;
+    let poll: ReturnType<typeof setInterval> | undefined;
+    let debounce: ReturnType<typeof setTimeout> | undefined;
+    const startPolling = () => {
+      setState('polling');
+      if (!poll) poll = setInterval(() => void invalidateTestData(client, campaignId), 5000);
+    };
+    if (typeof EventSource === 'undefined') {
+      startPolling();
+    } else {
+      source = new EventSource(`/api/campaigns/${campaignId}/events`);
+      source.onopen = () => {
+        setState('live');
+        if (poll) {
+          clearInterval(poll);
+          poll = undefined;
+        }
+      };
+      source.addEventListener('change', () => {
+        // Several hits of one recording arrive together: refresh once.
+        clearTimeout(debounce);
+        debounce = setTimeout(() => void invalidateTestData(client, campaignId), 250);
+      });
+      source.onerror = () => {
+        // The browser reconnects by itself while readyState is CONNECTING; poll meanwhile.
+        startPolling();
+      };
+    }
+    return () => {
+      source?.close();
+      clearInterval(poll);
+      clearTimeout(debounce);
+    };
+  }, [client, campaignId]);
+  return state;
+}
+
+/** A fresh key per attempt (reused on retry). crypto.randomUUID needs a secure context; a tablet on plain http may lack it. */
+export function newIdempotencyKey(): string {
+  if (typeof crypto.randomUUID === 'function') return crypto.randomUUID();
+  const b = crypto.getRandomValues(new Uint8Array(16));
+  b[6] = (b[6]! & 0x0f) | 0x40;
+  b[8] = (b[8]! & 0x3f) | 0x80;
+  const h = Array.from(b, (x) => x.toString(16).padStart(2, '0')).join('');
+  return `${h.slice(0, 8)}-${h.slice(8, 12)}-${h.slice(12, 16)}-${h.slice(16, 20)}-${h.slice(20)}`;
+}
+
+/**
+ * Uploads a recording with XMLHttpRequest, which (unlike fetch) reports upload progress.
+ * Errors come back as ApiError with the API's own message.
+ */
+export function uploadRecording(path: string, form: FormData, key: string, onProgress: (fraction: number) => void): Promise<HitsAnswer> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', `/api${path}`);
+    xhr.withCredentials = true;
+    xhr.setRequestHeader('Idempotency-Key', key);
+    xhr.upload.onprogress = (e) => {
+      if (e.lengthComputable) onProgress(e.loaded / e.total);
+    };
+    xhr.onerror = () => reject(new ApiError(0, 'offline', 'The upload did not reach the server. Check the connection and try again; a retry never stores the hits twice.'));
+    xhr.onload = () => {
+      let data: unknown;
+      try {
+        data = xhr.responseText ? JSON.parse(xhr.responseText) : undefined;
+      } catch {
+        data = undefined;
+      }
+      if (xhr.status >= 200 && xhr.status < 300) return resolve(data as HitsAnswer);
+      const err = (data as { error?: { code?: string; message?: string } } | undefined)?.error;
+      reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`));
+    };
+    xhr.send(form);
+  });
+}

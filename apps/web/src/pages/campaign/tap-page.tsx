@@ -1,0 +1,238 @@
+// Tap: the engineer at the structure. The current DOF in large type and on the geometry, hits from
+// the simulated rig or an uploaded recording, each hit's verdict with its reasons and large
+// Accept / Reject buttons, the time traces and force spectrum of the chosen hit, and the averaged
+// FRF and coherence building up. Single keys for a foot pedal: A, R, Space/S, N.
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
+import { Link, useParams, useSearchParams } from 'react-router';
+import type { ScheduleStatus } from '@resonote/contracts';
+import { useGeometry, useSchedule, type ScheduleEntry } from '../../lib/campaign-data.ts';
+import { useEntryFrf, useEntryHits, useLiveCampaign, useNextEntry, type HitsAnswer } from '../../lib/hits-data.ts';
+import { useToast } from '../../lib/toast.tsx';
+import { GeometryView } from '../../components/geometry-view.tsx';
+import { worstStatus } from '../../components/status.tsx';
+import { Button, Notice, Panel, Spinner } from '../../components/ui.tsx';
+import { DofHeader } from '../../components/tap/dof-header.tsx';
+import { FrfPlot } from '../../components/tap/frf-panel.tsx';
+import { HitList } from '../../components/tap/hit-list.tsx';
+import { HitPlots } from '../../components/tap/hit-plots.tsx';
+import { SafetyNote } from '../../components/tap/safety-note.tsx';
+import { Kbd, StrikePanel } from '../../components/tap/strike-panel.tsx';
+import { useRecordHits, type Tip } from '../../components/tap/use-record.ts';
+import { VerdictPanel } from '../../components/tap/verdict-panel.tsx';
+import { useCampaignContext } from './campaign-context.ts';
+
+const OPEN: ScheduleStatus[] = ['planned', 'in-progress'];
+const FRF_DISPLAY = { view: 'magphase', kind: 'accelerance', db: true, logF: false } as const;
+
+/** The next entry still to measure after `current`, in schedule order, wrapping round. */
+export function nextOpenEntry(entries: ScheduleEntry[], current: ScheduleEntry | undefined): ScheduleEntry | undefined {
+  const sorted = [...entries].sort((a, b) => a.position - b.position);
+  const at = current ? sorted.findIndex((e) => e.id === current.id) : -1;
+  const after = [...sorted.slice(at + 1), ...sorted.slice(0, Math.max(0, at))];
+  return after.find((e) => OPEN.includes(e.status));
+}
+
+function isTyping(target: EventTarget | null) {
+  const el = target as HTMLElement | null;
+  if (!el) return false;
+  return el.isContentEditable || ['INPUT', 'TEXTAREA', 'SELECT'].includes(el.tagName);
+}
+
+export function TapPage() {
+  const { campaignId = '' } = useParams();
+  const { campaign, myRole } = useCampaignContext();
+  const canAct = myRole === 'engineer' || myRole === 'lead' || myRole === 'admin';
+  const [params, setParams] = useSearchParams();
+  const entryParam = params.get('entry');
+  const toast = useToast();
+  const live = useLiveCampaign(campaignId);
+
+  const schedule = useSchedule(campaignId);
+  const geometry = useGeometry(campaignId);
+  const next = useNextEntry(campaignId, !entryParam);
+  const entries = useMemo(() => schedule.data?.entries ?? [], [schedule.data]);
+  const entry = entries.find((e) => e.id === entryParam);
+
+  // Without ?entry, start at the entry the schedule offers next, and keep it in the address so
+  // the DOF does not jump away when it is done.
+  useEffect(() => {
+    if (!entryParam && next.data?.next) setParams({ entry: next.data.next.id }, { replace: true });
+  }, [entryParam, next.data, setParams]);
+
+  const hits = useEntryHits(campaignId, entry?.id);
+  const frf = useEntryFrf(campaignId, entry?.id, 'accelerance');
+  const hitList = useMemo(() => hits.data?.hits ?? [], [hits.data]);
+  const [selectedId, setSelectedId] = useState<string | null>(null);
+  const selected = hitList.find((h) => h.id === selectedId) ?? hitList[hitList.length - 1] ?? null;
+  const accepted = hitList.filter((h) => h.verdict === 'accept').length;
+  const required = hits.data?.entry.requiredHits ?? entry?.requiredHits ?? 5;
+  const [tip, setTip] = useState<Tip>('soft');
+
+  useEffect(() => setSelectedId(null), [entry?.id]);
+
+  const onRecorded = useCallback(
+    (answer: HitsAnswer) => {
+      const last = answer.hits[answer.hits.length - 1];
+      if (last) setSelectedId(last.id);
+      if (answer.entry.status === 'done') toast('ok', `This DOF is done: ${answer.entry.acceptedHits} good hits. Press N (or Next DOF) to move on.`);
+    },
+    [toast],
+  );
+  const record = useRecordHits(campaignId, entry?.id ?? null, onRecorded);
+  const upcoming = nextOpenEntry(entries, entry);
+
+  const goNext = useCallback(() => {
+    if (!upcoming) {
+      toast('info', 'No other DOF is waiting: every entry of the schedule is done, flagged or skipped.');
+      return;
+    }
+    setParams({ entry: upcoming.id });
+  }, [upcoming, setParams, toast]);
+
+  // Single-key shortcuts (a foot pedal sends keys). Not while typing in a field.
+  const actions = useRef({ strike: () => {}, accept: () => {}, reject: () => {}, next: () => {} });
+  actions.current = {
+    strike: () => void record.strike(tip),
+    accept: () => selected && void record.override(selected, 'accept', 'accepted by hand at the structure'),
+    reject: () => selected && void record.override(selected, 'reject', 'rejected by hand at the structure'),
+    next: goNext,
+  };
+  useEffect(() => {
+    if (!canAct || !entry) return;
+    const onKey = (e: KeyboardEvent) => {
+      if (e.ctrlKey || e.metaKey || e.altKey || e.repeat || isTyping(e.target)) return;
+      const key = e.key.toLowerCase();
+      const map: Record<string, keyof typeof actions.current> = { a: 'accept', r: 'reject', s: 'strike', ' ': 'strike', n: 'next' };
+      const action = map[key];
+      if (!action) return;
+      // Space would also press a focused button: the shortcut is the only action.
+      e.preventDefault();
+      actions.current[action]();
+    };
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [canAct, entry]);
+
+  const points = useMemo(() => (geometry.data?.points ?? []).filter((p) => !p.retired), [geometry.data]);
+  const statusByPointId = useMemo(() => {
+    const lists: Record<string, ScheduleStatus[]> = {};
+    for (const e of entries) (lists[campaign.testType === 'roving-response' ? e.responsePointId : e.excitationPointId] ??= []).push(e.status);
+    return Object.fromEntries(Object.entries(lists).map(([id, list]) => [id, worstStatus(list)]));
+  }, [entries, campaign.testType]);
+  const rovingPoint = entry ? (campaign.testType === 'roving-response' ? entry.responsePointId : entry.excitationPointId) : null;
+
+  if (schedule.isPending || (!entryParam && next.isPending)) return <Spinner label="Loading the schedule…" />;
+  if (schedule.isError) return <Notice tone="error">The schedule could not be loaded: {schedule.error.message}</Notice>;
+  if (next.isError) return <Notice tone="error">The next DOF could not be found: {next.error.message}</Notice>;
+  if (entries.length === 0) {
+    return (
+      <Panel title="Tap">
+        <p className="text-sm text-[var(--muted)]" data-testid="tap-empty">
+          No schedule yet, so there is no DOF to measure. The lead builds it on the{' '}
+          <Link to="../plan" className="text-accent hover:underline">
+            Plan
+          </Link>{' '}
+          tab from the geometry, the test type and the reference DOFs.
+        </p>
+      </Panel>
+    );
+  }
+  if (!entryParam && !next.data?.next) {
+    return (
+      <Panel title="Tap">
+        <div className="space-y-2 text-sm" data-testid="tap-all-done">
+          <p>Every entry of the schedule is done, flagged or skipped: nothing is waiting to be measured.</p>
+          <p className="text-[var(--muted)]">
+            Look at the results on{' '}
+            <Link to="../review" className="text-accent hover:underline">
+              Review
+            </Link>
+            , or open any entry again from there.
+          </p>
+        </div>
+      </Panel>
+    );
+  }
+  if (!entry) {
+    return (
+      <Notice tone="error">
+        That schedule entry does not exist in this campaign (it may have been removed from the plan).{' '}
+        <button type="button" className="underline" onClick={() => setParams({})}>
+          Go to the next DOF on the schedule
+        </button>
+      </Notice>
+    );
+  }
+
+  const index = [...entries].sort((a, b) => a.position - b.position).findIndex((e) => e.id === entry.id) + 1;
+
+  return (
+    <div className="space-y-4" data-testid="tap-page" data-entry={entry.id}>
+      <section className="flex flex-wrap items-start justify-between gap-4 rounded-lg border border-accent/40 bg-[var(--panel)] p-4">
+        <DofHeader entry={entry} accepted={accepted} required={required} index={index} total={entries.length} />
+        <div className="flex flex-col items-end gap-1">
+          {canAct ? (
+            <Button variant={accepted >= required ? 'primary' : 'secondary'} onClick={goNext} disabled={!upcoming} className="min-h-14 px-6 text-base" data-testid="next-dof">
+              Next DOF <Kbd>N</Kbd>
+            </Button>
+          ) : (
+            upcoming && (
+              <Button variant="secondary" onClick={goNext} className="min-h-12">
+                Next DOF
+              </Button>
+            )
+          )}
+          <p className="num text-xs text-[var(--muted)]">
+            {upcoming ? `then ${upcoming.excitationDof} → ${upcoming.responseDof}` : 'no other DOF waiting'}
+          </p>
+          <p className="text-xs text-[var(--muted)]" data-testid="live-state">
+            {live === 'live' ? '● Live: others’ hits appear within seconds' : live === 'polling' ? '○ Refreshing every 5 s' : '○ Connecting…'}
+          </p>
+        </div>
+      </section>
+
+      <div className="grid gap-4 lg:grid-cols-[minmax(320px,380px)_minmax(0,1fr)]">
+        <div className="space-y-4">
+          {canAct ? (
+            <Panel title="Record a hit">
+              <StrikePanel tip={tip} onTip={setTip} onStrike={() => void record.strike(tip)} onUpload={(f) => void record.upload(f)} busy={record.busy} progress={record.progress} failedUpload={record.failedUpload} />
+            </Panel>
+          ) : (
+            <Notice tone="info">You are a viewer on this campaign: you see the hits and results as they come in, but you do not record or judge hits.</Notice>
+          )}
+          <Panel title="Verdict">
+            {hits.isPending ? <Spinner label="Loading the hits…" /> : hits.isError ? <Notice tone="error">The hits could not be loaded: {hits.error.message}</Notice> : <VerdictPanel hit={selected} canAct={canAct} busy={record.busy !== null} onOverride={(v, note) => selected && void record.override(selected, v, note)} />}
+          </Panel>
+          <Panel title={<>Hits at this DOF <span className="num font-normal text-[var(--muted)]">({hitList.length} recorded, {accepted} accepted)</span></>}>
+            <HitList hits={hitList} selectedId={selected?.id ?? null} onSelect={setSelectedId} />
+          </Panel>
+          <Panel title="Where on the structure">
+            {geometry.isPending && <Spinner label="Loading the geometry…" />}
+            {geometry.isError && <Notice tone="error">The geometry could not be loaded: {geometry.error.message}</Notice>}
+            {geometry.data && <GeometryView points={points} lines={geometry.data.lines} statusByPointId={statusByPointId} highlightPointId={rovingPoint} height={260} />}
+          </Panel>
+          <SafetyNote />
+        </div>
+
+        <div className="min-w-0 space-y-4">
+          <Panel title={<>Averaged FRF and coherence <span className="num font-normal text-[var(--muted)]" data-testid="frf-averages">{frf.data ? `${frf.data.averages} average${frf.data.averages === 1 ? '' : 's'}` : 'no average yet'}</span></>}>
+            {frf.isPending && <Spinner label="Loading the averaged FRF…" />}
+            {frf.isError && <Notice tone="error">The averaged FRF could not be loaded: {frf.error.message}</Notice>}
+            {frf.isSuccess && !frf.data && <p className="text-sm text-[var(--muted)]">No accepted hit yet, so no FRF. It appears after the first good hit and updates after every one.</p>}
+            {frf.data && (
+              <div data-testid="frf-plot">
+                <FrfPlot frf={frf.data} display={FRF_DISPLAY} height={430} uirevision={entry.id} />
+                <p className="mt-1 text-xs text-[var(--muted)]">
+                  H1 = G<sub>fx</sub>/G<sub>ff</sub> over the accepted hits; magnitude in dB re 1 (m/s²)/N, phase in degrees wrapped to (−180°, 180°], coherence γ² on 0–1. With one hit γ² = 1 everywhere and means nothing.
+                </p>
+              </div>
+            )}
+          </Panel>
+          <Panel title={selected ? <>Hit <span className="num">{selected.sequence}</span>: time traces and force spectrum</> : 'Time traces and force spectrum'}>
+            <HitPlots campaignId={campaignId} hitId={selected?.id ?? null} />
+          </Panel>
+        </div>
+      </div>
+    </div>
+  );
+}
