@@ -19,10 +19,12 @@ import { registerHitRoutes } from './routes/hits.ts';
 import { CampaignEvents } from './hits/events.ts';
 import { registerModeRoutes } from './routes/modes.ts';
 import { FitQueue } from './modes/jobs.ts';
+import { flushResultWrites } from './hits/processing.ts';
 import { registerKitRoutes } from './routes/kit.ts';
 import { registerScheduleRoutes } from './routes/schedule.ts';
 import { registerSettingsRoutes } from './routes/settings.ts';
 import { registerSystemRoutes } from './routes/system.ts';
+import { registerHandoverRoutes } from './routes/handover.ts';
 
 export interface AppHandle {
   app: Express;
@@ -93,6 +95,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   const fits = new FitQueue(database.db);
   await fits.recover();
   registerModeRoutes(deps, fits);
+  registerHandoverRoutes(deps);
 
   app.use('/api', resolveUser(auth));
   app.use('/api', routes.router);
@@ -124,6 +127,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     routes: routes.registry,
     async close() {
       await fits.close();
+      await flushResultWrites(database.db);
       await mailer.close();
       await database.close();
     },

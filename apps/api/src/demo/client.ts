@@ -16,7 +16,7 @@ export async function withLoopback<T>(app: Express, fn: (baseUrl: string) => Pro
   }
 }
 
-export async function signedInClient(baseUrl: string, origin: string, email: string, password: string): Promise<ApiClient & { upload(path: string, file: Buffer, name: string, fields: Record<string, string>, key: string): Promise<{ status: number; body: any }> }> {
+export async function signedInClient(baseUrl: string, origin: string, email: string, password: string): Promise<ApiClient & { cookie: string; upload(path: string, file: Buffer, name: string, fields: Record<string, string>, key: string): Promise<{ status: number; body: any }> }> {
   const res = await fetch(`${baseUrl}/api/auth/sign-in/email`, { method: 'POST', headers: { 'content-type': 'application/json', origin }, body: JSON.stringify({ email, password }) });
   if (!res.ok) throw new Error(`demo sign-in of ${email} failed: ${res.status} ${await res.text()}`);
   const cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
@@ -25,6 +25,7 @@ export async function signedInClient(baseUrl: string, origin: string, email: str
     return { status: r.status, body: text ? JSON.parse(text) : undefined };
   };
   return {
+    cookie,
     async request(method, path, body) {
       return parse(await fetch(`${baseUrl}${path}`, { method, headers: { cookie, origin, ...(body === undefined ? {} : { 'content-type': 'application/json' }) }, body: body === undefined ? undefined : JSON.stringify(body) }));
     },

@@ -14,7 +14,8 @@ function rounded(c: Complex, from: number, to: number) {
   return { re: pick(c.re, from, to), im: pick(c.im, from, to) };
 }
 
-export function frfJson(result: EntryResult, kind: FrfKind, band: { low: number; high: number } | null) {
+/** `only`: the index of the single response channel to include (the others are left out). */
+export function frfJson(result: EntryResult, kind: FrfKind, band: { low: number; high: number } | null, only?: number) {
   const { f } = result.frf;
   let from = 0;
   let to = f.length;
@@ -39,10 +40,12 @@ export function frfJson(result: EntryResult, kind: FrfKind, band: { low: number;
     f: pick(f, from, to),
     excitationDof: result.excitationDof,
     forceEsd: { unit: 'N²·s/Hz', scaling: 'single-sided energy spectral density, averaged per hit', values: pick(result.frf.gff, from, to) },
-    channels: result.channels.map((c, i) => {
+    channelCount: result.channels.length,
+    channels: result.channels.flatMap((c, i) => {
+      if (only !== undefined && i !== only) return [];
       const h1 = kind === 'accelerance' ? result.frf.h1[i]! : convertFrf(result.frf.h1[i]!, f, 'accelerance', kind);
       const h2 = kind === 'accelerance' ? result.frf.h2[i]! : convertFrf(result.frf.h2[i]!, f, 'accelerance', kind);
-      return { responseDof: c.dof, meanCoherence: c.meanCoherence, h1: rounded(h1, from, to), h2: rounded(h2, from, to), coherence: pick(result.frf.coherence[i]!, from, to) };
+      return [{ channelIndex: i, responseDof: c.dof, meanCoherence: c.meanCoherence, h1: rounded(h1, from, to), h2: rounded(h2, from, to), coherence: pick(result.frf.coherence[i]!, from, to) }];
     }),
   };
 }

@@ -1,7 +1,7 @@
 // From raw samples to verdicts and averaged FRFs, with the campaign's current settings.
 // Raw hits are never changed; everything here is recomputable from them and the settings.
 import { createHash } from 'node:crypto';
-import { and, asc, desc, eq } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
   averageFrf,
   checkHit,
@@ -18,6 +18,57 @@ import { acquisitionSettingsSchema, defaultAcquisitionSettings, type Acquisition
 import { acquisitionSettings, frfResult, hit, scheduleEntry } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
+
+/** A small least-recently-used map. */
+class Lru<K, V> {
+  private readonly map = new Map<K, V>();
+  constructor(private readonly max: number) {}
+  get(key: K): V | undefined {
+    const v = this.map.get(key);
+    if (v !== undefined) {
+      this.map.delete(key);
+      this.map.set(key, v);
+    }
+    return v;
+  }
+  set(key: K, value: V): void {
+    this.map.delete(key);
+    this.map.set(key, value);
+    if (this.map.size > this.max) this.map.delete(this.map.keys().next().value as K);
+  }
+}
+
+/**
+ * Per database: the newest results and the samples of recent hits kept in memory, so the hot path
+ * of a test day (hit in → updated average out, issue 5) needs neither re-reading raw samples nor
+ * re-decoding stored spectra. Results are still written to frf_result (off the request path) and
+ * every read checks the input hash, so nothing stale is ever served.
+ */
+interface Caches {
+  results: Lru<string, EntryResult>;
+  samples: Lru<string, Float32Array[]>;
+  pending: Set<Promise<unknown>>;
+}
+const cachesByDb = new WeakMap<object, Caches>();
+function caches(db: Db): Caches {
+  let c = cachesByDb.get(db);
+  if (!c) {
+    // 256 hits × 4 channels × 16 384 samples × 4 bytes ≈ 64 MB at most.
+    c = { results: new Lru(64), samples: new Lru(256), pending: new Set() };
+    cachesByDb.set(db, c);
+  }
+  return c;
+}
+
+/** Remembers the samples of a hit just stored (storage order, engineering units). */
+export function rememberSamples(db: Db, hitId: string, channels: Float32Array[]): void {
+  caches(db).samples.set(hitId, channels);
+}
+
+/** Waits for results still being written (shutdown, tests). */
+export async function flushResultWrites(db: Db): Promise<void> {
+  await Promise.all([...caches(db).pending]);
+}
 
 export interface CurrentSettings {
   version: number;
@@ -272,9 +323,13 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   const responseChannels = layout.filter((c) => c.role === 'response');
   const excitationDof = layout[0]!.dof;
 
+  const cache = caches(db);
+  const remembered = cache.results.get(entryId);
+  if (remembered && remembered.inputHash === hash) return { ...remembered, excluded };
+
   const [stored] = await db.select().from(frfResult).where(eq(frfResult.scheduleEntryId, entryId));
   if (stored && stored.inputHash === hash) {
-    return {
+    const fromDb: EntryResult = {
       inputHash: hash,
       settingsVersion: stored.settingsVersion,
       hitIds: stored.hitIds,
@@ -287,13 +342,18 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
       excluded,
       computedAt: stored.computedAt,
     };
+    cache.results.set(entryId, fromDb);
+    return fromDb;
   }
 
-  const rows = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept')));
-  const byId = new Map(rows.map((r) => [r.id, r.samples]));
+  const missing = sameLayout.filter((h) => !cache.samples.get(h.id)).map((h) => h.id);
+  if (missing.length) {
+    const rows = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(inArray(hit.id, missing));
+    for (const r of rows) cache.samples.set(r.id, unpackSamples(r.samples, layout.length, n));
+  }
   const pre = Math.round(s.preTriggerS * s.sampleRateHz);
   const records = sameLayout.map((h) => {
-    const chans = removeOffsets(unpackSamples(byId.get(h.id)!, layout.length, n), pre);
+    const chans = removeOffsets(cache.samples.get(h.id)!, pre);
     return { force: chans[0]!, responses: chans.slice(1) };
   });
   const exp = exponentialWindowOf(s);
@@ -313,8 +373,17 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
     data: encode(frf),
     computedAt,
   };
-  await db.insert(frfResult).values(values).onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: values });
-  return { inputHash: hash, settingsVersion: settings.version, hitIds: values.hitIds, averages: frf.averages, sampleRateHz: s.sampleRateHz, samples: n, channels, excitationDof, frf, excluded, computedAt };
+  const result: EntryResult = { inputHash: hash, settingsVersion: settings.version, hitIds: values.hitIds, averages: frf.averages, sampleRateHz: s.sampleRateHz, samples: n, channels, excitationDof, frf, excluded, computedAt };
+  cache.results.set(entryId, result);
+  // The stored copy serves other processes and restarts; writing it is not on the request path.
+  const write: Promise<unknown> = db
+    .insert(frfResult)
+    .values(values)
+    .onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: values })
+    .catch((err: Error) => console.error(`[resonote] storing the result of entry ${entryId} failed: ${err.message}`))
+    .finally(() => cache.pending.delete(write));
+  cache.pending.add(write);
+  return result;
 }
 
 /** Index of the response channel that measures the entry's own response DOF (same point and axis), else 0. */
@@ -337,4 +406,15 @@ export function statusFrom(input: { hitCount: number; accepted: number; required
   if (input.hitCount === 0) return input.current;
   if (input.accepted < input.requiredHits) return 'in-progress';
   return (input.meanCoherence ?? 0) >= input.threshold ? 'done' : 'flagged';
+}
+
+/** Schedule entries of a campaign that have at least one accepted hit, in schedule order. */
+export async function entriesWithAcceptedHits(db: Db, campaignId: string): Promise<string[]> {
+  const rows = await db
+    .selectDistinct({ id: scheduleEntry.id, position: scheduleEntry.position })
+    .from(scheduleEntry)
+    .innerJoin(hit, and(eq(hit.scheduleEntryId, scheduleEntry.id), eq(hit.verdict, 'accept')))
+    .where(eq(scheduleEntry.campaignId, campaignId))
+    .orderBy(asc(scheduleEntry.position));
+  return rows.map((r) => r.id);
 }

@@ -9,7 +9,7 @@ import { z } from 'zod';
 import { averageFrf, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
 import { uuidSchema } from '@resonote/contracts';
-import { campaign, frfResult, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
@@ -20,6 +20,7 @@ import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
 import {
   currentSettings,
+  entriesWithAcceptedHits,
   entryResult,
   exponentialWindowOf,
   forceWindowOf,
@@ -27,6 +28,7 @@ import {
   mainChannel,
   packSamples,
   recordSamples,
+  rememberSamples,
   removeOffsets,
   splitByTrigger,
   statusFrom,
@@ -169,6 +171,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         }
         return rows;
       });
+      stored.forEach((row, i) => rememberSamples(db, row.id, judged[i]!.record.channels));
       return { replayed: false, stored, skipped: split.skipped };
     } catch (err) {
       const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
@@ -205,7 +208,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       hits: stored.map((h) => hitSummary(h)),
       skipped,
       entry: { id: entry.id, status: after.status, acceptedHits: after.accepted, totalHits: after.total },
-      frf: after.result ? frfJson(after.result, kind, settings.settings.bandHz) : null,
+      // The channel that measures this entry's own DOF; GET …/frf has every channel.
+      frf: after.result ? frfJson(after.result, kind, settings.settings.bandHz, mainChannel(after.result.channels, entry.responseDof)) : null,
       next: await nextEntry(campaignId),
     };
   }
@@ -520,7 +524,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
         .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
         .where(eq(scheduleEntry.campaignId, access.campaignId));
-      const withResult = new Set((await db.select({ id: frfResult.scheduleEntryId }).from(frfResult).where(eq(frfResult.campaignId, access.campaignId))).map((r) => r.id));
+      const withResult = new Set(await entriesWithAcceptedHits(db, access.campaignId));
       const label = (e: (typeof entries)[number]) => ({ response: `${e.r}:${e.rd}`, excitation: `${e.e}:${e.ed}` });
       const reciprocity = [];
       for (const a of entries) {
@@ -584,7 +588,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const ids = query.entries
         ? query.entries.split(',').filter(Boolean)
-        : (await db.select({ id: frfResult.scheduleEntryId }).from(frfResult).innerJoin(scheduleEntry, eq(scheduleEntry.id, frfResult.scheduleEntryId)).where(eq(frfResult.campaignId, access.campaignId)).orderBy(asc(scheduleEntry.position))).map((r) => r.id);
+        : await entriesWithAcceptedHits(db, access.campaignId);
       if (ids.length > 100) throw badRequest(`At most 100 FRFs at once; ${ids.length} were asked for.`);
       const out = [];
       for (const id of ids) {

@@ -2,15 +2,15 @@
 // indicator and the stabilization diagram; the lead picks poles; residues give the shapes, MPC,
 // the MAC matrix and synthesized FRFs. The exponential window's added damping is removed exactly.
 import { createHash } from 'node:crypto';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import { convertFrf, correctWindowDamping, estimateShapes, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
 import { uuidSchema } from '@resonote/contracts';
-import { frfResult, line, modalFit, point, scheduleEntry } from '@resonote/db/schema';
+import { line, modalFit, point, scheduleEntry } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { badRequest, conflict, notFound } from '../errors.ts';
-import { currentSettings, entryResult, exponentialWindowOf } from '../hits/processing.ts';
+import { currentSettings, entriesWithAcceptedHits, entryResult, exponentialWindowOf } from '../hits/processing.ts';
 import type { FitQueue } from '../modes/jobs.ts';
 import type { FitResult } from '../modes/fit-types.ts';
 
@@ -59,7 +59,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     const settings = await currentSettings(db, campaignId);
     const ids = entryIds?.length
       ? entryIds
-      : (await db.select({ id: frfResult.scheduleEntryId }).from(frfResult).innerJoin(scheduleEntry, eq(scheduleEntry.id, frfResult.scheduleEntryId)).where(eq(frfResult.campaignId, campaignId)).orderBy(asc(scheduleEntry.position))).map((r) => r.id);
+      : await entriesWithAcceptedHits(db, campaignId);
     const frfs: FrfSet['frfs'] = [];
     const seen = new Set<string>();
     const hashes: string[] = [];

@@ -1,0 +1,389 @@
+// Everything the hand-over needs from one campaign, read once: the campaign, geometry, schedule,
+// kit with calibrations, settings history, hit statistics, the averaged FRFs (through the same
+// entryResult the Review screens use, so every number carries its input hash), the validity
+// checks and the current modes. The report, the bundles and the shared link all render this.
+import { aliasedTable, and, asc, desc, eq, sql } from 'drizzle-orm';
+import { averageFrf } from '@resonote/dsp';
+import { calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
+import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, point, scheduleEntry, user } from '@resonote/db/schema';
+import type { Db } from '@resonote/db/client';
+import { notFound } from '../errors.ts';
+import type { ChannelSnapshot } from '../hits/channel-map.ts';
+import { compareFrfs, type Comparison } from '../hits/checks.ts';
+import {
+  currentSettings,
+  entryResult,
+  exponentialWindowOf,
+  forceWindowOf,
+  mainChannel,
+  recordSamples,
+  removeOffsets,
+  unpackSamples,
+  type CurrentSettings,
+  type EntryResult,
+} from '../hits/processing.ts';
+
+const responsePoint = aliasedTable(point, 'response_point');
+const excitationPoint = aliasedTable(point, 'excitation_point');
+
+export interface HandoverEntry {
+  id: string;
+  position: number;
+  responseDof: string;
+  excitationDof: string;
+  drivingPoint: boolean;
+  status: string;
+  requiredHits: number;
+  assignee: string | null;
+  note: string;
+  acceptedHits: number;
+  rejectedHits: number;
+}
+
+export interface HandoverFrf {
+  entry: HandoverEntry;
+  result: EntryResult;
+  /** Index of the response channel that measures the entry's own response DOF. */
+  main: number;
+}
+
+export interface HandoverKitItem {
+  id: string;
+  kind: 'hammer' | 'accelerometer';
+  model: string;
+  serial: string;
+  sensitivity: number;
+  sensitivityUnit: string;
+  sensitivityBase: number;
+  sensitivityBaseUnit: 'mV/N' | 'mV/(m/s²)';
+  tips: string[];
+  axes: string[];
+  retired: boolean;
+  latest: { calibratedOn: string; dueOn: string; certificateRef: string; performedBy: string } | null;
+  calibrationCount: number;
+  /** Calibration state on the day of the last recorded hit (or today when nothing was recorded). */
+  stateAtTest: { state: CalibrationState; days: number | null; on: string };
+  stateToday: { state: CalibrationState; days: number | null; on: string };
+}
+
+export interface ModeRow {
+  mode: number;
+  fHz: number;
+  zetaPercent: number;
+  estimated: { fHz: number; zetaPercent: number };
+  mpc: number;
+  pole?: { order: number; index: number };
+  shape: { dof: string; re: number; im: number; real: number }[];
+}
+
+export interface HandoverModes {
+  fitId: string;
+  inputHash: string;
+  bandHz: [number, number];
+  settingsVersion: number;
+  resultHashes: string[];
+  entryIds: string[];
+  frfCount: number;
+  table: ModeRow[];
+  mac: number[][];
+  correction: string;
+  chosenBy: string;
+  chosenAt: string;
+  synthesisFrac: { response: string; reference: string; frac: number }[];
+}
+
+export interface HandoverChecks {
+  reciprocity: ({ a: { response: string; excitation: string }; b: { response: string; excitation: string } } & Comparison)[];
+  linearity: ({ entry: { response: string; excitation: string }; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number } & Comparison)[];
+  note: string;
+}
+
+export interface HandoverData {
+  generatedAt: Date;
+  campaign: typeof campaign.$inferSelect;
+  leads: string[];
+  points: { id: string; label: string; x: number; y: number; z: number; directions: string[]; retired: boolean }[];
+  lines: { id: string; pointA: string; pointB: string }[];
+  schedule: HandoverEntry[];
+  kit: HandoverKitItem[];
+  channels: { channel: number; kind: string; model: string; serial: string; axis: string | null; dof: string | null; sign: number; label: string }[];
+  settings: CurrentSettings & { history: { version: number; settings: unknown; reason: string; createdAt: Date; createdBy: string | null }[] };
+  hits: {
+    total: number;
+    accepted: number;
+    rejected: number;
+    overridden: number;
+    byReason: { code: string; n: number }[];
+    byEngineer: { name: string; hits: number; accepted: number; rejected: number }[];
+    firstAt: Date | null;
+    lastAt: Date | null;
+  };
+  frfs: HandoverFrf[];
+  checks: HandoverChecks | null;
+  modes: HandoverModes | null;
+}
+
+const day = (d: Date) => d.toISOString().slice(0, 10);
+
+export async function scheduleOf(db: Db, campaignId: string): Promise<HandoverEntry[]> {
+  const counts = db
+    .select({
+      entryId: hit.scheduleEntryId,
+      accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`.as('accepted'),
+      rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`.as('rejected'),
+    })
+    .from(hit)
+    .where(eq(hit.campaignId, campaignId))
+    .groupBy(hit.scheduleEntryId)
+    .as('counts');
+  const rows = await db
+    .select({
+      id: scheduleEntry.id,
+      position: scheduleEntry.position,
+      r: responsePoint.label,
+      rd: scheduleEntry.responseDirection,
+      e: excitationPoint.label,
+      ed: scheduleEntry.excitationDirection,
+      drivingPoint: scheduleEntry.drivingPoint,
+      status: scheduleEntry.status,
+      requiredHits: scheduleEntry.requiredHits,
+      assignee: user.name,
+      note: scheduleEntry.note,
+      acceptedHits: sql<number>`coalesce(${counts.accepted}, 0)::int`,
+      rejectedHits: sql<number>`coalesce(${counts.rejected}, 0)::int`,
+    })
+    .from(scheduleEntry)
+    .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
+    .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
+    .leftJoin(user, eq(user.id, scheduleEntry.assigneeId))
+    .leftJoin(counts, eq(counts.entryId, scheduleEntry.id))
+    .where(eq(scheduleEntry.campaignId, campaignId))
+    .orderBy(asc(scheduleEntry.position));
+  return rows.map(({ r, rd, e, ed, ...rest }) => ({ ...rest, responseDof: `${r}:${rd}`, excitationDof: `${e}:${ed}`, assignee: rest.assignee ?? null }));
+}
+
+/** The averaged FRFs of every entry with accepted hits, in schedule order. */
+export async function frfsOf(db: Db, campaignId: string, schedule: HandoverEntry[], settings: CurrentSettings): Promise<HandoverFrf[]> {
+  const out: HandoverFrf[] = [];
+  for (const entry of schedule) {
+    if (entry.acceptedHits === 0) continue;
+    const result = await entryResult(db, campaignId, entry.id, settings);
+    if (!result) continue;
+    out.push({ entry, result, main: mainChannel(result.channels, entry.responseDof) });
+  }
+  return out;
+}
+
+/** The newest modal fit with chosen modes, or null. */
+export async function modesOf(db: Db, campaignId: string): Promise<HandoverModes | null> {
+  const fits = await db.select().from(modalFit).where(eq(modalFit.campaignId, campaignId)).orderBy(desc(modalFit.createdAt));
+  const fit = fits.find((f) => f.modes);
+  if (!fit) return null;
+  const modes = fit.modes as { table: ModeRow[]; mac: number[][]; correction: string; chosenBy: string; chosenAt: string; synthesisFrac?: HandoverModes['synthesisFrac'] };
+  const request = fit.request as { bandHz: [number, number]; settingsVersion: number; resultHashes: string[]; entryIds: string[]; frfCount: number };
+  return {
+    fitId: fit.id,
+    inputHash: fit.inputHash,
+    bandHz: request.bandHz,
+    settingsVersion: request.settingsVersion,
+    resultHashes: request.resultHashes ?? [],
+    entryIds: request.entryIds ?? [],
+    frfCount: request.frfCount,
+    table: modes.table,
+    mac: modes.mac,
+    correction: modes.correction,
+    chosenBy: modes.chosenBy,
+    chosenAt: modes.chosenAt,
+    synthesisFrac: modes.synthesisFrac ?? [],
+  };
+}
+
+/**
+ * Reciprocity and linearity, computed exactly as GET …/checks does (routes/hits.ts): reciprocity
+ * pairs H_ij/H_ji on the H1 of the main channels; linearity splits an entry's accepted hits by
+ * peak force into a low and a high half (force ratio ≥ 1.5, at least 4 hits) and compares the two
+ * H1 averages.
+ */
+export async function checksOf(db: Db, campaignId: string, schedule: HandoverEntry[], frfs: HandoverFrf[], settings: CurrentSettings): Promise<HandoverChecks> {
+  const s = settings.settings;
+  const byId = new Map(frfs.map((x) => [x.entry.id, x]));
+  const label = (e: HandoverEntry) => ({ response: e.responseDof, excitation: e.excitationDof });
+  const reciprocity: HandoverChecks['reciprocity'] = [];
+  for (const a of frfs) {
+    const b = frfs.find((x) => x.entry.responseDof === a.entry.excitationDof && x.entry.excitationDof === a.entry.responseDof && x.entry.id !== a.entry.id);
+    if (!b || a.entry.id > b.entry.id || a.result.samples !== b.result.samples) continue;
+    reciprocity.push({ a: label(a.entry), b: label(b.entry), ...compareFrfs(a.result.frf.h1[a.main]!, b.result.frf.h1[b.main]!, a.result.frf.f, s.bandHz) });
+  }
+  const linearity: HandoverChecks['linearity'] = [];
+  const n = recordSamples(s);
+  const pre = Math.round(s.preTriggerS * s.sampleRateHz);
+  const exp = exponentialWindowOf(s);
+  for (const e of schedule) {
+    if (!byId.has(e.id)) continue;
+    const rows = await db
+      .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
+      .from(hit)
+      .where(and(eq(hit.scheduleEntryId, e.id), eq(hit.verdict, 'accept')));
+    const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
+    if (usable.length < 4) continue;
+    const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;
+    const sorted = [...usable].sort((x, y) => peak(x) - peak(y));
+    const half = Math.floor(sorted.length / 2);
+    const low = sorted.slice(0, half);
+    const high = sorted.slice(sorted.length - half);
+    const median = (g: typeof sorted) => peak(g[Math.floor(g.length / 2)]!);
+    const ratio = median(high) / Math.max(median(low), 1e-9);
+    if (ratio < 1.5) continue;
+    const frfOf = (g: typeof sorted) =>
+      averageFrf(
+        g.map((r) => {
+          const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
+          return { force: chans[0]!, responses: chans.slice(1) };
+        }),
+        s.sampleRateHz,
+        { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
+      );
+    const lo = frfOf(low);
+    const hi = frfOf(high);
+    const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), e.responseDof);
+    linearity.push({ entry: label(e), lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) });
+  }
+  return {
+    reciprocity,
+    linearity,
+    note: 'No normative pass/fail threshold exists for these checks (field-reference §6.8); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
+  };
+}
+
+export async function collectHandover(db: Db, campaignId: string, options: { checks?: boolean } = {}): Promise<HandoverData> {
+  const [c] = await db.select().from(campaign).where(eq(campaign.id, campaignId));
+  if (!c) throw notFound('That campaign');
+  const leads = (
+    await db
+      .select({ name: user.name })
+      .from(campaignMember)
+      .innerJoin(user, eq(user.id, campaignMember.userId))
+      .where(and(eq(campaignMember.campaignId, campaignId), eq(campaignMember.role, 'lead')))
+      .orderBy(asc(user.name))
+  ).map((r) => r.name);
+  const points = (
+    await db
+      .select({ id: point.id, label: point.label, x: point.x, y: point.y, z: point.z, directions: point.directions, retiredAt: point.retiredAt })
+      .from(point)
+      .where(eq(point.campaignId, campaignId))
+  )
+    .map(({ retiredAt, ...p }) => ({ ...p, directions: [...p.directions] as string[], retired: retiredAt !== null }))
+    .sort((a, b) => a.label.localeCompare(b.label, 'en', { numeric: true }));
+  const lines = await db.select({ id: line.id, pointA: line.pointA, pointB: line.pointB }).from(line).where(eq(line.campaignId, campaignId)).orderBy(asc(line.createdAt));
+  const schedule = await scheduleOf(db, campaignId);
+
+  const [span] = await db
+    .select({
+      total: sql<number>`count(*)::int`,
+      accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`,
+      rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`,
+      overridden: sql<number>`count(*) FILTER (WHERE ${hit.verdict} <> ${hit.autoVerdict})::int`,
+      firstAt: sql<string | null>`min(${hit.recordedAt})`,
+      lastAt: sql<string | null>`max(${hit.recordedAt})`,
+    })
+    .from(hit)
+    .where(eq(hit.campaignId, campaignId));
+  const byEngineer = (
+    await db
+      .select({
+        name: user.name,
+        hits: sql<number>`count(*)::int`,
+        accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`,
+        rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`,
+      })
+      .from(hit)
+      .leftJoin(user, eq(user.id, hit.recordedBy))
+      .where(eq(hit.campaignId, campaignId))
+      .groupBy(hit.recordedBy, user.name)
+  ).map((r) => ({ ...r, name: r.name ?? '(account not on this instance)' }));
+  const reasons = await db.execute<{ code: string; n: number }>(
+    sql`SELECT r->>'code' AS code, count(*)::int AS n FROM ${hit}, jsonb_array_elements(${hit.reasons}) r WHERE ${hit.campaignId} = ${campaignId} AND ${hit.verdict} = 'reject' GROUP BY 1 ORDER BY 2 DESC, 1`,
+  );
+  const firstAt = span?.firstAt ? new Date(span.firstAt) : null;
+  const lastAt = span?.lastAt ? new Date(span.lastAt) : null;
+
+  const items = await db.select().from(kitItem).where(eq(kitItem.campaignId, campaignId)).orderBy(sql`case ${kitItem.kind} when 'hammer' then 0 else 1 end`, asc(kitItem.model), asc(kitItem.serial));
+  const cals = items.length
+    ? await db
+        .select()
+        .from(calibrationRecord)
+        .innerJoin(kitItem, eq(kitItem.id, calibrationRecord.kitItemId))
+        .where(eq(kitItem.campaignId, campaignId))
+        .orderBy(desc(calibrationRecord.calibratedOn), desc(calibrationRecord.createdAt))
+    : [];
+  const today = day(new Date());
+  const testDay = lastAt ? day(lastAt) : today;
+  const kit: HandoverKitItem[] = items.map((item) => {
+    const mine = cals.filter((r) => r.calibration_record.kitItemId === item.id).map((r) => r.calibration_record);
+    const latest = mine[0] ?? null;
+    // At test time: the newest calibration made on or before the last test day.
+    const atTest = mine.find((r) => r.calibratedOn <= testDay) ?? null;
+    return {
+      id: item.id,
+      kind: item.kind,
+      model: item.model,
+      serial: item.serial,
+      sensitivity: item.sensitivity,
+      sensitivityUnit: item.sensitivityUnit,
+      sensitivityBase: item.sensitivityBase,
+      sensitivityBaseUnit: item.kind === 'hammer' ? 'mV/N' : 'mV/(m/s²)',
+      tips: item.tips,
+      axes: item.axes,
+      retired: item.retired,
+      latest: latest ? { calibratedOn: latest.calibratedOn, dueOn: latest.dueOn, certificateRef: latest.certificateRef, performedBy: latest.performedBy } : null,
+      calibrationCount: mine.length,
+      stateAtTest: { ...calibrationState(atTest?.dueOn ?? null, testDay), on: testDay },
+      stateToday: { ...calibrationState(latest?.dueOn ?? null, today), on: today },
+    };
+  });
+  const channels = await db
+    .select({ channel: channel.channel, kind: kitItem.kind, model: kitItem.model, serial: kitItem.serial, axis: channel.axis, dof: channel.dof, sign: channel.sign, label: channel.label })
+    .from(channel)
+    .innerJoin(kitItem, eq(kitItem.id, channel.kitItemId))
+    .where(eq(channel.campaignId, campaignId))
+    .orderBy(asc(channel.channel));
+
+  const current = await currentSettings(db, campaignId);
+  const history = await db
+    .select({ version: acquisitionSettings.version, settings: acquisitionSettings.settings, reason: acquisitionSettings.reason, createdAt: acquisitionSettings.createdAt, createdBy: user.name })
+    .from(acquisitionSettings)
+    .leftJoin(user, eq(user.id, acquisitionSettings.createdBy))
+    .where(eq(acquisitionSettings.campaignId, campaignId))
+    .orderBy(asc(acquisitionSettings.version));
+
+  const frfs = await frfsOf(db, campaignId, schedule, current);
+  const checks = options.checks === false ? null : await checksOf(db, campaignId, schedule, frfs, current);
+  const modes = await modesOf(db, campaignId);
+
+  return {
+    generatedAt: new Date(),
+    campaign: c,
+    leads,
+    points,
+    lines,
+    schedule,
+    kit,
+    channels,
+    settings: { ...current, history: history.map((h) => ({ ...h, createdBy: h.createdBy ?? null })) },
+    hits: {
+      total: span?.total ?? 0,
+      accepted: span?.accepted ?? 0,
+      rejected: span?.rejected ?? 0,
+      overridden: span?.overridden ?? 0,
+      byReason: reasons.rows.map((r) => ({ code: r.code, n: Number(r.n) })),
+      byEngineer,
+      firstAt,
+      lastAt,
+    },
+    frfs,
+    checks,
+    modes,
+  };
+}
+
+export type { AcquisitionSettings };

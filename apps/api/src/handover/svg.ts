@@ -1,0 +1,300 @@
+// Inline SVG figures for the printed report: the geometry in mm, FRF and coherence thumbnails,
+// and mode shapes drawn on the geometry. No scripts and no external assets, so the page prints
+// the same in any browser and in the PDF. Lines are thin, grids light, every axis has its unit.
+
+export const esc = (s: unknown) =>
+  String(s ?? '')
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/"/g, '&quot;');
+
+/** Round, readable tick values covering [lo, hi] (about `count` of them). */
+export function niceTicks(lo: number, hi: number, count = 5): number[] {
+  if (!Number.isFinite(lo) || !Number.isFinite(hi)) return [];
+  if (hi - lo < 1e-12) {
+    const pad = Math.abs(lo) > 0 ? Math.abs(lo) * 0.1 : 1;
+    lo -= pad;
+    hi += pad;
+  }
+  const raw = (hi - lo) / Math.max(1, count);
+  const mag = 10 ** Math.floor(Math.log10(raw));
+  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
+  const out: number[] = [];
+  for (let v = Math.ceil(lo / step - 1e-9) * step; v <= hi + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : v);
+  return out;
+}
+
+const fmtTick = (v: number) => {
+  const a = Math.abs(v);
+  if (a === 0) return '0';
+  if (a >= 1000 || Number.isInteger(v)) return String(Math.round(v));
+  if (a >= 1) return v.toFixed(1).replace(/\.0$/, '');
+  return String(Number(v.toPrecision(2)));
+};
+
+const FONT = `font-family="ui-monospace, 'DejaVu Sans Mono', Menlo, Consolas, monospace"`;
+const SANS = `font-family="system-ui, 'Segoe UI', 'DejaVu Sans', Helvetica, Arial, sans-serif"`;
+
+interface Frame {
+  x0: number;
+  y0: number;
+  w: number;
+  h: number;
+  xMin: number;
+  xMax: number;
+  yMin: number;
+  yMax: number;
+}
+const sx = (f: Frame, v: number) => f.x0 + ((v - f.xMin) / (f.xMax - f.xMin || 1)) * f.w;
+const sy = (f: Frame, v: number) => f.y0 + f.h - ((v - f.yMin) / (f.yMax - f.yMin || 1)) * f.h;
+
+function axes(f: Frame, xTicks: number[], yTicks: number[], xTitle: string, yTitle: string, fontPx = 9): string {
+  const parts: string[] = [];
+  parts.push(`<rect x="${f.x0}" y="${f.y0}" width="${f.w}" height="${f.h}" fill="#fff" stroke="#8a918e" stroke-width="0.6"/>`);
+  for (const t of xTicks) {
+    if (t < f.xMin - 1e-9 || t > f.xMax + 1e-9) continue;
+    const x = sx(f, t).toFixed(1);
+    parts.push(`<line x1="${x}" y1="${f.y0}" x2="${x}" y2="${f.y0 + f.h}" stroke="#e4e7e5" stroke-width="0.5"/>`);
+    parts.push(`<text x="${x}" y="${f.y0 + f.h + fontPx + 2}" font-size="${fontPx}" text-anchor="middle" ${FONT} fill="#333">${esc(fmtTick(t))}</text>`);
+  }
+  for (const t of yTicks) {
+    if (t < f.yMin - 1e-9 || t > f.yMax + 1e-9) continue;
+    const y = sy(f, t).toFixed(1);
+    parts.push(`<line x1="${f.x0}" y1="${y}" x2="${f.x0 + f.w}" y2="${y}" stroke="#e4e7e5" stroke-width="0.5"/>`);
+    parts.push(`<text x="${f.x0 - 3}" y="${Number(y) + fontPx / 3}" font-size="${fontPx}" text-anchor="end" ${FONT} fill="#333">${esc(fmtTick(t))}</text>`);
+  }
+  parts.push(`<rect x="${f.x0}" y="${f.y0}" width="${f.w}" height="${f.h}" fill="none" stroke="#8a918e" stroke-width="0.6"/>`);
+  parts.push(`<text x="${f.x0 + f.w / 2}" y="${f.y0 + f.h + 2 * fontPx + 5}" font-size="${fontPx}" text-anchor="middle" ${SANS} fill="#222">${esc(xTitle)}</text>`);
+  parts.push(`<text transform="translate(${f.x0 - 3 * fontPx - 4},${f.y0 + f.h / 2}) rotate(-90)" font-size="${fontPx}" text-anchor="middle" ${SANS} fill="#222">${esc(yTitle)}</text>`);
+  return parts.join('');
+}
+
+export interface GeometryPoint {
+  id: string;
+  label: string;
+  x: number;
+  y: number;
+  z: number;
+}
+
+const AXES = ['x', 'y', 'z'] as const;
+type Axis = (typeof AXES)[number];
+
+function extents(points: GeometryPoint[]) {
+  const ext = AXES.map((a) => {
+    const v = points.map((p) => p[a]);
+    return { axis: a, min: Math.min(...v), max: Math.max(...v), span: Math.max(...v) - Math.min(...v) };
+  });
+  return ext;
+}
+
+/** The two coordinate axes with the largest spread (x before y before z on a tie): the view plane. */
+export function viewAxes(points: GeometryPoint[]): [Axis, Axis] {
+  const ext = extents(points);
+  const order = [...ext].sort((a, b) => b.span - a.span || AXES.indexOf(a.axis) - AXES.indexOf(b.axis));
+  const pair = [order[0]!.axis, order[1]!.axis].sort((a, b) => AXES.indexOf(a) - AXES.indexOf(b)) as [Axis, Axis];
+  return pair;
+}
+
+/**
+ * The geometry projected orthographically onto the plane of its two largest extents, with mm
+ * axes. Reference DOF points are drawn as squares (shape, not only colour, marks them).
+ */
+export function geometrySvg(points: GeometryPoint[], lines: { pointA: string; pointB: string }[], referencePoints: Set<string>, width = 640): string {
+  if (points.length === 0) return '<p class="muted">No points defined.</p>';
+  const [a, b] = viewAxes(points);
+  const ext = extents(points);
+  const ea = ext.find((e) => e.axis === a)!;
+  const eb = ext.find((e) => e.axis === b)!;
+  const xt = niceTicks(ea.min, ea.max, 8);
+  let yt = niceTicks(eb.min, eb.max, 5);
+  // Equal scale on both axes so the picture is not distorted.
+  const plotW = width - 70;
+  const xMin = Math.min(xt[0]!, ea.min);
+  const xMax = Math.max(xt.at(-1)!, ea.max);
+  let yMin = Math.min(yt[0]!, eb.min);
+  let yMax = Math.max(yt.at(-1)!, eb.max);
+  const scale = Math.min(plotW / (xMax - xMin || 1), 420 / (yMax - yMin || 1));
+  let plotH = (yMax - yMin) * scale;
+  if (plotH < 60) {
+    // A slender structure: widen the vertical range so labels have room, still at equal scale.
+    const mid = (eb.min + eb.max) / 2;
+    const half = 60 / scale / 2;
+    yMin = mid - half;
+    yMax = mid + half;
+    plotH = 60;
+    yt = niceTicks(yMin, yMax, 2);
+  }
+  const f: Frame = { x0: 52, y0: 8, w: (xMax - xMin) * scale, h: plotH, xMin, xMax, yMin, yMax };
+  const byId = new Map(points.map((p) => [p.id, p]));
+  const parts: string[] = [axes(f, xt, yt, `${a} (mm)`, `${b} (mm)`)];
+  for (const l of lines) {
+    const p = byId.get(l.pointA);
+    const q = byId.get(l.pointB);
+    if (!p || !q) continue;
+    parts.push(`<line x1="${sx(f, p[a]).toFixed(1)}" y1="${sy(f, p[b]).toFixed(1)}" x2="${sx(f, q[a]).toFixed(1)}" y2="${sy(f, q[b]).toFixed(1)}" stroke="#4a5552" stroke-width="0.9"/>`);
+  }
+  const every = points.length > 60 ? Math.ceil(points.length / 40) : 1;
+  points.forEach((p, i) => {
+    const x = sx(f, p[a]);
+    const y = sy(f, p[b]);
+    if (referencePoints.has(p.label)) parts.push(`<rect x="${(x - 3.5).toFixed(1)}" y="${(y - 3.5).toFixed(1)}" width="7" height="7" fill="#0b6e69" stroke="#fff" stroke-width="0.6"/>`);
+    else parts.push(`<circle cx="${x.toFixed(1)}" cy="${y.toFixed(1)}" r="2.4" fill="#1b1f1e"/>`);
+    if (i % every === 0 || referencePoints.has(p.label)) {
+      const up = i % 2 === 0;
+      parts.push(`<text x="${x.toFixed(1)}" y="${(up ? y - 5 : y + 11).toFixed(1)}" font-size="7.5" text-anchor="middle" ${FONT} fill="#222">${esc(p.label)}</text>`);
+    }
+  });
+  const height = f.y0 + f.h + 32;
+  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="Geometry, ${esc(a)}–${esc(b)} view in mm">${parts.join('')}</svg>`;
+}
+
+/** Keeps the extremes of each pixel column so peaks survive the thinning. */
+function minMaxDecimate(x: number[], y: number[], buckets: number): { x: number[]; y: number[] } {
+  if (x.length <= buckets * 2) return { x, y };
+  const ox: number[] = [];
+  const oy: number[] = [];
+  const per = x.length / buckets;
+  for (let b = 0; b < buckets; b++) {
+    const from = Math.floor(b * per);
+    const to = Math.min(x.length, Math.floor((b + 1) * per));
+    let lo = from;
+    let hi = from;
+    for (let k = from; k < to; k++) {
+      if (y[k]! < y[lo]!) lo = k;
+      if (y[k]! > y[hi]!) hi = k;
+    }
+    for (const k of lo < hi ? [lo, hi] : hi < lo ? [hi, lo] : [lo]) {
+      ox.push(x[k]!);
+      oy.push(y[k]!);
+    }
+  }
+  return { x: ox, y: oy };
+}
+
+function polyline(f: Frame, x: number[], y: number[], stroke: string, width = 0.8, dash = ''): string {
+  const pts = x.map((v, i) => `${sx(f, v).toFixed(1)},${sy(f, Math.min(f.yMax, Math.max(f.yMin, y[i]!))).toFixed(1)}`).join(' ');
+  return `<polyline points="${pts}" fill="none" stroke="${stroke}" stroke-width="${width}"${dash ? ` stroke-dasharray="${dash}"` : ''} stroke-linejoin="round"/>`;
+}
+
+/**
+ * |H1| in dB re 1 (m/s²)/N over the band, above the ordinary coherence on 0–1, for one FRF.
+ * `f` in Hz; `re`/`im` the accelerance H1 in (m/s²)/N.
+ */
+export function frfThumbSvg(title: string, f: ArrayLike<number>, re: ArrayLike<number>, im: ArrayLike<number>, coherence: ArrayLike<number>, band: { low: number; high: number }, width = 330): string {
+  const xs: number[] = [];
+  const db: number[] = [];
+  const coh: number[] = [];
+  for (let k = 0; k < f.length; k++) {
+    if (f[k]! < band.low || f[k]! > band.high || f[k]! <= 0) continue;
+    xs.push(f[k]!);
+    db.push(20 * Math.log10(Math.max(Math.hypot(re[k]!, im[k]!), 1e-12)));
+    coh.push(coherence[k]!);
+  }
+  if (xs.length < 2) return `<p class="muted">${esc(title)}: no lines in the band.</p>`;
+  const plotW = width - 60;
+  const mag = minMaxDecimate(xs, db, plotW);
+  const co = minMaxDecimate(xs, coh, plotW);
+  let dMax = Math.max(...db);
+  let dMin = Math.max(Math.min(...db), dMax - 100);
+  const yt = niceTicks(dMin, dMax, 4);
+  dMin = Math.min(dMin, yt[0]!);
+  dMax = Math.max(dMax, yt.at(-1)!);
+  const xt = niceTicks(band.low, band.high, 5);
+  const top: Frame = { x0: 46, y0: 14, w: plotW, h: 92, xMin: band.low, xMax: band.high, yMin: dMin, yMax: dMax };
+  const bottom: Frame = { x0: 46, y0: top.y0 + top.h + 30, w: plotW, h: 40, xMin: band.low, xMax: band.high, yMin: 0, yMax: 1 };
+  const parts = [
+    `<text x="${top.x0}" y="9" font-size="8.5" ${FONT} fill="#111" font-weight="600">${esc(title)}</text>`,
+    axes(top, xt, yt, 'frequency (Hz)', '|H1| dB re 1 (m/s²)/N', 8),
+    polyline(top, mag.x, mag.y, '#0b4f8a', 0.7),
+    axes(bottom, xt, [0, 0.5, 1], 'frequency (Hz)', 'γ² (–)', 8),
+    polyline(bottom, co.x, co.y, '#8a3b0b', 0.7),
+  ];
+  const height = bottom.y0 + bottom.h + 30;
+  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
+}
+
+const DIR: Record<string, [number, number, number]> = { X: [1, 0, 0], Y: [0, 1, 0], Z: [0, 0, 1] };
+
+/**
+ * A mode shape drawn on the geometry: the undeformed structure dashed grey, the deformed one
+ * solid, the real shape vector added along each DOF's signed direction, scaled so the largest
+ * displacement is 12 % of the structure's size. A slender (one-dimensional) structure is drawn in
+ * the elevation that shows the displacement; anything else in an oblique view (30°, depth ×0.5).
+ */
+export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { pointA: string; pointB: string }[], shape: { dof: string; real: number }[], width = 250): string {
+  if (points.length === 0 || shape.length === 0) return '';
+  const byLabel = new Map(points.map((p) => [p.label, p]));
+  const disp = new Map<string, [number, number, number]>();
+  const dirTotals: Record<string, number> = { X: 0, Y: 0, Z: 0 };
+  for (const s of shape) {
+    const [label, dir] = s.dof.split(':');
+    const p = label ? byLabel.get(label) : undefined;
+    if (!p || !dir) continue;
+    const sign = dir.startsWith('-') ? -1 : 1;
+    const axis = dir.slice(-1);
+    const u = DIR[axis];
+    if (!u) continue;
+    const v = disp.get(p.id) ?? [0, 0, 0];
+    disp.set(p.id, [v[0] + sign * u[0] * s.real, v[1] + sign * u[1] * s.real, v[2] + sign * u[2] * s.real]);
+    dirTotals[axis]! += Math.abs(s.real);
+  }
+  const maxD = Math.max(1e-30, ...[...disp.values()].map((v) => Math.hypot(...v)));
+  const ext = extents(points);
+  const size = Math.max(...ext.map((e) => e.span), 1);
+  const k = (0.12 * size) / maxD;
+  const slender = ext.filter((e) => e.span > 0.02 * size).length <= 1;
+  let project: (v: [number, number, number]) => [number, number];
+  let caption: string;
+  if (slender) {
+    const along = ext.reduce((m, e) => (e.span > m.span ? e : m)).axis;
+    const dispAxis = (Object.entries(dirTotals).sort((p, q) => q[1] - p[1])[0]![0].toLowerCase() as Axis);
+    const up = dispAxis === along ? (AXES.find((x) => x !== along) as Axis) : dispAxis;
+    const ia = AXES.indexOf(along);
+    const iu = AXES.indexOf(up);
+    project = (v) => [v[ia]!, v[iu]!];
+    caption = `elevation: ${along} across, ${up} up`;
+  } else {
+    const c = Math.cos(Math.PI / 6) * 0.5;
+    const s = Math.sin(Math.PI / 6) * 0.5;
+    project = (v) => [v[0] + c * v[1], v[2] + s * v[1]];
+    caption = 'oblique view: x across, z up, y into the page';
+  }
+  const base = points.map((p) => project([p.x, p.y, p.z]));
+  const moved = points.map((p) => {
+    const d = disp.get(p.id) ?? [0, 0, 0];
+    return project([p.x + k * d[0], p.y + k * d[1], p.z + k * d[2]]);
+  });
+  const all = [...base, ...moved];
+  const xMin = Math.min(...all.map((q) => q[0]));
+  const xMax = Math.max(...all.map((q) => q[0]));
+  const yMin = Math.min(...all.map((q) => q[1]));
+  const yMax = Math.max(...all.map((q) => q[1]));
+  const plotW = width - 16;
+  const sc = plotW / Math.max(xMax - xMin, 1e-9);
+  const plotH = Math.min(150, Math.max(50, (yMax - yMin) * sc));
+  const scale = Math.min(sc, plotH / Math.max(yMax - yMin, 1e-9));
+  const ox = 8 + (plotW - (xMax - xMin) * scale) / 2;
+  const oy = 16 + (plotH - (yMax - yMin) * scale) / 2;
+  const X = (q: [number, number]) => (ox + (q[0] - xMin) * scale).toFixed(1);
+  const Y = (q: [number, number]) => (oy + (yMax - q[1]) * scale).toFixed(1);
+  const index = new Map(points.map((p, i) => [p.id, i]));
+  const parts: string[] = [`<text x="8" y="10" font-size="8.5" ${FONT} fill="#111" font-weight="600">${esc(title)}</text>`];
+  for (const [set, stroke, w, dash] of [
+    [base, '#9aa29f', 0.7, '3 2'],
+    [moved, '#0b4f8a', 1.2, ''],
+  ] as const) {
+    for (const l of lines) {
+      const i = index.get(l.pointA);
+      const j = index.get(l.pointB);
+      if (i === undefined || j === undefined) continue;
+      parts.push(`<line x1="${X(set[i]!)}" y1="${Y(set[i]!)}" x2="${X(set[j]!)}" y2="${Y(set[j]!)}" stroke="${stroke}" stroke-width="${w}"${dash ? ` stroke-dasharray="${dash}"` : ''}/>`);
+    }
+    if (lines.length === 0) for (const q of set) parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.2" fill="${stroke}"/>`);
+  }
+  for (const q of moved) parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.3" fill="#0b4f8a"/>`);
+  const height = 16 + plotH + 14;
+  parts.push(`<text x="8" y="${height - 3}" font-size="7" ${SANS} fill="#555">${esc(caption)}; dashed: at rest</text>`);
+  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
+}
