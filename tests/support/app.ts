@@ -47,6 +47,7 @@ export async function startTestApp(
   if (options.listen) {
     server = await new Promise<Server>((resolve) => {
       const s = handle.app.listen(port, '127.0.0.1', () => resolve(s));
+      s.keepAliveTimeout = 65_000; // as in apps/api/src/server.ts
     });
   }
   return {

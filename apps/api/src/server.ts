@@ -34,6 +34,10 @@ const server = handle.app.listen(config.port, config.host, () => {
   const bootStarted = Number(process.env.RESONOTE_BOOT_STARTED ?? 0);
   if (bootStarted) console.log(`[resonote] ready in ${((Date.now() - bootStarted) / 1000).toFixed(1)} s`);
 });
+// Idle keep-alive sockets stay open longer than clients keep theirs, so a client never reuses a
+// socket the server is closing at that moment (that race shows as ECONNRESET on a POST).
+server.keepAliveTimeout = 65_000;
+server.headersTimeout = 66_000;
 server.on('error', (err) => {
   console.error(`[resonote] cannot listen on ${config.host}:${config.port}: ${err.message}`);
   process.exit(1);
