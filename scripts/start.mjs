@@ -3,11 +3,13 @@
 // then the database.
 import { spawn } from 'node:child_process';
 import path from 'node:path';
-import { buildWeb, ensurePostgres, installDependencies, log, root } from './bootstrap.mjs';
+import { buildWeb, ensureChromium, ensurePostgres, installDependencies, log, root } from './bootstrap.mjs';
 
 const started = Date.now();
 installDependencies();
 const pg = ensurePostgres({ name: 'dev', port: Number(process.env.RESONOTE_PG_PORT ?? 54329), database: 'resonote' });
+// The PDF report is Chromium's print of the report page.
+ensureChromium();
 buildWeb();
 
 const server = spawn(process.execPath, ['--import', 'tsx', 'src/server.ts', '--seed'], {
