@@ -70,6 +70,14 @@ const matrix: Record<string, Access> = {
   'POST /campaigns/:campaignId/modes/fits/:fitId/modes': 'lead',
   'GET /campaigns/:campaignId/modes/fits/:fitId/synthesis': 'viewer',
   'GET /campaigns/:campaignId/modes': 'viewer',
+  'GET /campaigns/:campaignId/report.html': 'viewer',
+  'GET /campaigns/:campaignId/report.pdf': 'lead',
+  'GET /campaigns/:campaignId/export/bundle.zip': 'lead',
+  'GET /campaigns/:campaignId/export/bundle.json': 'lead',
+  'POST /campaigns/:campaignId/share': 'lead',
+  'GET /shared/reports/:token': 'public',
+  'GET /campaigns/:campaignId/backup': 'lead',
+  'POST /campaigns/restore': 'user',
 };
 
 const rank = { viewer: 1, engineer: 2, lead: 3 } as const;

@@ -201,15 +201,20 @@ ${thumbs ? `<p class="small">Each thumbnail: |H1| accelerance in ${DB_REFERENCE}
 input hash <span class="n">${esc(x.result.inputHash)}</span><br>accepted hits ${x.result.hitIds.map((h) => `<span class="n id">${esc(h)}</span>`).join(' ')}</div>`,
     )
     .join('');
+  const frfByHash = new Map(d.frfs.map((x) => [x.result.inputHash, `H(${x.result.channels.map((ch) => ch.dof).join(' / ')}, ${x.result.excitationDof})`]));
   const appB = m
-    ? m.table.map((r) => `<tr><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(3)}</td><td class="n">${esc(m.fitId)}</td><td class="n hash">${esc(m.inputHash)}</td><td class="n">${r.pole ? `order ${r.pole.order}, pole ${r.pole.index}` : '–'}</td></tr>`).join('')
+    ? `<p class="small">Modal fit <span class="n">${esc(m.fitId)}</span>, fit input hash <span class="n">${esc(m.inputHash)}</span> (covers the settings version ${esc(m.settingsVersion)}, the FRF input hashes below, the band ${esc(m.bandHz[0])}–${esc(m.bandHz[1])} Hz and the fit options).</p>
+<table class="grid keep" style="width:auto"><thead><tr><th>Mode</th><th>f (Hz)</th><th>ζ (%)</th><th>Chosen pole in the stabilization diagram</th></tr></thead><tbody>${m.table
+        .map((r) => `<tr><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(3)}</td><td class="n r">${r.zetaPercent.toFixed(3)}</td><td class="n">${r.pole ? `model order ${r.pole.order}, pole ${r.pole.index}` : '–'}</td></tr>`)
+        .join('')}</tbody></table>
+<p class="small">FRFs the fit used (input hash → FRF):</p><div class="hash-list">${m.resultHashes.map((h) => `<div><span class="n">${esc(h)}</span> ${frfByHash.has(h) ? `<span class="n">${esc(frfByHash.get(h))}</span>` : '<i>(no longer the current result of its entry)</i>'}</div>`).join('')}</div>`
     : '';
   const appC = d.points.map((p) => `<tr><td class="n">${esc(p.label)}</td><td class="n r">${p.x}</td><td class="n r">${p.y}</td><td class="n r">${p.z}</td><td class="n">${esc(p.directions.join(' '))}${p.retired ? ' (retired)' : ''}</td></tr>`).join('');
   sec.push(`<section class="appendix"><h2>Appendix A — where each FRF comes from</h2>
 <p class="small">Each FRF is the average of the accepted hits listed (ids as stored; raw samples never change), processed with the settings version given. The input hash is SHA-256 over the settings version and the accepted hit ids with their verdict versions; the same hash means the same inputs.</p>
 ${appA ? `<div class="trace-list">${appA}</div>` : '<p class="muted">No FRFs.</p>'}
 <h2>Appendix B — where each mode comes from</h2>
-${m ? `<p class="small">The fit's input hash covers the settings version, the FRF input hashes below, the band and the fit options.</p><table class="grid trace"><thead><tr><th>Mode</th><th>f (Hz)</th><th>Fit id</th><th>Fit input hash</th><th>Chosen pole</th></tr></thead><tbody>${appB}</tbody></table><p class="small">FRF input hashes used by the fit: ${m.resultHashes.map((h) => `<span class="n hash">${esc(h)}</span>`).join(' ')}</p>` : '<p class="muted">No modes.</p>'}
+${m ? appB : '<p class="muted">No modes.</p>'}
 <h2>Appendix C — point coordinates (mm)</h2>
 ${appC ? `<table class="grid pts"><thead><tr><th>Point</th><th>x (mm)</th><th>y (mm)</th><th>z (mm)</th><th>Directions</th></tr></thead><tbody>${appC}</tbody></table>` : '<p class="muted">No points.</p>'}
 </section>`);
@@ -270,6 +275,8 @@ table.macm td.mac { text-align: center; min-width: 11mm; }
 .trace td.ids { font-size: 6.5pt; }
 .trace-item { font-size: 7.6pt; line-height: 1.45; padding: 1.2mm 0; border-bottom: 1px solid #eef0ef; break-inside: avoid; }
 .trace-item .n { font-size: 7pt; }
+.hash-list { font-size: 7pt; columns: 1; }
+.hash-list div { break-inside: avoid; }
 .trace-item .id { white-space: nowrap; display: inline-block; margin-right: 1.5mm; }
 .caution { border: 1.5px solid #8a3b0b; padding: 2mm 4mm; margin-top: 8px; }
 .caution h2 { border: none; margin-top: 4px; }

@@ -105,8 +105,11 @@ export function geometrySvg(points: GeometryPoint[], lines: { pointA: string; po
   if (points.length === 0) return '<p class="muted">No points defined.</p>';
   const [a, b] = viewAxes(points);
   const ext = extents(points);
-  const ea = ext.find((e) => e.axis === a)!;
-  const eb = ext.find((e) => e.axis === b)!;
+  // Pad the data so points and their labels sit inside the frame, clear of the tick labels.
+  const pad = Math.max(10, 0.06 * Math.max(...ext.map((e) => e.span)));
+  const padded = (e: (typeof ext)[number]) => ({ ...e, min: e.min - pad, max: e.max + pad });
+  const ea = padded(ext.find((e) => e.axis === a)!);
+  const eb = padded(ext.find((e) => e.axis === b)!);
   const xt = niceTicks(ea.min, ea.max, 8);
   let yt = niceTicks(eb.min, eb.max, 5);
   // Equal scale on both axes so the picture is not distorted.
@@ -126,7 +129,7 @@ export function geometrySvg(points: GeometryPoint[], lines: { pointA: string; po
     plotH = 60;
     yt = niceTicks(yMin, yMax, 2);
   }
-  const f: Frame = { x0: 52, y0: 8, w: (xMax - xMin) * scale, h: plotH, xMin, xMax, yMin, yMax };
+  const f: Frame = { x0: 52, y0: 6, w: (xMax - xMin) * scale, h: plotH, xMin, xMax, yMin, yMax };
   const byId = new Map(points.map((p) => [p.id, p]));
   const parts: string[] = [axes(f, xt, yt, `${a} (mm)`, `${b} (mm)`)];
   for (const l of lines) {
@@ -142,8 +145,7 @@ export function geometrySvg(points: GeometryPoint[], lines: { pointA: string; po
     if (referencePoints.has(p.label)) parts.push(`<rect x="${(x - 3.5).toFixed(1)}" y="${(y - 3.5).toFixed(1)}" width="7" height="7" fill="#0b6e69" stroke="#fff" stroke-width="0.6"/>`);
     else parts.push(`<circle cx="${x.toFixed(1)}" cy="${y.toFixed(1)}" r="2.4" fill="#1b1f1e"/>`);
     if (i % every === 0 || referencePoints.has(p.label)) {
-      const up = i % 2 === 0;
-      parts.push(`<text x="${x.toFixed(1)}" y="${(up ? y - 5 : y + 11).toFixed(1)}" font-size="7.5" text-anchor="middle" ${FONT} fill="#222">${esc(p.label)}</text>`);
+      parts.push(`<text x="${(x + 3).toFixed(1)}" y="${(y - 3.5).toFixed(1)}" font-size="7.5" ${FONT} fill="#222">${esc(p.label)}</text>`);
     }
   });
   const height = f.y0 + f.h + 32;
@@ -221,7 +223,7 @@ const DIR: Record<string, [number, number, number]> = { X: [1, 0, 0], Y: [0, 1, 
  * A mode shape drawn on the geometry: the undeformed structure dashed grey, the deformed one
  * solid, the real shape vector added along each DOF's signed direction, scaled so the largest
  * displacement is 12 % of the structure's size. A slender (one-dimensional) structure is drawn in
- * the elevation that shows the displacement; anything else in an oblique view (30°, depth ×0.5).
+ * the elevation that shows the displacement; anything else in an axonometric view from above.
  */
 export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { pointA: string; pointB: string }[], shape: { dof: string; real: number }[], width = 250): string {
   if (points.length === 0 || shape.length === 0) return '';
@@ -254,12 +256,13 @@ export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { po
     const ia = AXES.indexOf(along);
     const iu = AXES.indexOf(up);
     project = (v) => [v[ia]!, v[iu]!];
-    caption = `elevation: ${along} across, ${up} up`;
+    caption = `elevation: ${along} right, ${up} up`;
   } else {
-    const c = Math.cos(Math.PI / 6) * 0.5;
-    const s = Math.sin(Math.PI / 6) * 0.5;
-    project = (v) => [v[0] + c * v[1], v[2] + s * v[1]];
-    caption = 'oblique view: x across, z up, y into the page';
+    // Axonometric: turned 25° about z, seen from 35° above the x–y plane.
+    const az = (25 * Math.PI) / 180;
+    const el = (35 * Math.PI) / 180;
+    project = (v) => [v[0] * Math.cos(az) - v[1] * Math.sin(az), v[2] * Math.cos(el) + (v[0] * Math.sin(az) + v[1] * Math.cos(az)) * Math.sin(el)];
+    caption = 'from above: x right, y back, z up';
   }
   const base = points.map((p) => project([p.x, p.y, p.z]));
   const moved = points.map((p) => {
@@ -293,8 +296,13 @@ export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { po
     }
     if (lines.length === 0) for (const q of set) parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.2" fill="${stroke}"/>`);
   }
-  for (const q of moved) parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.3" fill="#0b4f8a"/>`);
+  points.forEach((p, i) => {
+    const q = moved[i]!;
+    if (disp.has(p.id)) parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.3" fill="#0b4f8a"/>`);
+    else parts.push(`<circle cx="${X(q)}" cy="${Y(q)}" r="1.6" fill="#fff" stroke="#0b4f8a" stroke-width="0.6"/>`);
+  });
+  const unmeasured = points.some((p) => !disp.has(p.id));
   const height = 16 + plotH + 14;
-  parts.push(`<text x="8" y="${height - 3}" font-size="7" ${SANS} fill="#555">${esc(caption)}; dashed: at rest</text>`);
+  parts.push(`<text x="8" y="${height - 3}" font-size="7" ${SANS} fill="#555">${esc(caption)} · dashed: at rest${unmeasured ? ' · hollow: not fitted' : ''}</text>`);
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
 }

@@ -1,0 +1,205 @@
+// Campaign backup and restore (issue 8): a backup restores as a new campaign whose raw samples are
+// byte-identical (SHA-256 per hit, computed here with node:crypto), whose FRFs equal the
+// original's, whose audit trail is copied with a 'restore' event — and a tampered or foreign file
+// is refused with nothing written.
+import { createHash } from 'node:crypto';
+import { createRequire } from 'node:module';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { asc, count, eq } from 'drizzle-orm';
+import { auditEvent, campaign, campaignMember, hit, scheduleEntry, user } from '@resonote/db/schema';
+import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
+import { startTestApp, type TestApp } from '../support/app.ts';
+import { API_TEMPLATE } from '../support/global-setup-api.ts';
+
+const apiRequire = createRequire(new URL('../../apps/api/package.json', import.meta.url));
+const { unzipSync, zipSync } = apiRequire('fflate') as { unzipSync: (d: Uint8Array) => Record<string, Uint8Array>; zipSync: (f: Record<string, Uint8Array>) => Uint8Array };
+
+type Agent = ReturnType<TestApp['agent']>;
+let app: TestApp;
+let lead: Agent;
+let admin: Agent;
+let viewer: Agent;
+let engineer: Agent;
+let barId: string;
+let backup: Buffer;
+
+const sha = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
+const binary = (req: import('supertest').Test) =>
+  req.buffer(true).parse((res, done) => {
+    const chunks: Buffer[] = [];
+    res.on('data', (c: Buffer) => chunks.push(c));
+    res.on('end', () => done(null, Buffer.concat(chunks)));
+  });
+
+async function signIn(email: string) {
+  const agent = app.agent();
+  await agent.post('/api/auth/sign-in/email').send({ email, password: DEMO_PASSWORD }).expect(200);
+  return agent;
+}
+
+/** sha256 of every hit's samples, keyed by "entry position / hit sequence" (ids differ after a restore). */
+async function sampleHashes(campaignId: string) {
+  const db = app.handle.database.db;
+  const rows = await db
+    .select({ position: scheduleEntry.position, sequence: hit.sequence, samples: hit.samples })
+    .from(hit)
+    .innerJoin(scheduleEntry, eq(scheduleEntry.id, hit.scheduleEntryId))
+    .where(eq(hit.campaignId, campaignId));
+  return Object.fromEntries(rows.map((r) => [`${r.position}/${r.sequence}`, sha(r.samples)]));
+}
+
+async function campaignCount() {
+  return (await app.handle.database.db.select({ n: count() }).from(campaign))[0]!.n;
+}
+
+beforeAll(async () => {
+  app = await startTestApp(API_TEMPLATE);
+  await seedDemo(app.handle, { log: () => undefined });
+  lead = await signIn('lead@demo.resonote.local');
+  admin = await signIn('admin@demo.resonote.local');
+  viewer = await signIn('viewer@demo.resonote.local');
+  engineer = await signIn('engineer@demo.resonote.local');
+  barId = ((await lead.get('/api/campaigns')).body.campaigns as { id: string; name: string }[]).find((c) => c.name === BAR_CAMPAIGN)!.id;
+  // A finished modal fit, so the backup carries a fit too.
+  const started = await lead.post(`/api/campaigns/${barId}/modes/fits`).send({ bandHz: { low: 20, high: 600 }, maxOrder: 10 });
+  for (let i = 0; i < 600; i++) {
+    const fit = (await lead.get(`/api/campaigns/${barId}/modes/fits/${started.body.fit.id}`)).body.fit;
+    if (fit.status === 'done' || fit.status === 'failed') break;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  const res = await binary(lead.get(`/api/campaigns/${barId}/backup`));
+  expect(res.status).toBe(200);
+  backup = res.body as Buffer;
+}, 240_000);
+afterAll(async () => {
+  await app?.close();
+});
+
+describe('campaign backup', () => {
+  it('is a zip with a manifest, every campaign table and each hit’s samples with their SHA-256', async () => {
+    const files = unzipSync(new Uint8Array(backup));
+    const manifest = JSON.parse(Buffer.from(files['manifest.json']!).toString('utf8'));
+    expect(manifest.format).toBe('resonote-campaign-backup');
+    expect(manifest.version).toBe(1);
+    expect(manifest.sourceUrl).toBe(app.config.publicUrl);
+    expect(Date.now() - Date.parse(manifest.exportedAt)).toBeLessThan(120_000);
+    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'frf_result', 'modal_fit', 'campaign_member']) {
+      expect(files[`tables/${t}.json`], t).toBeDefined();
+      expect(JSON.parse(Buffer.from(files[`tables/${t}.json`]!).toString('utf8')), t).toHaveLength(manifest.counts[t]);
+    }
+    const db = app.handle.database.db;
+    const stored = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(eq(hit.campaignId, barId));
+    expect(stored.length).toBe(manifest.counts.hit);
+    expect(manifest.counts.modal_fit).toBe(1);
+    for (const h of stored) {
+      expect(sha(files[`samples/${h.id}.f32`]!)).toBe(sha(h.samples));
+      expect(manifest.samples[h.id].sha256).toBe(sha(h.samples));
+    }
+  });
+});
+
+describe('campaign restore', () => {
+  let restoredId: string;
+
+  it('restores as a new campaign led by the restorer, raw samples byte-identical, counts equal', async () => {
+    const res = await lead.post('/api/campaigns/restore').attach('file', backup, 'bar.resonote-backup.zip');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    restoredId = res.body.campaign.id;
+    expect(restoredId).not.toBe(barId);
+    expect(res.body.campaign.name).toBe(`${BAR_CAMPAIGN} (restored)`);
+    const manifest = JSON.parse(Buffer.from(unzipSync(new Uint8Array(backup))['manifest.json']!).toString('utf8'));
+    for (const [table, n] of Object.entries(res.body.counts)) expect(n, table).toBe(manifest.counts[table]);
+    const mine = (await lead.get(`/api/campaigns/${restoredId}`)).body;
+    expect(mine.myRole).toBe('lead');
+    // Members are not copied without ?members=1: the lead alone.
+    expect((await lead.get(`/api/campaigns/${restoredId}/members`)).body.members).toHaveLength(1);
+    expect(await sampleHashes(restoredId)).toEqual(await sampleHashes(barId));
+    const [a, b] = await Promise.all([lead.get(`/api/campaigns/${barId}/schedule`), lead.get(`/api/campaigns/${restoredId}/schedule`)]);
+    expect(b.body.entries.map((e: { responseDof: string; excitationDof: string; status: string; acceptedHits: number; rejectedHits: number }) => [e.responseDof, e.excitationDof, e.status, e.acceptedHits, e.rejectedHits])).toEqual(
+      a.body.entries.map((e: { responseDof: string; excitationDof: string; status: string; acceptedHits: number; rejectedHits: number }) => [e.responseDof, e.excitationDof, e.status, e.acceptedHits, e.rejectedHits]),
+    );
+    const settings = [(await lead.get(`/api/campaigns/${barId}/settings`)).body, (await lead.get(`/api/campaigns/${restoredId}/settings`)).body];
+    expect(settings[1].current.settings).toEqual(settings[0].current.settings);
+    expect(settings[1].history.length).toBe(settings[0].history.length);
+  });
+
+  it('gives the restored campaign the same FRF as the original, to full precision', async () => {
+    const original = (await lead.get(`/api/campaigns/${barId}/schedule`)).body.entries as { id: string; position: number }[];
+    const restored = (await lead.get(`/api/campaigns/${restoredId}/schedule`)).body.entries as { id: string; position: number }[];
+    for (const pos of [0, 10, 20]) {
+      const o = original.find((e) => e.position === original[pos]!.position)!;
+      const r = restored.find((e) => e.position === o.position)!;
+      const [fo, fr] = [(await lead.get(`/api/campaigns/${barId}/schedule/${o.id}/frf?band=all`)).body, (await lead.get(`/api/campaigns/${restoredId}/schedule/${r.id}/frf?band=all`)).body];
+      expect(fr.f).toEqual(fo.f);
+      expect(fr.channels[0].h1).toEqual(fo.channels[0].h1);
+      expect(fr.channels[0].coherence).toEqual(fo.channels[0].coherence);
+      expect(fr.averages).toBe(fo.averages);
+    }
+  });
+
+  it('copies the audit trail and adds a restore event', async () => {
+    const db = app.handle.database.db;
+    const trail = async (id: string) => (await db.select({ entity: auditEvent.entity, action: auditEvent.action, at: auditEvent.at }).from(auditEvent).where(eq(auditEvent.campaignId, id)).orderBy(asc(auditEvent.id))).map((e) => `${e.entity}/${e.action}/${e.at.toISOString()}`);
+    const original = await trail(barId);
+    const restored = await trail(restoredId);
+    expect(restored.slice(0, original.length)).toEqual(original);
+    expect(restored).toHaveLength(original.length + 1);
+    const events = (await lead.get(`/api/campaigns/${restoredId}/audit?limit=1`)).body.events;
+    expect(events[0].action).toBe('restore');
+    expect(events[0].after.from.campaignId).toBe(barId);
+  });
+
+  it('adds the backup’s members who have an account here when asked with ?members=1', async () => {
+    const res = await admin.post('/api/campaigns/restore?members=1').attach('file', backup, 'bar.zip');
+    expect(res.status).toBe(201);
+    const members = (await admin.get(`/api/campaigns/${res.body.campaign.id}/members`)).body.members as { email: string; role: string }[];
+    const roles = Object.fromEntries(members.map((m) => [m.email, m.role]));
+    expect(roles['lead@demo.resonote.local']).toBe('lead');
+    expect(roles['engineer@demo.resonote.local']).toBe('engineer');
+    expect(roles['viewer@demo.resonote.local']).toBe('viewer');
+    expect(roles['admin@demo.resonote.local']).toBe('lead');
+  });
+
+  it('refuses a backup whose samples do not match the manifest, and writes nothing', async () => {
+    const files = unzipSync(new Uint8Array(backup));
+    const name = Object.keys(files).find((f) => f.startsWith('samples/'))!;
+    const altered = new Uint8Array(files[name]!);
+    altered[100] = altered[100]! ^ 0x01;
+    const before = await campaignCount();
+    const hitsBefore = (await app.handle.database.db.select({ n: count() }).from(hit))[0]!.n;
+    const res = await lead.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync({ ...files, [name]: altered })), 'tampered.zip');
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('backup-corrupt');
+    expect(res.body.error.message).toMatch(/SHA-256/);
+    expect(await campaignCount()).toBe(before);
+    expect((await app.handle.database.db.select({ n: count() }).from(hit))[0]!.n).toBe(hitsBefore);
+  });
+
+  it('refuses files that are not backups with a clear 400', async () => {
+    const cases: [Buffer, RegExp][] = [
+      [Buffer.from('label,x,y,z\nB01,0,0,0\n'), /not a zip/],
+      [Buffer.from(zipSync({ 'readme.txt': new TextEncoder().encode('hello') })), /manifest\.json is missing/],
+      [Buffer.from(zipSync({ 'manifest.json': new TextEncoder().encode(JSON.stringify({ format: 'something-else', version: 1 })) })), /manifest\.json does not describe/],
+    ];
+    for (const [file, message] of cases) {
+      const res = await lead.post('/api/campaigns/restore').attach('file', file, 'x.zip');
+      expect(res.status).toBe(400);
+      expect(res.body.error.code).toBe('not-a-backup');
+      expect(res.body.error.message).toMatch(message);
+    }
+    const noFile = await lead.post('/api/campaigns/restore').field('members', '1');
+    expect(noFile.status).toBe(400);
+    expect((await lead.post('/api/campaigns/restore').send({})).status).toBe(415);
+  });
+
+  it('lets only admins and campaign leads restore, and only leads and admins back up', async () => {
+    // The demo engineer leads no campaign.
+    const res = await engineer.post('/api/campaigns/restore').attach('file', backup, 'bar.zip');
+    expect(res.status).toBe(403);
+    expect((await viewer.get(`/api/campaigns/${barId}/backup`)).status).toBe(403);
+    const db = app.handle.database.db;
+    const [eng] = await db.select({ id: user.id }).from(user).where(eq(user.email, 'engineer@demo.resonote.local'));
+    const led = await db.select().from(campaignMember).where(eq(campaignMember.userId, eng!.id));
+    expect(led.every((m) => m.role !== 'lead')).toBe(true);
+  });
+});
