@@ -8,7 +8,7 @@ export default defineConfig({
     include: ['api/**/*.test.ts'],
     globalSetup: ['support/global-setup-api.ts'],
     setupFiles: ['setup/fail-on-console-error.ts'],
-    testTimeout: 30_000,
+    testTimeout: 60_000,
     hookTimeout: 60_000,
     pool: 'forks',
   },

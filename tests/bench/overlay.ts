@@ -123,7 +123,7 @@ try {
     if (/WebGL is not supported/.test(msg)) console.log('  (plotly reports no WebGL)');
     console.log(`run ${run + 1}: ${t.curves} FRFs, ${t.points} lines in all, data parsed → plotly_afterplot ${t.ms.toFixed(0)} ms (${webgl ? 'WebGL' : 'SVG'})`);
     results.push(t.ms);
-    if (run === 0) await page.screenshot({ path: path.join(root, 'test-output/screenshots/bench-overlay-1366.png') });
+    if (run === 0) await page.screenshot({ path: path.join(root, 'test-output/screenshots/bench-overlay-1366.png'), timeout: 60_000 }).catch(() => console.log('  (no screenshot: the page was busy)'));
     await page.close();
   }
 } finally {

@@ -21,6 +21,8 @@ import { PlanPage } from './pages/campaign/plan-page.tsx';
 import { KitPage } from './pages/campaign/kit-page.tsx';
 import { TapPage } from './pages/campaign/tap-page.tsx';
 import { ReviewPage } from './pages/campaign/review-page.tsx';
+import { ModesPage } from './pages/campaign/modes-page.tsx';
+import { HandoverPage } from './pages/campaign/handover-page.tsx';
 
 applyStoredTheme();
 
@@ -53,6 +55,8 @@ const router = createBrowserRouter([
           { path: 'kit', element: <KitPage /> },
           { path: 'tap', element: <TapPage /> },
           { path: 'review', element: <ReviewPage /> },
+          { path: 'modes', element: <ModesPage /> },
+          { path: 'handover', element: <HandoverPage /> },
           { path: '*', element: <NotFoundPage /> },
         ],
       },

@@ -3,6 +3,7 @@
 // arithmetic goes through frf-math.ts; here only traces, axes and labels.
 import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
 import { axis, baseLayout, type PlotColours } from './plot-style.ts';
+import { minMaxDecimate } from './decimate.ts';
 
 export type FrfView = 'magphase' | 'reim' | 'nyquist';
 export const frfViewLabel: Record<FrfView, string> = { magphase: 'Magnitude and phase', reim: 'Real and imaginary', nyquist: 'Nyquist (Re against Im)' };
@@ -32,6 +33,8 @@ export interface FrfFigureOptions {
   showLegend?: boolean;
   /** Keeps zoom and pan across data updates while this string stays the same. */
   uirevision?: string;
+  /** Min/max buckets per curve and row (magnitude, phase, re, im) when curves are longer; none by default. */
+  buckets?: number;
 }
 
 function slice(a: ArrayLike<number>, from: number): Float64Array {
@@ -49,6 +52,11 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
   const magSuffix = o.db ? ` dB re 1 ${unit}` : ` ${unit}`;
   const showLegend = o.showLegend ?? curves.length <= 12;
 
+  const thin = (x: Float64Array, y: Float64Array) => (o.buckets ? minMaxDecimate(x, y, o.buckets) : { x, y });
+  const xy = (x: Float64Array, y: Float64Array) => {
+    const d = thin(x, y);
+    return { x: d.x, y: d.y };
+  };
   for (const curve of curves) {
     const from = o.logF ? firstPositiveLine(curve.f) : 0;
     const f = slice(curve.f, from);
@@ -57,12 +65,12 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     const common = { type, mode: 'lines', name: curve.name, legendgroup: curve.name, line, showlegend: false };
     if (o.view === 'magphase') {
       const mag = o.db ? magnitudesDb(h) : magnitudes(h);
-      data.push({ ...common, x: f, y: mag, yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name}: %{y:.${o.db ? 2 : 4}${o.db ? 'f' : 'g'}}${magSuffix}<extra></extra>` });
-      data.push({ ...common, x: f, y: phasesDeg(h), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
+      data.push({ ...common, ...xy(f, mag), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name}: %{y:.${o.db ? 2 : 4}${o.db ? 'f' : 'g'}}${magSuffix}<extra></extra>` });
+      data.push({ ...common, ...xy(f, phasesDeg(h)), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
       if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
     } else if (o.view === 'reim') {
-      data.push({ ...common, x: f, y: h.re, yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name} Re: %{y:.4g} ${unit}<extra></extra>` });
-      data.push({ ...common, x: f, y: h.im, yaxis: 'y2', hovertemplate: `${curve.name} Im: %{y:.4g} ${unit}<extra></extra>` });
+      data.push({ ...common, ...xy(f, h.re), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name} Re: %{y:.4g} ${unit}<extra></extra>` });
+      data.push({ ...common, ...xy(f, h.im), yaxis: 'y2', hovertemplate: `${curve.name} Im: %{y:.4g} ${unit}<extra></extra>` });
       if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
     } else {
       data.push({

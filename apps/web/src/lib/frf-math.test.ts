@@ -75,3 +75,21 @@ describe('labels and readouts', () => {
     expect(formatValue(null)).toBe('–');
   });
 });
+
+describe('min/max decimation for drawing', async () => {
+  const { minMaxDecimate } = await import('./decimate.ts');
+  it('keeps the peak and the notch of each bucket, in frequency order', () => {
+    const x = Float64Array.from({ length: 1000 }, (_, k) => k);
+    const y = Float64Array.from(x, (k) => (k === 437 ? 50 : k === 612 ? -80 : Math.sin(k / 30)));
+    const d = minMaxDecimate(x, y, 100);
+    expect(d.x.length).toBeLessThanOrEqual(200);
+    expect(Math.max(...d.y)).toBe(50);
+    expect(Math.min(...d.y)).toBe(-80);
+    expect(d.x[Array.from(d.y).indexOf(50)]).toBe(437);
+    for (let k = 1; k < d.x.length; k++) expect(d.x[k]!).toBeGreaterThan(d.x[k - 1]!);
+  });
+  it('leaves short curves alone', () => {
+    const x = new Float64Array([1, 2, 3]);
+    expect(minMaxDecimate(x, x, 10).x).toBe(x);
+  });
+});

@@ -12,6 +12,8 @@ const tabs = [
   { to: 'kit', label: 'Kit' },
   { to: 'tap', label: 'Tap' },
   { to: 'review', label: 'Review' },
+  { to: 'modes', label: 'Modes' },
+  { to: 'handover', label: 'Hand-over' },
 ];
 
 export function CampaignLayout() {
