@@ -1,0 +1,149 @@
+// Tap in the real browser: an engineer at the pump-skid baseplate takes five simulated hits at the
+// current DOF (button and Space), rejects one with R, watches the averaged FRF follow, and moves
+// on with N. Screenshots at 1366 px, 768 px (portrait tablet) and 1024 × 768 (landscape tablet).
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { campaign } from '@resonote/db/schema';
+import { seedDemo, DEMO_PASSWORD, SKID_CAMPAIGN } from '@resonote/api/seed';
+import { startTestApp, type TestApp } from '../support/app.ts';
+import { screenshot, viewports, watchConsole } from '../support/browser.ts';
+
+let app: TestApp & { baseUrl: string };
+let browser: Browser;
+let skidId: string;
+
+beforeAll(async () => {
+  // RESONOTE_WEB_DIST lets a run use its own build while someone else rebuilds apps/web/dist.
+  app = await startTestApp('resonote_tpl_e2e', process.env.RESONOTE_WEB_DIST ? { WEB_DIST: process.env.RESONOTE_WEB_DIST } : {}, { listen: true });
+  await seedDemo(app.handle, { log: () => undefined });
+  const [row] = await app.handle.database.db.select({ id: campaign.id }).from(campaign).where(eq(campaign.name, SKID_CAMPAIGN));
+  skidId = row!.id;
+  // Software WebGL so the 3D geometry view draws headless.
+  browser = await chromium.launch({
+    executablePath: process.env.RESONOTE_CHROMIUM ?? '/usr/bin/chromium',
+    headless: true,
+    args: ['--no-sandbox', '--use-angle=swiftshader', '--enable-unsafe-swiftshader', '--ignore-gpu-blocklist', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+}, 180_000);
+afterAll(async () => {
+  await browser?.close();
+  await app?.close();
+});
+
+async function signIn(email: string, viewport: { width: number; height: number }) {
+  const context = await browser.newContext({ viewport, hasTouch: viewport.width < 1100 });
+  const page = await context.newPage();
+  const errors = watchConsole(page);
+  await page.goto(`${app.baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/campaigns$/);
+  return { page, errors, close: () => context.close() };
+}
+
+const rows = (page: Page) => page.locator('[data-testid="hit-list"] tbody tr');
+
+async function settle(page: Page) {
+  await page.locator('[data-testid="frf-plot"] .js-plotly-plot').first().waitFor({ timeout: 45_000 });
+  await page.locator('[data-testid="hit-plots"] .js-plotly-plot').first().waitFor({ timeout: 45_000 });
+  await page.waitForTimeout(800);
+}
+
+describe('Tap in the browser', () => {
+  it('takes five hits at the current DOF, rejects one with R, sees the FRF follow, and moves on with N', async () => {
+    const { page, errors, close } = await signIn('engineer@demo.resonote.local', viewports.laptop);
+    await page.goto(`${app.baseUrl}/campaigns/${skidId}/tap`);
+    await page.waitForURL(/\/tap\?entry=/);
+    const dof = page.getByTestId('current-dof');
+    await dof.waitFor({ timeout: 30_000 });
+    const firstDof = (await dof.textContent())!;
+    expect(firstDof).toMatch(/^Hammer at P\d+ \+Z · accelerometer P07 \+Z$/);
+    await expect(page.getByTestId('safety-note')).toBeDefinedAndVisible();
+    expect(await page.getByTestId('good-hits').textContent()).toMatch(/^\d of 5 good hits/);
+    // The entry the schedule offers may already hold hits from earlier in the day.
+    await page.getByText(/No hits at this DOF yet|^#$/).first().waitFor();
+    const already = await rows(page).count();
+
+    // Hit 1 with the button, hits 2–5 with Space (a foot pedal sends keys).
+    await page.getByLabel('Hammer tip').selectOption('soft');
+    await page.getByTestId('strike').click();
+    await rows(page).nth(already).waitFor({ timeout: 20_000 });
+    for (let n = 2; n <= 5; n++) {
+      await page.keyboard.press('Space');
+      await rows(page).nth(already + n - 1).waitFor({ timeout: 20_000 });
+      await page.getByTestId('strike').and(page.locator(':not([disabled])')).waitFor();
+    }
+    expect(await rows(page).count()).toBe(already + 5);
+    await settle(page);
+
+    // The averaged FRF counts the accepted hits.
+    const acceptedBefore = await page.locator('[data-testid="hit-list"] tbody tr[data-verdict="accept"]').count();
+    expect(acceptedBefore).toBeGreaterThan(0);
+    await expect(page.getByTestId('frf-averages').getByText(`${acceptedBefore} average`)).toBeDefinedAndVisible();
+
+    // Choose an accepted hit and reject it with R.
+    const victim = page.locator('[data-testid="hit-list"] tbody tr[data-verdict="accept"]').last();
+    const seq = await victim.getAttribute('data-hit');
+    await victim.locator('td').nth(2).click();
+    await page.locator(`[data-testid="verdict-panel"][data-hit="${seq}"]`).waitFor();
+    await page.keyboard.press('r');
+    await page.locator(`[data-testid="hit-list"] tbody tr[data-hit="${seq}"][data-verdict="reject"]`).waitFor({ timeout: 15_000 });
+    await expect(page.getByText(`Hit ${seq} ✕ rejected by hand`)).toBeDefinedAndVisible();
+    const acceptedAfter = acceptedBefore - 1;
+    expect(await page.locator('[data-testid="hit-list"] tbody tr[data-verdict="accept"]').count()).toBe(acceptedAfter);
+    expect(await page.getByTestId('good-hits').textContent()).toMatch(new RegExp(`^${acceptedAfter} of 5 good hits`));
+    if (acceptedAfter > 0) {
+      await expect(page.getByTestId('frf-averages').getByText(new RegExp(`^${acceptedAfter} averages?$`))).toBeDefinedAndVisible();
+    } else {
+      await expect(page.getByTestId('frf-averages').getByText('no average yet')).toBeDefinedAndVisible();
+    }
+    expect(await rows(page).locator('text=by hand').count()).toBeGreaterThan(0);
+    await settle(page);
+    await screenshot(page, 'tap-1366');
+
+    // N moves to the next DOF on the schedule.
+    const url = page.url();
+    await page.keyboard.press('n');
+    await page.waitForURL((u) => u.toString() !== url);
+    await page.waitForFunction((before) => document.querySelector('[data-testid="current-dof"]')?.textContent !== before, firstDof);
+    const secondDof = await dof.textContent();
+    expect(secondDof).not.toBe(firstDof);
+    expect(secondDof).toMatch(/^Hammer at P\d+ \+Z · accelerometer P07 \+Z$/);
+    const tabletUrl = page.url().replace(/entry=[^&]+/, `entry=${new URL(url).searchParams.get('entry')}`);
+
+    expect(errors).toEqual([]);
+    await close();
+
+    for (const [name, viewport] of [
+      ['tap-768', viewports.tablet],
+      ['tap-1024-landscape', { width: 1024, height: 768 }],
+    ] as const) {
+      const tablet = await signIn('engineer@demo.resonote.local', viewport);
+      await tablet.page.goto(tabletUrl);
+      await tablet.page.getByTestId('current-dof').waitFor();
+      await settle(tablet.page);
+      // Nothing wider than the screen.
+      expect(await tablet.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
+      await screenshot(tablet.page, name);
+      expect(tablet.errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
+      await tablet.close();
+    }
+  }, 300_000);
+
+  it('shows a viewer the hits and the FRF but no action controls', async () => {
+    const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
+    await page.goto(`${app.baseUrl}/campaigns/${skidId}/tap`);
+    await page.getByTestId('current-dof').waitFor();
+    await expect(page.getByText('You are a viewer on this campaign')).toBeDefinedAndVisible();
+    for (const name of [/Strike/, /Accept/, /Reject/, /Upload/]) expect(await page.getByRole('button', { name }).count()).toBe(0);
+    const before = await rows(page).count();
+    await page.keyboard.press('Space');
+    await page.waitForTimeout(800);
+    expect(await rows(page).count()).toBe(before);
+    // A DOF without an accepted hit answers 404 for its FRF; the page says so in words.
+    expect(errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
+    await close();
+  }, 60_000);
+});
