@@ -46,7 +46,8 @@ async function signIn(email: string, viewport: { width: number; height: number }
 const rows = (page: Page) => page.locator('[data-testid="hit-list"] tbody tr');
 
 async function settle(page: Page) {
-  await page.locator('[data-testid="frf-plot"] .js-plotly-plot').first().waitFor({ timeout: 45_000 });
+  // The averaged FRF drawn, or — when no accepted hit is left — the sentence that says so.
+  await page.locator('[data-testid="frf-plot"] .js-plotly-plot').or(page.getByText('No accepted hit yet, so no FRF')).first().waitFor({ timeout: 45_000 });
   await page.locator('[data-testid="hit-plots"] .js-plotly-plot').first().waitFor({ timeout: 45_000 });
   await page.waitForTimeout(800);
 }
@@ -113,7 +114,8 @@ describe('Tap in the browser', () => {
     expect(secondDof).toMatch(/^Hammer at P\d+ \+Z · accelerometer P07 \+Z$/);
     const tabletUrl = page.url().replace(/entry=[^&]+/, `entry=${new URL(url).searchParams.get('entry')}`);
 
-    expect(errors).toEqual([]);
+    // A DOF without an accepted hit answers 404 for its FRF (the page says so in words).
+    expect(errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
     await close();
 
     for (const [name, viewport] of [

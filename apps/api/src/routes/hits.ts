@@ -6,7 +6,7 @@ import multer from 'multer';
 import { aliasedTable, and, asc, eq, inArray, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
-import { averageFrf, transientSpectrum, type HitCheck } from '@resonote/dsp';
+import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
 import { uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
@@ -320,8 +320,9 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
             preTriggerS: s.preTriggerS + 0.5 / s.sampleRateHz,
             peakForceN: body.peakForceN ?? Math.min(0.02 * s.forceRangeN, 100),
             pulseWidthS: rigTips[body.tip],
+            // Noise floors of a plausible IEPE chain (invented for the rig, not a datasheet value).
             forceNoiseN: 0.02,
-            responseNoise: 0.002 * Math.min(s.responseRangeMs2, 100),
+            responseNoise: 0.005,
             forceRangeN: s.forceRangeN,
             responseRangeMs2: s.responseRangeMs2,
             adcBits: 24,
@@ -384,7 +385,11 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const step = Math.max(1, Math.ceil(h.samplesPerChannel / query.maxPoints));
       const t: number[] = [];
       for (let i = 0; i < h.samplesPerChannel; i += step) t.push(i / h.sampleRateHz);
-      const spectrum = transientSpectrum(centred[0]!, h.sampleRateHz);
+      // The force as the FRF sees it: offset removed and the force window applied (field-reference
+      // §3.1), so noise over the rest of the record does not swamp |F(0)|.
+      const fw = forceWindow(h.samplesPerChannel, h.sampleRateHz, forceWindowOf(s));
+      const windowed = centred[0]!.map((v, i) => v * fw[i]!);
+      const spectrum = transientSpectrum(windowed, h.sampleRateHz);
       const f: number[] = [];
       const esdDb: number[] = [];
       const dc = spectrum.re[0]! ** 2 + spectrum.im[0]! ** 2 || 1e-300;
@@ -404,7 +409,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         triggerTimeS: s.preTriggerS,
         forceWindow: forceWindowOf(s),
         exponentialWindow: exp,
-        forceSpectrum: { f, levelDb: esdDb, reference: '|F(f)|² relative to |F(0)|² (dB)', bandHz: s.bandHz, rollOffDb: s.rollOffDb },
+        forceSpectrum: { f, levelDb: esdDb, reference: '|F(f)|² relative to |F(0)|² (dB), force window applied', bandHz: s.bandHz, rollOffDb: s.rollOffDb },
       };
     },
   });

@@ -3,6 +3,16 @@
 import type { HitSummary } from '../../lib/hits-data.ts';
 import { VerdictBadge } from './verdict.tsx';
 
+/** Short words for the reason codes; the full sentence is in the tooltip and in the verdict panel. */
+const shortReason: Record<string, string> = {
+  'double-hit': 'double hit',
+  overload: 'force overload',
+  weak: 'too weak',
+  'roll-off': 'force roll-off',
+  'response-overload': 'response overload',
+  'not-decayed': 'not decayed',
+};
+
 export function HitList({ hits, selectedId, onSelect }: { hits: HitSummary[]; selectedId: string | null; onSelect: (id: string) => void }) {
   if (hits.length === 0) return <p className="text-sm text-[var(--muted)]">No hits at this DOF yet.</p>;
   return (
@@ -39,9 +49,8 @@ export function HitList({ hits, selectedId, onSelect }: { hits: HitSummary[]; se
                 </td>
                 <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.peakForceN.toFixed(1)} N</td>
                 <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.pulseWidthS === null ? '–' : `${(h.metrics.pulseWidthS * 1000).toFixed(2)} ms`}</td>
-                <td className="py-1.5 text-xs text-[var(--muted)]">
-                  {h.reasons.length ? h.reasons.map((r) => r.message).join('; ') : 'checks passed'}
-                  {h.overridden && h.overrideNote ? ` · note: ${h.overrideNote}` : ''}
+                <td className="py-1.5 text-xs text-[var(--muted)]" title={[...h.reasons.map((r) => r.message), h.overridden && h.overrideNote ? `note: ${h.overrideNote}` : ''].filter(Boolean).join('\n')}>
+                  {h.reasons.length ? h.reasons.map((r) => shortReason[r.code] ?? r.code).join(', ') : 'checks passed'}
                 </td>
               </tr>
             );
