@@ -115,6 +115,8 @@ try {
       return route.fulfill({ status: 200, contentType: 'application/json', body: JSON.stringify(body) });
     });
     await page.goto(`${base}/campaigns/${campaignId}/review?view=overlay`);
+    // As a person would: the page has opened (and loaded plotly) before FRFs are picked.
+    await page.waitForFunction(() => window.__resonotePlotlyReady === true, undefined, { timeout: 60_000 });
     await page.getByTestId('pick-all-done').click();
     await page.waitForFunction(() => (window.__resonoteOverlayTimings?.length ?? 0) > 0, undefined, { timeout: 120_000 });
     const t = await page.evaluate(() => window.__resonoteOverlayTimings![0]!);

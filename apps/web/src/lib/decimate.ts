@@ -40,6 +40,12 @@ export function webglUsable(): boolean {
     const canvas = document.createElement('canvas');
     const gl = (canvas.getContext('webgl') ?? canvas.getContext('experimental-webgl')) as WebGLRenderingContext | null;
     webgl = Boolean(gl && gl.getExtension('OES_element_index_uint') && gl.getExtension('ANGLE_instanced_arrays'));
+    // A software rasteriser (no GPU) draws WebGL slower than the browser draws SVG: measured on a
+    // 2-core machine without a GPU, 100 decimated FRFs took 2.1–2.7 s with scattergl and 0.9 s as
+    // SVG (tests/bench/overlay.ts; docs/decisions/overlay-rendering.md).
+    const info = gl?.getExtension('WEBGL_debug_renderer_info');
+    const renderer = info && gl ? String(gl.getParameter(info.UNMASKED_RENDERER_WEBGL)) : '';
+    if (/swiftshader|llvmpipe|software/i.test(renderer)) webgl = false;
     gl?.getExtension('WEBGL_lose_context')?.loseContext();
   } catch {
     webgl = false;

@@ -1,5 +1,6 @@
 // Overlay of up to 100 averaged FRFs: the picked entries of this campaign, optionally all FRFs of
-// another campaign the user belongs to. WebGL traces (scattergl) keep 100 × 8193 lines quick.
+// another campaign the user belongs to. Curves are min/max-decimated to the plot's resolution and
+// drawn as WebGL traces (scattergl) where a GPU draws them, else as SVG (docs/decisions/overlay-rendering.md).
 import { useMemo, useState } from 'react';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { frfFigure, type FrfCurve } from '../../lib/frf-figure.ts';
@@ -41,7 +42,7 @@ export function buildOverlay(sets: { prefix: string; answer: OverlayAnswer }[], 
     gl,
     showLegend: curves.length <= GROUP_ABOVE,
     uirevision: 'overlay',
-    buckets: long && display.view !== 'nyquist' ? 1000 : undefined,
+    buckets: long && display.view !== 'nyquist' ? 300 : undefined,
   });
   if (!grouped) return { ...fig, curves: curves.length, points };
 

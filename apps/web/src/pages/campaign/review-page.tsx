@@ -1,6 +1,6 @@
 // Review: any DOF's FRF with its coherence and hits; overlays of up to 100 FRFs across points and
 // across campaigns; the reciprocity and linearity checks. Read-only for everyone.
-import { useMemo, useState } from 'react';
+import { useEffect, useMemo, useState } from 'react';
 import { useParams, useSearchParams } from 'react-router';
 import { useSchedule } from '../../lib/campaign-data.ts';
 import { useChecks, useLiveCampaign } from '../../lib/hits-data.ts';
@@ -11,6 +11,8 @@ import { DisplayControls } from '../../components/review/display-controls.tsx';
 import { DofDetail } from '../../components/review/dof-detail.tsx';
 import { EntryList, OVERLAY_LIMIT } from '../../components/review/entry-list.tsx';
 import { OverlayPanel } from '../../components/review/overlay-panel.tsx';
+import { preloadPlotly } from '../../lib/preload-plotly.ts';
+import { webglUsable } from '../../lib/decimate.ts';
 
 type Tab = 'dof' | 'overlay' | 'checks';
 const tabLabel: Record<Tab, string> = { dof: 'One DOF', overlay: 'Overlay', checks: 'Reciprocity and linearity' };
@@ -21,6 +23,11 @@ export function ReviewPage() {
   const schedule = useSchedule(campaignId);
   const checks = useChecks(campaignId);
   useLiveCampaign(campaignId);
+  // Every Review view plots: load plotly while the schedule loads, not after the data arrives.
+  useEffect(() => {
+    void preloadPlotly();
+    webglUsable(); // probing WebGL takes a moment; do it before the data arrives
+  }, []);
   const entries = useMemo(() => schedule.data?.entries ?? [], [schedule.data]);
   const tab = (params.get('view') as Tab | null) ?? 'dof';
   const entryId = params.get('entry') ?? entries.find((e) => e.acceptedHits > 0)?.id ?? null;
