@@ -48,13 +48,34 @@ interface Caches {
   results: Lru<string, EntryResult>;
   samples: Lru<string, Float32Array[]>;
   pending: Set<Promise<unknown>>;
+  /** Result writes waiting for their DOF to go quiet, by entry id. */
+  scheduled: Map<string, { timer: ReturnType<typeof setTimeout>; run: () => Promise<void> }>;
+}
+
+const RESULT_WRITE_DELAY_MS = 400;
+
+function scheduleWrite(db: Db, cache: Caches, entryId: string, write: () => Promise<void>) {
+  const earlier = cache.scheduled.get(entryId);
+  if (earlier) clearTimeout(earlier.timer);
+  const run = () => {
+    cache.scheduled.delete(entryId);
+    const p: Promise<unknown> = write()
+      .catch((err: Error) => console.error(`[resonote] storing the result of entry ${entryId} failed: ${err.message}`))
+      .finally(() => cache.pending.delete(p));
+    cache.pending.add(p);
+    return p.then(() => undefined);
+  };
+  const timer = setTimeout(run, RESULT_WRITE_DELAY_MS);
+  timer.unref?.();
+  cache.scheduled.set(entryId, { timer, run });
+  void db;
 }
 const cachesByDb = new WeakMap<object, Caches>();
 function caches(db: Db): Caches {
   let c = cachesByDb.get(db);
   if (!c) {
     // 256 hits × 4 channels × 16 384 samples × 4 bytes ≈ 64 MB at most.
-    c = { results: new Lru(64), samples: new Lru(256), pending: new Set() };
+    c = { results: new Lru(64), samples: new Lru(256), pending: new Set(), scheduled: new Map() };
     cachesByDb.set(db, c);
   }
   return c;
@@ -67,7 +88,12 @@ export function rememberSamples(db: Db, hitId: string, channels: Float32Array[])
 
 /** Waits for results still being written (shutdown, tests). */
 export async function flushResultWrites(db: Db): Promise<void> {
-  await Promise.all([...caches(db).pending]);
+  const c = caches(db);
+  for (const { timer, run } of [...c.scheduled.values()]) {
+    clearTimeout(timer);
+    void run();
+  }
+  await Promise.all([...c.pending]);
 }
 
 export interface CurrentSettings {
@@ -375,14 +401,15 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   };
   const result: EntryResult = { inputHash: hash, settingsVersion: settings.version, hitIds: values.hitIds, averages: frf.averages, sampleRateHz: s.sampleRateHz, samples: n, channels, excitationDof, frf, excluded, computedAt };
   cache.results.set(entryId, result);
-  // The stored copy serves other processes and restarts; writing it is not on the request path.
-  const write: Promise<unknown> = db
-    .insert(frfResult)
-    .values(values)
-    .onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: values })
-    .catch((err: Error) => console.error(`[resonote] storing the result of entry ${entryId} failed: ${err.message}`))
-    .finally(() => cache.pending.delete(write));
-  cache.pending.add(write);
+  // The stored copy serves other processes and restarts; writing it is not on the request path,
+  // and a burst of hits at one DOF writes only its last result (after RESULT_WRITE_DELAY_MS).
+  scheduleWrite(db, cache, entryId, () =>
+    db
+      .insert(frfResult)
+      .values(values)
+      .onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: values })
+      .then(() => undefined),
+  );
   return result;
 }
 
