@@ -9,7 +9,7 @@ import { acquisitionSettings, calibrationRecord, campaign, campaignMember, chann
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs, type Comparison } from '../hits/checks.ts';
+import { compareFrfs, entryLinearity, type Comparison } from '../hits/checks.ts';
 import {
   currentSettings,
   entryResult,
@@ -215,38 +215,10 @@ export async function checksOf(db: Db, campaignId: string, schedule: HandoverEnt
     reciprocity.push({ a: label(a.entry), b: label(b.entry), ...compareFrfs(a.result.frf.h1[a.main]!, b.result.frf.h1[b.main]!, a.result.frf.f, s.bandHz) });
   }
   const linearity: HandoverChecks['linearity'] = [];
-  const n = recordSamples(s);
-  const pre = Math.round(s.preTriggerS * s.sampleRateHz);
-  const exp = exponentialWindowOf(s);
   for (const e of schedule) {
     if (!byId.has(e.id)) continue;
-    const rows = await db
-      .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
-      .from(hit)
-      .where(and(eq(hit.scheduleEntryId, e.id), eq(hit.verdict, 'accept')));
-    const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
-    if (usable.length < 4) continue;
-    const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;
-    const sorted = [...usable].sort((x, y) => peak(x) - peak(y));
-    const half = Math.floor(sorted.length / 2);
-    const low = sorted.slice(0, half);
-    const high = sorted.slice(sorted.length - half);
-    const median = (g: typeof sorted) => peak(g[Math.floor(g.length / 2)]!);
-    const ratio = median(high) / Math.max(median(low), 1e-9);
-    if (ratio < 1.5) continue;
-    const frfOf = (g: typeof sorted) =>
-      averageFrf(
-        g.map((r) => {
-          const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
-          return { force: chans[0]!, responses: chans.slice(1) };
-        }),
-        s.sampleRateHz,
-        { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
-      );
-    const lo = frfOf(low);
-    const hi = frfOf(high);
-    const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), e.responseDof);
-    linearity.push({ entry: label(e), lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) });
+    const result = await entryLinearity(db, e.id, e.responseDof, s);
+    if (result) linearity.push({ entry: label(e), ...result });
   }
   return {
     reciprocity,

@@ -1,7 +1,13 @@
 // Measurement validity checks (field-reference §6.8): reciprocity H_ij against H_ji, and
 // linearity — the same DOF pair at two force levels. Both report FRAC over the band (§6.7) and
 // the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
-import { frac, type Complex } from '@resonote/dsp';
+import { and, eq } from 'drizzle-orm';
+import { averageFrf, frac, type Complex } from '@resonote/dsp';
+import type { AcquisitionSettings } from '@resonote/contracts';
+import { hit } from '@resonote/db/schema';
+import type { Db } from '@resonote/db/client';
+import type { ChannelSnapshot } from './channel-map.ts';
+import { exponentialWindowOf, forceWindowOf, mainChannel, recordSamples, removeOffsets, unpackSamples } from './processing.ts';
 
 export interface PeakDifference {
   fHz: number;
@@ -55,4 +61,43 @@ export function compareFrfs(ha: Complex, hb: Complex, f: Float64Array, band: { l
     };
   });
   return { frac: frac(a.h, b.h), peaks };
+}
+
+/**
+ * Linearity of one schedule entry (field-reference §6.8): its accepted hits split into the
+ * lighter and the heavier half by peak force; when the medians differ by 1.5× or more, the two
+ * halves are averaged separately and compared (heavier against lighter). Null when there are
+ * fewer than 4 usable hits or the force levels are too close.
+ */
+export async function entryLinearity(db: Db, entryId: string, responseDof: string, s: AcquisitionSettings) {
+  const n = recordSamples(s);
+  const pre = Math.round(s.preTriggerS * s.sampleRateHz);
+  const exp = exponentialWindowOf(s);
+  const rows = await db
+    .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
+    .from(hit)
+    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept')));
+  const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
+  if (usable.length < 4) return null;
+  const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;
+  const sorted = [...usable].sort((x, y) => peak(x) - peak(y));
+  const half = Math.floor(sorted.length / 2);
+  const low = sorted.slice(0, half);
+  const high = sorted.slice(sorted.length - half);
+  const median = (g: typeof sorted) => peak(g[Math.floor(g.length / 2)]!);
+  const ratio = median(high) / Math.max(median(low), 1e-9);
+  if (ratio < 1.5) return null;
+  const frfOf = (g: typeof sorted) =>
+    averageFrf(
+      g.map((r) => {
+        const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
+        return { force: chans[0]!, responses: chans.slice(1) };
+      }),
+      s.sampleRateHz,
+      { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
+    );
+  const lo = frfOf(low);
+  const hi = frfOf(high);
+  const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), responseDof);
+  return { lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) };
 }

@@ -15,7 +15,7 @@ import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
 import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs } from '../hits/checks.ts';
+import { compareFrfs, entryLinearity } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
 import {
@@ -544,35 +544,10 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         reciprocity.push({ a: label(a), b: label(b), ...compareFrfs(ra.frf.h1[ia]!, rb.frf.h1[ib]!, ra.frf.f, s.bandHz) });
       }
       const linearity = [];
-      const n = recordSamples(s);
-      const pre = Math.round(s.preTriggerS * s.sampleRateHz);
-      const exp = exponentialWindowOf(s);
       for (const e of entries) {
         if (!withResult.has(e.id)) continue;
-        const rows = await db.select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel }).from(hit).where(and(eq(hit.scheduleEntryId, e.id), eq(hit.verdict, 'accept')));
-        const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
-        if (usable.length < 4) continue;
-        const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;
-        const sorted = [...usable].sort((x, y) => peak(x) - peak(y));
-        const half = Math.floor(sorted.length / 2);
-        const low = sorted.slice(0, half);
-        const high = sorted.slice(sorted.length - half);
-        const median = (g: typeof sorted) => peak(g[Math.floor(g.length / 2)]!);
-        const ratio = median(high) / Math.max(median(low), 1e-9);
-        if (ratio < 1.5) continue;
-        const frfOf = (g: typeof sorted) =>
-          averageFrf(
-            g.map((r) => {
-              const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
-              return { force: chans[0]!, responses: chans.slice(1) };
-            }),
-            s.sampleRateHz,
-            { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
-          );
-        const lo = frfOf(low);
-        const hi = frfOf(high);
-        const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), `${e.r}:${e.rd}`);
-        linearity.push({ entry: label(e), lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) });
+        const result = await entryLinearity(db, e.id, `${e.r}:${e.rd}`, s);
+        if (result) linearity.push({ entry: label(e), ...result });
       }
       return {
         reciprocity,
