@@ -51,6 +51,7 @@ function barSpec(): CampaignSpec {
   const bar = steelBar();
   return {
     name: BAR_CAMPAIGN,
+    status: 'analysis',
     structure: 'Steel bar 1000 × 40 × 10 mm on soft supports at the mode-1 nodes',
     client: 'In-house (reference check)',
     testType: 'roving-hammer',
@@ -71,6 +72,7 @@ function skidSpec(): CampaignSpec {
   const skid = pumpSkidBaseplate();
   return {
     name: SKID_CAMPAIGN,
+    status: 'testing',
     structure: 'Welded steel baseplate 1200 × 800 × 20 mm of a pump skid, on its mounts',
     client: 'Northwind Pumping Systems (fictional)',
     testType: 'roving-hammer',

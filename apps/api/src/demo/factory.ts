@@ -21,6 +21,8 @@ export interface CampaignSpec {
   accelerometers: { model: string; serial: string; sensitivity: number; sensitivityUnit: 'mV/(m/s²)' | 'mV/g'; dof: string }[];
   calibration?: { calibratedOn: string; dueOn: string; certificateRef: string; performedBy: string };
   settings: Record<string, unknown>;
+  /** Where the campaign stands once built (default: planning). */
+  status?: 'planning' | 'testing' | 'analysis' | 'handed-over';
 }
 
 export interface BuiltCampaign {
@@ -53,5 +55,9 @@ export async function buildCampaign(client: ApiClient, spec: CampaignSpec): Prom
   }
   await ok(client, 'PUT', `${base}/settings`, { baseVersion: 0, settings: spec.settings, reason: 'campaign set-up' }, 'settings');
   const schedule = await ok(client, 'POST', `${base}/schedule/generate`, {}, 'schedule');
+  if (spec.status && spec.status !== 'planning') {
+    const current = await ok(client, 'GET', base, undefined, 'campaign');
+    await ok(client, 'PATCH', base, { version: current.campaign.version, status: spec.status }, 'campaign status');
+  }
   return { campaignId: id, entries: schedule.entries };
 }
