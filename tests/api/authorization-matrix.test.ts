@@ -130,7 +130,7 @@ async function call(caller: Caller, method: string, path: string) {
     return req.buffer(false).parse((res, done) => {
       if (res.statusCode === 200) {
         res.once('data', () => {
-          res.destroy();
+          (res as unknown as { destroy(): void }).destroy();
           done(null, {});
         });
         return;

@@ -3,47 +3,31 @@
 // sees the report link only.
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser } from 'playwright-core';
-import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { launchBrowser, screenshot, viewports, watchConsole } from '../support/browser.ts';
+import { DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
+import { startDemo, type DemoRun } from '../support/demo.ts';
+import { screenshot, viewports } from '../support/browser.ts';
 
-let app: TestApp & { baseUrl: string };
-let browser: Browser;
+let demo: DemoRun;
 let barId: string;
 let zipStatus: number;
 
 beforeAll(async () => {
-  app = await startTestApp('resonote_tpl_e2e', {}, { listen: true });
-  await seedDemo(app.handle, { log: () => undefined });
-  const lead = app.agent();
+  demo = await startDemo();
+  barId = await demo.campaignId(BAR_CAMPAIGN);
+  const lead = demo.app.agent();
   await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  barId = (await lead.get('/api/campaigns')).body.campaigns.find((c: { name: string }) => c.name === BAR_CAMPAIGN).id;
-  // The hand-over routes are built alongside this screen; the download is checked once they answer.
   zipStatus = (await lead.get(`/api/campaigns/${barId}/export/bundle.zip`).buffer(true).parse((res, cb) => { res.on('data', () => undefined); res.on('end', () => cb(null, null)); })).status;
-  browser = await launchBrowser();
 }, 240_000);
 afterAll(async () => {
-  await browser?.close();
-  await app?.close();
+  await demo?.close();
 });
 
-async function signedIn(email: string, viewport: { width: number; height: number } = viewports.laptop) {
-  const context = await browser.newContext({ viewport, acceptDownloads: true });
-  const page = await context.newPage();
-  const errors = watchConsole(page);
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/campaigns$/);
-  return { page, errors, close: () => context.close() };
-}
+const signedIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport, { acceptDownloads: true });
 
 describe('the Hand-over screen', () => {
   it('gives the lead the report, the bundles, sharing and backup, and downloads bundle.zip', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local');
-    await page.goto(`${app.baseUrl}/campaigns/${barId}`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}`);
     await page.getByRole('link', { name: 'Hand-over' }).click();
     await page.waitForURL(/\/handover$/);
     await expect(page.getByRole('link', { name: /Open report/ })).toBeDefinedAndVisible();
@@ -79,7 +63,7 @@ describe('the Hand-over screen', () => {
 
   it('fits the tablet width', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local', viewports.tablet);
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/handover`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/handover`);
     await expect(page.getByRole('button', { name: 'Download bundle.zip' })).toBeDefinedAndVisible();
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(768);
     await screenshot(page, 'handover-768');
@@ -89,7 +73,7 @@ describe('the Hand-over screen', () => {
 
   it('shows a viewer the report link only', async () => {
     const { page, errors, close } = await signedIn('viewer@demo.resonote.local');
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/handover`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/handover`);
     await expect(page.getByRole('link', { name: /Open report/ })).toBeDefinedAndVisible();
     for (const name of ['Download PDF', 'Download bundle.zip', 'Download bundle.json', 'Send', 'Download backup', 'Restore as a new campaign']) {
       expect(await page.getByRole('button', { name }).count(), name).toBe(0);

@@ -2,44 +2,26 @@
 // poles of the first four bending modes, computes shapes and reads the mode table, the MAC matrix
 // and the animated shape; a viewer reads the same modes without any action controls.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Browser, Page } from 'playwright-core';
-import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { launchBrowser, screenshot, viewports, watchConsole } from '../support/browser.ts';
+import type { Page } from 'playwright-core';
+import { BAR_CAMPAIGN } from '@resonote/api/seed';
+import { startDemo, type DemoRun } from '../support/demo.ts';
+import { screenshot, viewports } from '../support/browser.ts';
 
-let app: TestApp & { baseUrl: string };
-let browser: Browser;
+let demo: DemoRun;
 let barId: string;
 
-// Euler–Bernoulli weak-direction bending of the demo bar (field-reference §7.1).
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
 
 beforeAll(async () => {
-  app = await startTestApp('resonote_tpl_e2e', {}, { listen: true });
-  await seedDemo(app.handle, { log: () => undefined });
-  const lead = app.agent();
-  await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  barId = (await lead.get('/api/campaigns')).body.campaigns.find((c: { name: string }) => c.name === BAR_CAMPAIGN).id;
-  browser = await launchBrowser();
+  demo = await startDemo();
+  barId = await demo.campaignId(BAR_CAMPAIGN);
 }, 240_000);
 afterAll(async () => {
-  await browser?.close();
-  await app?.close();
+  await demo?.close();
 });
 
-// The contexts ask for reduced motion, so the shape starts still (the screen honours the setting);
-// the first test plays and pauses it. A software-rendered animation would slow every other step.
-async function signedIn(email: string, viewport: { width: number; height: number } = viewports.laptop) {
-  const context = await browser.newContext({ viewport, reducedMotion: 'reduce' });
-  const page = await context.newPage();
-  const errors = watchConsole(page);
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/campaigns$/);
-  return { page, errors, close: () => context.close() };
-}
+// Reduced motion: the mode-shape animation starts still (a test presses Play itself).
+const signedIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport, { reducedMotion: 'reduce' });
 
 /**
  * Chooses, at the highest order, the fully stable pole nearest each target frequency by sending
@@ -73,7 +55,7 @@ async function waitForAnimation(page: Page) {
 describe('the Modes screen', () => {
   it('lets the lead run a fit, choose the stable poles of the bar and compute its modes', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local');
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
     await page.getByRole('link', { name: 'Modes' }).waitFor();
     await expect(page.getByTestId('modes-empty')).toBeDefinedAndVisible();
     await expect(page.getByText(/Decisions about the structure belong to licensed practice/)).toBeDefinedAndVisible();
@@ -129,7 +111,7 @@ describe('the Modes screen', () => {
 
   it('shows the newest chosen modes on load, at tablet width too', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local', viewports.tablet);
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
     await page.getByTestId('mode-table').locator('tbody tr').nth(3).waitFor({ timeout: 20_000 });
     await page.locator('.stabilization-plot .scatterlayer').first().waitFor();
     expect(await page.getByTestId('chosen-poles').locator('tbody tr').count()).toBe(4);
@@ -145,7 +127,7 @@ describe('the Modes screen', () => {
 
   it('shows a viewer the modes without any action controls', async () => {
     const { page, errors, close } = await signedIn('viewer@demo.resonote.local');
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
     const rows = page.getByTestId('mode-table').locator('tbody tr');
     await rows.nth(3).waitFor({ timeout: 20_000 });
     expect(await rows.count()).toBe(4);

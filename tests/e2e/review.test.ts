@@ -2,45 +2,23 @@
 // switches views and FRF kind, opens one DOF and one hit, reads the checks, and finds no action
 // controls anywhere. Screenshots at 1366 px and 768 px.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
-import { chromium, type Browser, type Page } from 'playwright-core';
-import { campaign } from '@resonote/db/schema';
-import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { screenshot, viewports, watchConsole } from '../support/browser.ts';
+import type { Page } from 'playwright-core';
+import { BAR_CAMPAIGN } from '@resonote/api/seed';
+import { startDemo, type DemoRun } from '../support/demo.ts';
+import { screenshot, viewports } from '../support/browser.ts';
 
-let app: TestApp & { baseUrl: string };
-let browser: Browser;
+let demo: DemoRun;
 let barId: string;
 
 beforeAll(async () => {
-  // RESONOTE_WEB_DIST lets a run use its own build while someone else rebuilds apps/web/dist.
-  app = await startTestApp('resonote_tpl_e2e', process.env.RESONOTE_WEB_DIST ? { WEB_DIST: process.env.RESONOTE_WEB_DIST } : {}, { listen: true });
-  await seedDemo(app.handle, { log: () => undefined });
-  const [row] = await app.handle.database.db.select({ id: campaign.id }).from(campaign).where(eq(campaign.name, BAR_CAMPAIGN));
-  barId = row!.id;
-  browser = await chromium.launch({
-    executablePath: process.env.RESONOTE_CHROMIUM ?? '/usr/bin/chromium',
-    headless: true,
-    args: ['--no-sandbox', '--use-angle=swiftshader', '--enable-unsafe-swiftshader', '--ignore-gpu-blocklist', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
-}, 180_000);
+  demo = await startDemo();
+  barId = await demo.campaignId(BAR_CAMPAIGN);
+}, 240_000);
 afterAll(async () => {
-  await browser?.close();
-  await app?.close();
+  await demo?.close();
 });
 
-async function signIn(email: string, viewport: { width: number; height: number }) {
-  const context = await browser.newContext({ viewport, hasTouch: viewport.width < 1100 });
-  const page = await context.newPage();
-  const errors = watchConsole(page);
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/campaigns$/);
-  return { page, errors, close: () => context.close() };
-}
+const signIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport);
 
 const drawCount = (page: Page) => page.evaluate(() => window.__resonoteOverlayTimings?.length ?? 0);
 async function waitForRedraw(page: Page, before: number) {
@@ -57,7 +35,7 @@ async function noActionControls(page: Page) {
 describe('Review in the browser', () => {
   it('overlays the 21 done FRFs of the bar, switches views and kind, and shows a viewer no action controls', async () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/review`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/review`);
     await page.getByTestId('entry-list').waitFor();
     // The first DOF with hits opens by itself.
     await page.locator('[data-testid="dof-detail"] .js-plotly-plot').first().waitFor({ timeout: 20_000 });
@@ -116,7 +94,7 @@ describe('Review in the browser', () => {
 
   it('fits a 768 px tablet', async () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.tablet);
-    await page.goto(`${app.baseUrl}/campaigns/${barId}/review`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/review`);
     await page.getByTestId('pick-all-done').click();
     await page.locator('[data-testid="overlay-plot"][data-overlay-count="21"]').waitFor({ timeout: 30_000 });
     await page.waitForFunction(() => (window.__resonoteOverlayTimings?.length ?? 0) > 0, undefined, { timeout: 30_000 });

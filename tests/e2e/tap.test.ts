@@ -2,46 +2,23 @@
 // current DOF (button and Space), rejects one with R, watches the averaged FRF follow, and moves
 // on with N. Screenshots at 1366 px, 768 px (portrait tablet) and 1024 × 768 (landscape tablet).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
-import { chromium, type Browser, type Page } from 'playwright-core';
-import { campaign } from '@resonote/db/schema';
-import { seedDemo, DEMO_PASSWORD, SKID_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { screenshot, viewports, watchConsole } from '../support/browser.ts';
+import type { Page } from 'playwright-core';
+import { SKID_CAMPAIGN } from '@resonote/api/seed';
+import { startDemo, type DemoRun } from '../support/demo.ts';
+import { screenshot, viewports } from '../support/browser.ts';
 
-let app: TestApp & { baseUrl: string };
-let browser: Browser;
+let demo: DemoRun;
 let skidId: string;
 
 beforeAll(async () => {
-  // RESONOTE_WEB_DIST lets a run use its own build while someone else rebuilds apps/web/dist.
-  app = await startTestApp('resonote_tpl_e2e', process.env.RESONOTE_WEB_DIST ? { WEB_DIST: process.env.RESONOTE_WEB_DIST } : {}, { listen: true });
-  await seedDemo(app.handle, { log: () => undefined });
-  const [row] = await app.handle.database.db.select({ id: campaign.id }).from(campaign).where(eq(campaign.name, SKID_CAMPAIGN));
-  skidId = row!.id;
-  // Software WebGL so the 3D geometry view draws headless.
-  browser = await chromium.launch({
-    executablePath: process.env.RESONOTE_CHROMIUM ?? '/usr/bin/chromium',
-    headless: true,
-    args: ['--no-sandbox', '--use-angle=swiftshader', '--enable-unsafe-swiftshader', '--ignore-gpu-blocklist', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
-  });
-}, 180_000);
+  demo = await startDemo();
+  skidId = await demo.campaignId(SKID_CAMPAIGN);
+}, 240_000);
 afterAll(async () => {
-  await browser?.close();
-  await app?.close();
+  await demo?.close();
 });
 
-async function signIn(email: string, viewport: { width: number; height: number }) {
-  const context = await browser.newContext({ viewport, hasTouch: viewport.width < 1100 });
-  const page = await context.newPage();
-  const errors = watchConsole(page);
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/campaigns$/);
-  return { page, errors, close: () => context.close() };
-}
+const signIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport);
 
 const rows = (page: Page) => page.locator('[data-testid="hit-list"] tbody tr');
 
@@ -55,7 +32,7 @@ async function settle(page: Page) {
 describe('Tap in the browser', () => {
   it('takes five hits at the current DOF, rejects one with R, sees the FRF follow, and moves on with N', async () => {
     const { page, errors, close } = await signIn('engineer@demo.resonote.local', viewports.laptop);
-    await page.goto(`${app.baseUrl}/campaigns/${skidId}/tap`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
     await page.waitForURL(/\/tap\?entry=/);
     const dof = page.getByTestId('current-dof');
     await dof.waitFor({ timeout: 30_000 });
@@ -136,7 +113,7 @@ describe('Tap in the browser', () => {
 
   it('shows a viewer the hits and the FRF but no action controls', async () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
-    await page.goto(`${app.baseUrl}/campaigns/${skidId}/tap`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
     await page.getByTestId('current-dof').waitFor();
     await expect(page.getByText('You are a viewer on this campaign')).toBeDefinedAndVisible();
     for (const name of [/Strike/, /Accept/, /Reject/, /Upload/]) expect(await page.getByRole('button', { name }).count()).toBe(0);
