@@ -10,6 +10,7 @@ import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
 import { compareFrfs, entryLinearity, type Comparison } from '../hits/checks.ts';
+import { listScheduleEntries } from '../plan/schedule-list.ts';
 import {
   currentSettings,
   entryResult,
@@ -126,40 +127,20 @@ export interface HandoverData {
 const day = (d: Date) => d.toISOString().slice(0, 10);
 
 export async function scheduleOf(db: Db, campaignId: string): Promise<HandoverEntry[]> {
-  const counts = db
-    .select({
-      entryId: hit.scheduleEntryId,
-      accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`.as('accepted'),
-      rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`.as('rejected'),
-    })
-    .from(hit)
-    .where(eq(hit.campaignId, campaignId))
-    .groupBy(hit.scheduleEntryId)
-    .as('counts');
-  const rows = await db
-    .select({
-      id: scheduleEntry.id,
-      position: scheduleEntry.position,
-      r: responsePoint.label,
-      rd: scheduleEntry.responseDirection,
-      e: excitationPoint.label,
-      ed: scheduleEntry.excitationDirection,
-      drivingPoint: scheduleEntry.drivingPoint,
-      status: scheduleEntry.status,
-      requiredHits: scheduleEntry.requiredHits,
-      assignee: user.name,
-      note: scheduleEntry.note,
-      acceptedHits: sql<number>`coalesce(${counts.accepted}, 0)::int`,
-      rejectedHits: sql<number>`coalesce(${counts.rejected}, 0)::int`,
-    })
-    .from(scheduleEntry)
-    .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
-    .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
-    .leftJoin(user, eq(user.id, scheduleEntry.assigneeId))
-    .leftJoin(counts, eq(counts.entryId, scheduleEntry.id))
-    .where(eq(scheduleEntry.campaignId, campaignId))
-    .orderBy(asc(scheduleEntry.position));
-  return rows.map(({ r, rd, e, ed, ...rest }) => ({ ...rest, responseDof: `${r}:${rd}`, excitationDof: `${e}:${ed}`, assignee: rest.assignee ?? null }));
+  const rows = await listScheduleEntries(db, campaignId);
+  return rows.map((r) => ({
+    id: r.id,
+    position: r.position,
+    drivingPoint: r.drivingPoint,
+    status: r.status,
+    requiredHits: r.requiredHits,
+    assignee: r.assigneeName ?? null,
+    note: r.note,
+    acceptedHits: r.acceptedHits,
+    rejectedHits: r.rejectedHits,
+    responseDof: r.responseDof,
+    excitationDof: r.excitationDof,
+  }));
 }
 
 /** The averaged FRFs of every entry with accepted hits, in schedule order. */

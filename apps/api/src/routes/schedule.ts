@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema, type Direction } from '@resonote/contracts';
 import { acquisitionSettings, campaign, campaignMember, hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
+import { listScheduleEntries } from '../plan/schedule-list.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, forbidden, HttpError, notFound } from '../errors.ts';
@@ -14,47 +15,7 @@ const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
 
 export function registerScheduleRoutes({ routes, db }: Deps): void {
-  async function listSchedule(campaignId: string, entryIds?: string[]) {
-    const counts = db
-      .select({
-        entryId: hit.scheduleEntryId,
-        accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int`.as('accepted'),
-        rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`.as('rejected'),
-      })
-      .from(hit)
-      .where(eq(hit.campaignId, campaignId))
-      .groupBy(hit.scheduleEntryId)
-      .as('counts');
-    const rows = await db
-      .select({
-        id: scheduleEntry.id,
-        position: scheduleEntry.position,
-        responsePointId: scheduleEntry.responsePointId,
-        responseLabel: responsePoint.label,
-        responseDirection: scheduleEntry.responseDirection,
-        excitationPointId: scheduleEntry.excitationPointId,
-        excitationLabel: excitationPoint.label,
-        excitationDirection: scheduleEntry.excitationDirection,
-        drivingPoint: scheduleEntry.drivingPoint,
-        status: scheduleEntry.status,
-        requiredHits: scheduleEntry.requiredHits,
-        assigneeId: scheduleEntry.assigneeId,
-        assigneeName: user.name,
-        note: scheduleEntry.note,
-        version: scheduleEntry.version,
-        updatedAt: scheduleEntry.updatedAt,
-        acceptedHits: sql<number>`coalesce(${counts.accepted}, 0)`,
-        rejectedHits: sql<number>`coalesce(${counts.rejected}, 0)`,
-      })
-      .from(scheduleEntry)
-      .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
-      .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
-      .leftJoin(user, eq(user.id, scheduleEntry.assigneeId))
-      .leftJoin(counts, eq(counts.entryId, scheduleEntry.id))
-      .where(and(eq(scheduleEntry.campaignId, campaignId), entryIds ? inArray(scheduleEntry.id, entryIds) : undefined))
-      .orderBy(asc(scheduleEntry.position));
-    return rows.map((r) => ({ ...r, responseDof: `${r.responseLabel}:${r.responseDirection}`, excitationDof: `${r.excitationLabel}:${r.excitationDirection}` }));
-  }
+  const listSchedule = (campaignId: string, entryIds?: string[]) => listScheduleEntries(db, campaignId, entryIds);
 
   routes.add({
     method: 'get',
