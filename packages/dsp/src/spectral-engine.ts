@@ -38,8 +38,6 @@ export class SpectralAverager {
   private readonly scratch: Float64Array;
   private readonly refRe: Float64Array;
   private readonly refIm: Float64Array;
-  private readonly chRe: Float64Array;
-  private readonly chIm: Float64Array;
 
   /** n: record (segment) length in samples; channels: number of channels besides the reference. */
   constructor(n: number, channels: number) {
@@ -50,8 +48,6 @@ export class SpectralAverager {
     this.scratch = new Float64Array(n);
     this.refRe = new Float64Array(this.bins);
     this.refIm = new Float64Array(this.bins);
-    this.chRe = new Float64Array(this.bins);
-    this.chIm = new Float64Array(this.bins);
     this.refAuto = new Float64Array(this.bins);
     this.auto = [];
     this.crossRe = [];
@@ -104,25 +100,11 @@ export class SpectralAverager {
     const ri = this.refIm;
     const ra = this.refAuto;
     for (let k = 0; k < bins; k++) ra[k] += rr[k] * rr[k] + ri[k] * ri[k];
-    const xr = this.chRe;
-    const xi = this.chIm;
     for (let c = 0; c < this.channels; c++) {
       this.load(others[c], offset, otherWindow);
-      this.plan.forward(this.scratch, xr, xi);
-      SpectralAverager.ensureFinite(xr[0], others[c], names.other(c));
-      const au = this.auto[c];
-      const cr = this.crossRe[c];
-      const ci = this.crossIm[c];
-      for (let k = 0; k < bins; k++) {
-        const a = xr[k];
-        const b = xi[k];
-        const p = rr[k];
-        const q = ri[k];
-        au[k] += a * a + b * b;
-        // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa)
-        cr[k] += p * a + q * b;
-        ci[k] += p * b - q * a;
-      }
+      // Σ|X_c|² and Σ conj(R)·X_c, summed as the transform is split (nothing stored per record).
+      const dc = this.plan.forwardCross(this.scratch, rr, ri, this.auto[c], this.crossRe[c], this.crossIm[c]);
+      SpectralAverager.ensureFinite(dc, others[c], names.other(c));
     }
     this.count++;
   }
