@@ -23,6 +23,8 @@ export const viewports = {
 export async function screenshot(page: Page, name: string): Promise<string> {
   fs.mkdirSync(screenshotDir, { recursive: true });
   const file = path.join(screenshotDir, `${name}.png`);
+  // The app bar sticks to the top of the viewport: from the top it lands where a reader sees it.
+  await page.evaluate(() => window.scrollTo(0, 0));
   await page.screenshot({ path: file, fullPage: true });
   return file;
 }

@@ -2,7 +2,7 @@
 // magnitude + phase (+ coherence), real + imaginary, or Nyquist (Re against Im). All the complex
 // arithmetic goes through frf-math.ts; here only traces, axes and labels.
 import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
-import { axis, baseLayout, type PlotColours } from './plot-style.ts';
+import { axis, baseLayout, baseMargin, type PlotColours } from './plot-style.ts';
 import { minMaxDecimate } from './decimate.ts';
 
 export type FrfView = 'magphase' | 'reim' | 'nyquist';
@@ -90,7 +90,7 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     return {
       data,
       layout: baseLayout(c, {
-        title: o.title ? { text: o.title, font: { size: 13 }, x: 0, xanchor: 'left' } : undefined,
+        ...titled(o.title, showLegend),
         hovermode: 'closest',
         showlegend: showLegend,
         uirevision: o.uirevision,
@@ -103,7 +103,7 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
   const top = o.view === 'magphase' ? magTitle : `Re(H) (${unit})`;
   const mid = o.view === 'magphase' ? 'Phase (°)' : `Im(H) (${unit})`;
   const layout = baseLayout(c, {
-    title: o.title ? { text: o.title, font: { size: 13 }, x: 0, xanchor: 'left' } : undefined,
+    ...titled(o.title, showLegend),
     showlegend: showLegend,
     uirevision: o.uirevision,
     xaxis: { ...fAxis, anchor: withCoh ? 'y3' : 'y2' },
@@ -112,4 +112,13 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     ...(withCoh ? { yaxis3: axis(c, 'Coherence γ²', { domain: domains[2], range: [0, 1.05], tickvals: [0, 0.5, 1] }) } : {}),
   });
   return { data, layout };
+}
+
+/** The plot's title at the top left of the figure, with room under it for the legend row. */
+function titled(title: string | undefined, legend: boolean): Record<string, unknown> {
+  if (!title) return {};
+  return {
+    title: { text: title, font: { size: 13 }, x: 0, xref: 'paper', xanchor: 'left', y: 1, yref: 'container', yanchor: 'top', pad: { t: 8 } },
+    margin: { ...baseMargin, t: legend ? 62 : baseMargin.t },
+  };
 }

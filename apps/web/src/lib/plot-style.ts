@@ -55,13 +55,16 @@ export function axis(c: PlotColours, title: string, extra: Record<string, unknow
   };
 }
 
+/** Plot margins in px; a titled plot with a legend row takes a taller top margin. */
+export const baseMargin = { l: 64, r: 16, t: 36, b: 44 };
+
 /** Base layout: themed paper, unified cursor with values and units (the traces carry the units). */
 export function baseLayout(c: PlotColours, extra: Record<string, unknown> = {}): Record<string, unknown> {
   return {
     paper_bgcolor: c.paper,
     plot_bgcolor: c.paper,
     font: { color: c.ink, family: 'Inter Variable, ui-sans-serif, sans-serif', size: 12 },
-    margin: { l: 64, r: 16, t: 36, b: 44 },
+    margin: baseMargin,
     hovermode: 'x unified',
     hoverlabel: { font: { family: monoFont, size: 12 }, bgcolor: c.paper, bordercolor: c.zero },
     legend: { orientation: 'h', x: 0, y: 1.02, yanchor: 'bottom', font: { size: 11 } },

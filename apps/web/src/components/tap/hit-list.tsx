@@ -1,5 +1,5 @@
-// The hits of one DOF, newest last: sequence, verdict (icon + colour + word), peak force, pulse
-// width and reasons. A row can be chosen to see its traces (and, on Tap, to override its verdict).
+// The hits of one DOF, newest last: sequence, verdict (icon + colour + word) with its reasons in
+// short words underneath (so the table fits the narrow Tap column), peak force and pulse width. A row can be chosen to see its traces (and, on Tap, to override its verdict).
 import type { HitSummary } from '../../lib/hits-data.ts';
 import { VerdictBadge } from './verdict.tsx';
 
@@ -21,10 +21,9 @@ export function HitList({ hits, selectedId, onSelect }: { hits: HitSummary[]; se
         <thead className="text-left text-xs text-[var(--muted)]">
           <tr>
             <th className="py-1 pr-2 font-medium">#</th>
-            <th className="pr-2 font-medium">Verdict</th>
+            <th className="pr-2 font-medium">Verdict · reasons</th>
             <th className="pr-2 text-right font-medium">Peak force</th>
-            <th className="pr-2 text-right font-medium">Pulse width</th>
-            <th className="font-medium">Reasons</th>
+            <th className="text-right font-medium">Pulse width</th>
           </tr>
         </thead>
         <tbody>
@@ -44,14 +43,12 @@ export function HitList({ hits, selectedId, onSelect }: { hits: HitSummary[]; se
                     {h.sequence}
                   </button>
                 </td>
-                <td className="py-1.5 pr-2">
+                <td className="py-1.5 pr-2" title={[...h.reasons.map((r) => r.message), h.overridden && h.overrideNote ? `note: ${h.overrideNote}` : ''].filter(Boolean).join('\n')}>
                   <VerdictBadge verdict={h.verdict} overridden={h.overridden} />
+                  <div className="mt-0.5 text-xs text-[var(--muted)]">{h.reasons.length ? h.reasons.map((r) => shortReason[r.code] ?? r.code).join(', ') : 'checks passed'}</div>
                 </td>
                 <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.peakForceN.toFixed(1)} N</td>
-                <td className="num py-1.5 pr-2 text-right whitespace-nowrap">{h.metrics.pulseWidthS === null ? '–' : `${(h.metrics.pulseWidthS * 1000).toFixed(2)} ms`}</td>
-                <td className="py-1.5 text-xs text-[var(--muted)]" title={[...h.reasons.map((r) => r.message), h.overridden && h.overrideNote ? `note: ${h.overrideNote}` : ''].filter(Boolean).join('\n')}>
-                  {h.reasons.length ? h.reasons.map((r) => shortReason[r.code] ?? r.code).join(', ') : 'checks passed'}
-                </td>
+                <td className="num py-1.5 text-right whitespace-nowrap">{h.metrics.pulseWidthS === null ? '–' : `${(h.metrics.pulseWidthS * 1000).toFixed(2)} ms`}</td>
               </tr>
             );
           })}
