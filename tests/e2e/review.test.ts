@@ -50,6 +50,43 @@ describe('Review in the browser', () => {
     await page.waitForTimeout(500);
     await screenshot(page, 'review-1366');
 
+    // Zoom: a drag across the magnitude plot. The curves are decimated again over the visible band,
+    // so a zoomed peak shows every measured line instead of the whole axis' min/max envelope.
+    const firstTrace = () =>
+      page.evaluate(() => {
+        const gd = document.querySelector('[data-testid="overlay-plot"]') as unknown as { data: { x: ArrayLike<number> }[]; layout: { xaxis: { range: [number, number] } } };
+        return { x: Array.from(gd.data[0]!.x), range: gd.layout.xaxis.range };
+      });
+    const whole = await firstTrace();
+    const drag = (await page.locator('[data-testid="overlay-plot"] .nsewdrag').first().boundingBox())!;
+    await page.mouse.move(drag.x + drag.width * 0.2, drag.y + drag.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(drag.x + drag.width * 0.22, drag.y + drag.height / 2 + 2, { steps: 6 });
+    await page.mouse.up();
+    await page.waitForFunction((n) => {
+      const gd = document.querySelector('[data-testid="overlay-plot"]') as unknown as { data: { x: ArrayLike<number> }[] };
+      return gd.data[0]!.x.length !== n;
+    }, whole.x.length);
+    const zoomed = await firstTrace();
+    const [lo, hi] = zoomed.range;
+    expect(hi - lo).toBeLessThan((whole.x.at(-1)! - whole.x[0]!) / 20);
+    // The drawn lines cover the band (one line beyond each edge) at the FRF's own line spacing: none left out.
+    expect(zoomed.x[0]!).toBeLessThanOrEqual(lo);
+    expect(zoomed.x.at(-1)!).toBeGreaterThanOrEqual(hi);
+    const steps = zoomed.x.slice(1).map((x, i) => x - zoomed.x[i]!);
+    expect(Math.max(...steps) - Math.min(...steps)).toBeLessThan(1e-6);
+    const inBand = (x: number[]) => x.filter((v) => v >= lo && v <= hi).length;
+    expect(inBand(zoomed.x)).toBeGreaterThan(2 * inBand(whole.x));
+    await page.mouse.move(5, 5); // no hover label over the picture
+    await page.waitForTimeout(300);
+    await screenshot(page, 'review-zoomed-1366');
+    // A double-click returns to the whole axis and its decimated curves.
+    await page.mouse.dblclick(drag.x + drag.width / 2, drag.y + drag.height / 2);
+    await page.waitForFunction((n) => {
+      const gd = document.querySelector('[data-testid="overlay-plot"]') as unknown as { data: { x: ArrayLike<number> }[] };
+      return gd.data[0]!.x.length === n;
+    }, whole.x.length);
+
     let n = await drawCount(page);
     await page.getByTestId('view-choice').getByRole('radio', { name: 'Nyquist' }).click();
     await waitForRedraw(page, n);

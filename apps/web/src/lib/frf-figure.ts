@@ -35,11 +35,40 @@ export interface FrfFigureOptions {
   uirevision?: string;
   /** Min/max buckets per curve and row (magnitude, phase, re, im) when curves are longer; none by default. */
   buckets?: number;
+  /**
+   * Only the lines from lowHz to highHz (and one either side, so the curve reaches the plot's edges)
+   * in the magnitude/phase and re/im views: a zoomed overlay spends its buckets on what is visible.
+   */
+  bandHz?: readonly [number, number] | null;
 }
 
-function slice(a: ArrayLike<number>, from: number): Float64Array {
+function slice(a: ArrayLike<number>, from: number, to = a.length): Float64Array {
   const t = toFloat64(a);
-  return from === 0 ? t : t.subarray(from);
+  return from === 0 && to === t.length ? t : t.subarray(from, to);
+}
+
+/** First index i with f[i] ≥ value (or > value when `above`) in an ascending axis; f.length when none. */
+function firstIndex(f: ArrayLike<number>, value: number, above = false): number {
+  let lo = 0;
+  let hi = f.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (f[mid]! < value || (above && f[mid]! === value)) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** Index range [from, to) of the lines to draw: positive lines on a log axis, the band when given. */
+export function linesToDraw(f: ArrayLike<number>, logF: boolean, bandHz?: readonly [number, number] | null): [number, number] {
+  let from = logF ? firstPositiveLine(f) : 0;
+  let to = f.length;
+  if (bandHz && bandHz[1] > bandHz[0]) {
+    from = Math.max(from, firstIndex(f, bandHz[0]) - 1);
+    to = Math.min(to, firstIndex(f, bandHz[1], true) + 1);
+    if (to <= from) to = Math.min(f.length, from + 1);
+  }
+  return [from, to];
 }
 
 /** Builds plotly data and layout for the chosen view. */
@@ -58,20 +87,20 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     return { x: d.x, y: d.y };
   };
   for (const curve of curves) {
-    const from = o.logF ? firstPositiveLine(curve.f) : 0;
-    const f = slice(curve.f, from);
-    const h = { re: slice(curve.h.re, from), im: slice(curve.h.im, from) };
+    const [from, to] = linesToDraw(curve.f, o.logF, o.view === 'nyquist' ? null : o.bandHz);
+    const f = slice(curve.f, from, to);
+    const h = { re: slice(curve.h.re, from, to), im: slice(curve.h.im, from, to) };
     const line = { color: curve.colour, width: 1.2, dash: curve.dash ?? 'solid' };
     const common = { type, mode: 'lines', name: curve.name, legendgroup: curve.name, line, showlegend: false };
     if (o.view === 'magphase') {
       const mag = o.db ? magnitudesDb(h) : magnitudes(h);
       data.push({ ...common, ...xy(f, mag), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name}: %{y:.${o.db ? 2 : 4}${o.db ? 'f' : 'g'}}${magSuffix}<extra></extra>` });
       data.push({ ...common, ...xy(f, phasesDeg(h)), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
-      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
+      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from, to), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
     } else if (o.view === 'reim') {
       data.push({ ...common, ...xy(f, h.re), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name} Re: %{y:.4g} ${unit}<extra></extra>` });
       data.push({ ...common, ...xy(f, h.im), yaxis: 'y2', hovertemplate: `${curve.name} Im: %{y:.4g} ${unit}<extra></extra>` });
-      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
+      if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from, to), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
     } else {
       data.push({
         ...common,
@@ -121,4 +150,16 @@ function titled(title: string | undefined, legend: boolean): Record<string, unkn
     title: { text: title, font: { size: 13 }, x: 0, xref: 'paper', xanchor: 'left', y: 1, yref: 'container', yanchor: 'top', pad: { t: 8 } },
     margin: { ...baseMargin, t: legend ? 62 : baseMargin.t },
   };
+}
+
+/** The frequency band (Hz) a plotly_relayout event sets on the x axis; null when it returns to the whole axis; undefined when it leaves the x axis alone. */
+export function bandFromRelayout(event: Record<string, unknown>, logAxis: boolean): [number, number] | null | undefined {
+  if (event['xaxis.autorange'] === true) return null;
+  const pair = Array.isArray(event['xaxis.range']) ? (event['xaxis.range'] as unknown[]) : [event['xaxis.range[0]'], event['xaxis.range[1]']];
+  const [a, b] = pair.map((v) => (typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN));
+  if (!Number.isFinite(a) || !Number.isFinite(b)) return undefined;
+  // On a log axis plotly gives log10 of the frequency ("the range … is [0, 5] in log units": plotly.com log-plot docs).
+  const lo = logAxis ? 10 ** Math.min(a!, b!) : Math.min(a!, b!);
+  const hi = logAxis ? 10 ** Math.max(a!, b!) : Math.max(a!, b!);
+  return [lo, hi];
 }

@@ -1,6 +1,6 @@
 // Overlay of up to 100 averaged FRFs: the picked entries of this campaign, optionally all FRFs of
-// another campaign the user belongs to. Curves are min/max-decimated to the plot's resolution and
-// drawn as WebGL traces (scattergl) where a GPU draws them, else as SVG (docs/decisions/overlay-rendering.md).
+// another campaign the user belongs to. Curves are min/max-decimated to the plot's resolution (again
+// over the visible band after a zoom) and drawn as WebGL traces (scattergl) where a GPU draws them, else as SVG (docs/decisions/overlay-rendering.md).
 import { useMemo, useState } from 'react';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { frfFigure, type FrfCurve } from '../../lib/frf-figure.ts';
@@ -14,6 +14,9 @@ import { OVERLAY_LIMIT } from './entry-list.tsx';
 import { OverlayChart } from './overlay-chart.tsx';
 import { webglUsable } from '../../lib/decimate.ts';
 
+/** What the frequency axis is: a zoomed band belongs to one of these and is dropped when it changes. */
+const axisKey = (display: FrfDisplay) => `overlay-${display.view === 'nyquist' ? 'nyquist' : display.logF ? 'log-f' : 'linear-f'}`;
+
 /** Above this many curves they are drawn in a few colour groups (one WebGL trace each), not one trace per curve. */
 const GROUP_ABOVE = 24;
 const GROUPS = 10;
@@ -23,7 +26,7 @@ const GROUPS = 10;
  * holds GROUPS traces of concatenated curves (NaN between them) and the hover names the curve
  * under the cursor; curves longer than the plot is wide are min/max-decimated (peaks kept).
  */
-export function buildOverlay(sets: { prefix: string; answer: OverlayAnswer }[], display: FrfDisplay, dark: boolean, gl = true) {
+export function buildOverlay(sets: { prefix: string; answer: OverlayAnswer }[], display: FrfDisplay, dark: boolean, gl = true, bandHz: readonly [number, number] | null = null) {
   const curves: FrfCurve[] = [];
   let points = 0;
   for (const set of sets) {
@@ -41,8 +44,10 @@ export function buildOverlay(sets: { prefix: string; answer: OverlayAnswer }[], 
     coherence: false,
     gl,
     showLegend: curves.length <= GROUP_ABOVE,
-    uirevision: 'overlay',
+    // Zoom survives new data and a change of kind or view, but not a change of frequency axis.
+    uirevision: axisKey(display),
     buckets: long && display.view !== 'nyquist' ? 300 : undefined,
+    bandHz,
   });
   if (!grouped) return { ...fig, curves: curves.length, points };
 
@@ -88,6 +93,10 @@ export function OverlayPanel({ campaignId, picked, display }: { campaignId: stri
   const theme = useThemeName();
   const [otherId, setOtherId] = useState('');
   const [addedOther, setAddedOther] = useState<string | null>(null);
+  // The frequency band the user zoomed to: curves are decimated again over it, so a zoomed peak
+  // shows every line (up to the bucket count) rather than the whole-axis envelope.
+  const [zoom, setZoom] = useState<{ axis: string; band: [number, number] } | null>(null);
+  const band = zoom && zoom.axis === axisKey(display) ? zoom.band : null;
   const mine = useMyCampaigns();
   const others = (mine.data?.campaigns ?? []).filter((c) => c.id !== campaignId && c.myRole);
 
@@ -112,8 +121,8 @@ export function OverlayPanel({ campaignId, picked, display }: { campaignId: stri
     if (!sets.length) return null;
     const receivedAt = Math.max(picked.length ? (local.data?.receivedAt ?? 0) : 0, addedOther ? (other.data?.receivedAt ?? 0) : 0);
     const total = sets.reduce((n, s) => n + s.answer.frfs.length, 0);
-    return { ...buildOverlay(sets, display, theme === 'dark', webglUsable()), receivedAt, total };
-  }, [picked.length, local.data, addedOther, other.data, otherName, display, theme]);
+    return { ...buildOverlay(sets, display, theme === 'dark', webglUsable(), band), receivedAt, total };
+  }, [picked.length, local.data, addedOther, other.data, otherName, display, theme, band]);
 
   const unit = frfUnit[display.kind];
   const caption =
@@ -168,6 +177,15 @@ export function OverlayPanel({ campaignId, picked, display }: { campaignId: stri
             curves={figure.curves}
             points={figure.points}
             label={`Overlay of ${figure.curves} FRFs`}
+            band={band}
+            onBandChange={(next) =>
+              setZoom((prev) => {
+                const axis = axisKey(display);
+                if (!next) return prev === null ? prev : null;
+                const same = prev !== null && prev.axis === axis && prev.band[0] === next[0] && prev.band[1] === next[1];
+                return same ? prev : { axis, band: next };
+              })
+            }
           />
           <p className="text-xs text-[var(--muted)]">
             {caption}. Each colour is one DOF pair (response / excitation); hover a curve for its name and values.{figure.curves > GROUP_ABOVE ? ` Above ${GROUP_ABOVE} curves the legend is hidden and colours repeat every ${GROUPS} curves: hover a curve to name it.` : ''}
