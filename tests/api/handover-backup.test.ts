@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, count, eq } from 'drizzle-orm';
-import { auditEvent, campaign, campaignMember, hit, scheduleEntry, user } from '@resonote/db/schema';
+import { auditEvent, campaign, campaignMember, hit, noiseCheck, scheduleEntry, user } from '@resonote/db/schema';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
@@ -67,6 +67,8 @@ beforeAll(async () => {
     if (fit.status === 'done' || fit.status === 'failed') break;
     await new Promise((r) => setTimeout(r, 100));
   }
+  // A background-noise check, so the backup carries one (raw samples in its row).
+  expect((await engineer.post(`/api/campaigns/${barId}/noise-checks/simulate`).send({ durationS: 2, seed: 3, humHz: 50 })).status).toBe(201);
   const res = await binary(lead.get(`/api/campaigns/${barId}/backup`));
   expect(res.status).toBe(200);
   backup = res.body as Buffer;
@@ -83,7 +85,7 @@ describe('campaign backup', () => {
     expect(manifest.version).toBe(1);
     expect(manifest.sourceUrl).toBe(app.config.publicUrl);
     expect(Date.now() - Date.parse(manifest.exportedAt)).toBeLessThan(120_000);
-    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'frf_result', 'modal_fit', 'campaign_member']) {
+    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'campaign_member']) {
       expect(files[`tables/${t}.json`], t).toBeDefined();
       expect(JSON.parse(Buffer.from(files[`tables/${t}.json`]!).toString('utf8')), t).toHaveLength(manifest.counts[t]);
     }
@@ -91,6 +93,7 @@ describe('campaign backup', () => {
     const stored = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(eq(hit.campaignId, barId));
     expect(stored.length).toBe(manifest.counts.hit);
     expect(manifest.counts.modal_fit).toBe(1);
+    expect(manifest.counts.noise_check).toBe(1);
     for (const h of stored) {
       expect(sha(files[`samples/${h.id}.f32`]!)).toBe(sha(h.samples));
       expect(manifest.samples[h.id].sha256).toBe(sha(h.samples));
@@ -118,6 +121,12 @@ describe('campaign restore', () => {
     expect(b.body.entries.map((e: { responseDof: string; excitationDof: string; status: string; acceptedHits: number; rejectedHits: number }) => [e.responseDof, e.excitationDof, e.status, e.acceptedHits, e.rejectedHits])).toEqual(
       a.body.entries.map((e: { responseDof: string; excitationDof: string; status: string; acceptedHits: number; rejectedHits: number }) => [e.responseDof, e.excitationDof, e.status, e.acceptedHits, e.rejectedHits]),
     );
+    // The noise check comes back with byte-identical samples and the same reading.
+    const db = app.handle.database.db;
+    const [noiseA, noiseB] = await Promise.all([barId, restoredId].map((id) => db.select().from(noiseCheck).where(eq(noiseCheck.campaignId, id))));
+    expect(noiseB).toHaveLength(1);
+    expect(sha(noiseB![0]!.samples)).toBe(sha(noiseA![0]!.samples));
+    expect(noiseB![0]!.results).toEqual(noiseA![0]!.results);
     const settings = [(await lead.get(`/api/campaigns/${barId}/settings`)).body, (await lead.get(`/api/campaigns/${restoredId}/settings`)).body];
     expect(settings[1].current.settings).toEqual(settings[0].current.settings);
     expect(settings[1].history.length).toBe(settings[0].history.length);
@@ -158,6 +167,17 @@ describe('campaign restore', () => {
     expect(roles['engineer@demo.resonote.local']).toBe('engineer');
     expect(roles['viewer@demo.resonote.local']).toBe('viewer');
     expect(roles['admin@demo.resonote.local']).toBe('lead');
+  });
+
+  it('restores a backup written before noise checks existed (no tables/noise_check.json) with none', async () => {
+    const files = unzipSync(new Uint8Array(backup));
+    const manifest = JSON.parse(Buffer.from(files['manifest.json']!).toString('utf8'));
+    delete manifest.counts.noise_check;
+    const { 'tables/noise_check.json': _dropped, ...older } = files;
+    const res = await lead.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync({ ...older, 'manifest.json': new TextEncoder().encode(JSON.stringify(manifest)) })), 'older.zip');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.counts.noise_check).toBe(0);
+    expect(res.body.counts.hit).toBe(manifest.counts.hit);
   });
 
   it('refuses a backup whose samples do not match the manifest, and writes nothing', async () => {

@@ -7,9 +7,8 @@ import { createRng, hitSeries, modelFrf, simulateHit, steelBar } from '@resonote
 import { hit } from '@resonote/db/schema';
 import { encodeWav } from '@resonote/api/recording';
 import { startTestApp, type TestApp } from '../support/app.ts';
-import { signUp } from '../support/accounts.ts';
-import { invite, type Person } from '../support/campaign.ts';
-import { barCampaign, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
+import type { Person } from '../support/campaign.ts';
+import { barCampaign, barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
@@ -47,15 +46,7 @@ const hitsOf = async (entryId: string) => app.handle.database.db.select().from(h
 
 beforeAll(async () => {
   app = await startTestApp(API_TEMPLATE, { UPLOAD_LIMIT_MB: '3' });
-  const admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
-  lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
-  engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
-  viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
-  const seedCampaign = (await admin.agent.post('/api/campaigns').send({ name: 'Seed' })).body.campaign.id;
-  await invite(app, admin, seedCampaign, lead, 'lead');
-  rig = await barCampaign(app, lead);
-  await invite(app, lead, rig.campaignId, engineer, 'engineer');
-  await invite(app, lead, rig.campaignId, viewer, 'viewer');
+  ({ lead, engineer, viewer, rig } = await barCrew(app));
 }, 120_000);
 afterAll(async () => {
   await app?.close();

@@ -2,7 +2,8 @@
 // accelerometers on the channel map, acquisition settings, and the schedule.
 import { steelBar } from '@resonote/sim';
 import type { TestApp } from './app.ts';
-import type { Person } from './campaign.ts';
+import { signUp } from './accounts.ts';
+import { invite, type Person } from './campaign.ts';
 
 export interface RigCampaign {
   campaignId: string;
@@ -53,4 +54,21 @@ async function expectOk<T extends { status: number; body: unknown }>(req: Promis
   const res = await req;
   if (res.status >= 300) throw new Error(`${what}: ${res.status} ${JSON.stringify(res.body)}`);
   return res;
+}
+
+/**
+ * The usual cast of a hits test on a fresh database: an admin (first account), a lead of an
+ * ordinary campaign role, an engineer and a viewer invited to the bar campaign the lead set up.
+ */
+export async function barCrew(app: TestApp): Promise<{ lead: Person; engineer: Person; viewer: Person; rig: RigCampaign }> {
+  const admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
+  const lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
+  const engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
+  const viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
+  const seedCampaign = (await admin.agent.post('/api/campaigns').send({ name: 'Seed' })).body.campaign.id;
+  await invite(app, admin, seedCampaign, lead, 'lead');
+  const rig = await barCampaign(app, lead);
+  await invite(app, lead, rig.campaignId, engineer, 'engineer');
+  await invite(app, lead, rig.campaignId, viewer, 'viewer');
+  return { lead, engineer, viewer, rig };
 }

@@ -18,6 +18,7 @@ import { registerGeometryRoutes } from './routes/geometry.ts';
 import { registerHitRoutes } from './routes/hits.ts';
 import { CampaignEvents } from './hits/events.ts';
 import { registerModeRoutes } from './routes/modes.ts';
+import { registerNoiseRoutes } from './routes/noise.ts';
 import { FitQueue } from './modes/jobs.ts';
 import { flushResultWrites } from './hits/processing.ts';
 import { registerKitRoutes } from './routes/kit.ts';
@@ -92,6 +93,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
   registerHitRoutes(deps, new CampaignEvents());
+  registerNoiseRoutes(deps);
   const fits = new FitQueue(database.db);
   await fits.recover();
   registerModeRoutes(deps, fits);

@@ -8,6 +8,7 @@ export {
   type PeriodicSpectrumOptions,
 } from './spectra.ts';
 export { welchPsd, welchCsd, welchCoherence, type WelchOptions } from './welch.ts';
+export { backgroundNoise, type BackgroundNoise, type BackgroundNoiseOptions } from './noise.ts';
 export {
   analysisWindow,
   forceWindow,

@@ -11,7 +11,7 @@ import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -26,6 +26,8 @@ interface TableSpec {
   userCols: string[];
   /** The table's own uuid primary key, remapped on restore. */
   hasUuidId: boolean;
+  /** Added after the first backups were written: a backup without its file restores it as empty. */
+  addedLater?: boolean;
 }
 
 /** In insertion order (parents before children). */
@@ -39,6 +41,7 @@ const TABLES: TableSpec[] = [
   { name: 'channel', table: channel, userCols: [], hasUuidId: true },
   { name: 'schedule_entry', table: scheduleEntry, userCols: ['assigneeId'], hasUuidId: true },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true },
+  { name: 'noise_check', table: noiseCheck, userCols: ['recordedBy'], hasUuidId: true, addedLater: true },
   { name: 'frf_result', table: frfResult, userCols: [], hasUuidId: true },
   { name: 'modal_fit', table: modalFit, userCols: ['createdBy'], hasUuidId: true },
   { name: 'audit_event', table: auditEvent, userCols: ['actorId'], hasUuidId: false },
@@ -90,6 +93,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         channel: await byCampaign(channel as never, asc(channel.channel)),
         schedule_entry: await byCampaign(scheduleEntry as never, asc(scheduleEntry.position)),
         hit: await byCampaign(hit as never, asc(hit.recordedAt)),
+        noise_check: await byCampaign(noiseCheck as never, asc(noiseCheck.recordedAt)),
         frf_result: await byCampaign(frfResult as never),
         modal_fit: await byCampaign(modalFit as never, asc(modalFit.createdAt)),
         audit_event: await byCampaign(auditEvent as never, asc(auditEvent.id)),
@@ -139,7 +143,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
     campaign: { id: snapshot.c.id, name: snapshot.c.name },
     counts,
     samples,
-    notes: 'Tables are JSON arrays of rows with column names as in the Resonote schema; timestamps ISO 8601 UTC; frf_result.data base64 (float64 LE). samples/<hitId>.f32: the hit samples as stored (float32 LE, channel after channel, force first, engineering units). Invitations and sessions are not included.',
+    notes: 'Tables are JSON arrays of rows with column names as in the Resonote schema; timestamps ISO 8601 UTC; frf_result.data base64 (float64 LE); noise_check.samples base64 (float32 LE, channel after channel, force first, engineering units). samples/<hitId>.f32: the hit samples as stored (float32 LE, channel after channel, force first, engineering units). Invitations and sessions are not included.',
   };
   files['manifest.json'] = strToU8(JSON.stringify(manifest, null, 2));
   const safeName = snapshot.c.name.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'campaign';
@@ -211,6 +215,10 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
 
   const tables: Record<string, Row[]> = {};
   for (const spec of TABLES) {
+    if (spec.addedLater && !entries[`tables/${spec.name}.json`] && manifest.counts[spec.name] === undefined) {
+      tables[spec.name] = [];
+      continue;
+    }
     const rows = rowsSchema.safeParse(text(`tables/${spec.name}.json`));
     if (!rows.success) throw notABackup(`tables/${spec.name}.json is not a list of rows`);
     if (manifest.counts[spec.name] !== rows.data.length) throw corrupt(`tables/${spec.name}.json holds ${rows.data.length} rows, the manifest says ${manifest.counts[spec.name] ?? 'none'}`);
@@ -288,7 +296,7 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
         const rows = prepared[spec.name]!;
         counts[spec.name] = rows.length;
         // Hits carry their samples: insert a few at a time to keep each statement small.
-        const chunk = spec.name === 'hit' ? 8 : 200;
+        const chunk = spec.name === 'hit' ? 8 : spec.name === 'noise_check' ? 1 : 200;
         for (let i = 0; i < rows.length; i += chunk) await tx.insert(spec.table).values(rows.slice(i, i + chunk) as never);
       }
       await tx.insert(campaignMember).values({ campaignId: newCampaignId, userId: restorer.id, role: 'lead' });

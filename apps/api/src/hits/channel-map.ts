@@ -4,7 +4,8 @@
 import { desc, eq, inArray } from 'drizzle-orm';
 import { calibrationRecord, channel, kitItem } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
-import { HttpError } from '../errors.ts';
+import { badRequest, HttpError } from '../errors.ts';
+import { decodeRecording, RecordingError } from './recording.ts';
 
 export interface ChannelSnapshot {
   channel: number;
@@ -69,3 +70,41 @@ export function storageOrder(map: ChannelSnapshot[]): ChannelSnapshot[] {
   return [...map.filter((c) => c.role === 'force'), ...map.filter((c) => c.role === 'response')];
 }
 
+/** How an uploaded recording's values are to be read (the multipart fields of an upload). */
+export interface UploadReading {
+  units: 'volts' | 'engineering';
+  /** Hz, when the file carries no rate of its own. */
+  sampleRateHz?: number;
+  /** Front end's full scale in V, for integer PCM WAV. */
+  fullScaleVolts: number;
+}
+
+/**
+ * An uploaded file (hits or a background-noise recording) decoded and turned into engineering
+ * units channel by channel: volts × 1000 ÷ sensitivity (mV per unit) × the channel's sign. The
+ * file must have one column per channel of the map and the settings' sample rate; anything else is
+ * refused with a 400 that says what was wrong and that nothing was stored.
+ */
+export function uploadInEngineeringUnits(file: { originalname: string; mimetype: string; buffer: Buffer }, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number): Float64Array[] {
+  let decoded;
+  try {
+    decoded = decodeRecording(file.originalname, file.mimetype, file.buffer);
+  } catch (err) {
+    if (err instanceof RecordingError) throw new HttpError(400, 'bad-recording', `${err.message} Nothing was stored.`);
+    throw err;
+  }
+  if (decoded.channels.length !== map.length) {
+    throw badRequest(`The file has ${decoded.channels.length} channel${decoded.channels.length === 1 ? '' : 's'}; the channel map has ${map.length} (${map.map((c) => `ch${c.channel} ${c.role === 'force' ? 'hammer' : c.dof}`).join(', ')}). Nothing was stored.`);
+  }
+  const fs = decoded.sampleRateHz ?? reading.sampleRateHz ?? null;
+  if (fs === null) throw badRequest('Unknown sample rate: the file has no time column or header rate; send the field sampleRateHz. Nothing was stored.');
+  if (Math.abs(fs - settingsRateHz) > 1e-3 * settingsRateHz) throw badRequest(`The recording is sampled at ${+fs.toFixed(3)} Hz but the campaign's settings ask for ${settingsRateHz} Hz. Nothing was stored.`);
+  const scale = decoded.fractionOfFullScale ? reading.fullScaleVolts : 1;
+  return decoded.channels.map((ch, i) => {
+    const c = map[i]!;
+    const factor = (reading.units === 'volts' ? (scale * 1000) / c.sensitivityBase : 1) * c.sign;
+    const out = new Float64Array(ch.length);
+    for (let k = 0; k < ch.length; k++) out[k] = ch[k]! * factor;
+    return out;
+  });
+}

@@ -1,7 +1,7 @@
 // From raw samples to verdicts and averaged FRFs, with the campaign's current settings.
 // Raw hits are never changed; everything here is recomputable from them and the settings.
 import { createHash } from 'node:crypto';
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { aliasedTable, and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
   averageFrf,
   checkHit,
@@ -14,8 +14,9 @@ import {
   type HitCheck,
   type HitLimits,
 } from '@resonote/dsp';
-import { acquisitionSettingsSchema, defaultAcquisitionSettings, type AcquisitionSettings } from '@resonote/contracts';
-import { acquisitionSettings, frfResult, hit, scheduleEntry } from '@resonote/db/schema';
+import { acquisitionSettingsSchema, defaultAcquisitionSettings, uuidSchema, type AcquisitionSettings } from '@resonote/contracts';
+import { acquisitionSettings, frfResult, hit, point, scheduleEntry } from '@resonote/db/schema';
+import { notFound } from '../errors.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
 
@@ -444,4 +445,24 @@ export async function entriesWithAcceptedHits(db: Db, campaignId: string): Promi
     .where(eq(scheduleEntry.campaignId, campaignId))
     .orderBy(asc(scheduleEntry.position));
   return rows.map((r) => r.id);
+}
+
+export const responsePoint = aliasedTable(point, 'response_point');
+export const excitationPoint = aliasedTable(point, 'excitation_point');
+
+/** A schedule entry of the campaign with its DOF labels ("P07:+Z"); 404 for an unknown id or another campaign's. */
+export async function loadScheduleEntry(db: Db, campaignId: string, entryId: string) {
+  if (!uuidSchema.safeParse(entryId).success) throw notFound('That schedule entry');
+  const [row] = await db
+    .select({
+      entry: scheduleEntry,
+      responseLabel: responsePoint.label,
+      excitationLabel: excitationPoint.label,
+    })
+    .from(scheduleEntry)
+    .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
+    .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
+    .where(and(eq(scheduleEntry.id, entryId), eq(scheduleEntry.campaignId, campaignId)));
+  if (!row) throw notFound('That schedule entry');
+  return { ...row.entry, responseDof: `${row.responseLabel}:${row.entry.responseDirection}`, excitationDof: `${row.excitationLabel}:${row.entry.excitationDirection}` };
 }

@@ -2,9 +2,7 @@
 // rig), each gets a verdict with reasons, accepted hits are averaged into FRFs, the schedule
 // advances, and everyone on the campaign hears about it.
 import { randomUUID } from 'node:crypto';
-import multer from 'multer';
-import { aliasedTable, and, asc, eq, inArray, sql } from 'drizzle-orm';
-import type { RequestHandler } from 'express';
+import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
@@ -14,7 +12,7 @@ import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
-import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/channel-map.ts';
+import { channelMapFor, storageOrder, uploadInEngineeringUnits, type ChannelSnapshot } from '../hits/channel-map.ts';
 import { compareFrfs, entryLinearity } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
@@ -25,6 +23,9 @@ import {
   exponentialWindowOf,
   forceWindowOf,
   judge,
+  loadScheduleEntry,
+  responsePoint,
+  excitationPoint,
   mainChannel,
   packSamples,
   recordSamples,
@@ -35,11 +36,9 @@ import {
   unpackSamples,
   type CurrentSettings,
 } from '../hits/processing.ts';
-import { decodeRecording, RecordingError } from '../hits/recording.ts';
-import { rigModel, rigTips } from '../hits/simulated-rig.ts';
+import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
+import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
 
-const responsePoint = aliasedTable(point, 'response_point');
-const excitationPoint = aliasedTable(point, 'excitation_point');
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 
 function metricsOf(check: HitCheck) {
@@ -60,21 +59,7 @@ function metricsOf(check: HitCheck) {
 }
 
 export function registerHitRoutes({ routes, db, config }: Deps, events: CampaignEvents): void {
-  async function loadEntry(campaignId: string, entryId: string) {
-    if (!uuidSchema.safeParse(entryId).success) throw notFound('That schedule entry');
-    const [row] = await db
-      .select({
-        entry: scheduleEntry,
-        responseLabel: responsePoint.label,
-        excitationLabel: excitationPoint.label,
-      })
-      .from(scheduleEntry)
-      .innerJoin(responsePoint, eq(responsePoint.id, scheduleEntry.responsePointId))
-      .innerJoin(excitationPoint, eq(excitationPoint.id, scheduleEntry.excitationPointId))
-      .where(and(eq(scheduleEntry.id, entryId), eq(scheduleEntry.campaignId, campaignId)));
-    if (!row) throw notFound('That schedule entry');
-    return { ...row.entry, responseDof: `${row.responseLabel}:${row.entry.responseDirection}`, excitationDof: `${row.excitationLabel}:${row.entry.excitationDirection}` };
-  }
+  const loadEntry = (campaignId: string, entryId: string) => loadScheduleEntry(db, campaignId, entryId);
   type Entry = Awaited<ReturnType<typeof loadEntry>>;
 
   /** Recomputes the entry's result and status after its hits changed; tells the campaign. */
@@ -214,16 +199,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     };
   }
 
-  const upload: RequestHandler = (req, res, next) => {
-    multer({ storage: multer.memoryStorage(), limits: { fileSize: config.uploadLimitBytes, files: 1, fields: 10 } }).single('file')(req, res, (err: unknown) => {
-      if (err) {
-        const e = err as { code?: string };
-        if (e.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'too-large', `The recording is larger than ${Math.round(config.uploadLimitBytes / 1024 / 1024)} MB; nothing was stored.`));
-        return next(new HttpError(400, 'bad-upload', `The upload could not be read: ${(err as Error).message}`));
-      }
-      next();
-    });
-  };
+  const upload = recordingUpload(config.uploadLimitBytes);
 
   routes.add({
     method: 'post',
@@ -237,46 +213,14 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     returns: '{ replayed, hits: [{ id, sequence, verdict, reasons, metrics }], skipped, entry: { status, acceptedHits }, frf, next }',
     handler: async ({ req, res, params, campaign: access, user: me }) => {
       const entry = await loadEntry(access.campaignId, params.entryId!);
-      const fields = z
-        .strictObject({
-          units: z.enum(['volts', 'engineering']).default('volts'),
-          sampleRateHz: z.coerce.number().positive().optional(),
-          fullScaleVolts: z.coerce.number().positive().max(1000).default(1),
-          kind: kindSchema,
-          idempotencyKey: z.string().min(8).max(200).optional(),
-        })
-        .safeParse(req.body ?? {});
-      if (!fields.success) throw badRequest(fields.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; '));
-      const key = String(req.get('idempotency-key') ?? fields.data.idempotencyKey ?? '');
-      if (key.length < 8 || key.length > 200) throw badRequest('Send an Idempotency-Key header (8–200 characters, e.g. a UUID) so a retried upload is never stored twice.');
-      if (!req.file) throw badRequest('Attach the recording as the form field "file".');
-      let decoded;
-      try {
-        decoded = decodeRecording(req.file.originalname, req.file.mimetype, req.file.buffer);
-      } catch (err) {
-        if (err instanceof RecordingError) throw new HttpError(400, 'bad-recording', `${err.message} Nothing was stored.`);
-        throw err;
-      }
+      const { fields, key, file } = readUploadForm(req, z.strictObject({ ...uploadFields, kind: kindSchema }));
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
-      if (decoded.channels.length !== map.length) {
-        throw badRequest(`The file has ${decoded.channels.length} channel${decoded.channels.length === 1 ? '' : 's'}; the channel map has ${map.length} (${map.map((c) => `ch${c.channel} ${c.role === 'force' ? 'hammer' : c.dof}`).join(', ')}). Nothing was stored.`);
-      }
-      const fs = decoded.sampleRateHz ?? fields.data.sampleRateHz ?? null;
-      if (fs === null) throw badRequest('Unknown sample rate: the file has no time column or header rate; send the field sampleRateHz. Nothing was stored.');
-      if (Math.abs(fs - s.sampleRateHz) > 1e-3 * s.sampleRateHz) throw badRequest(`The recording is sampled at ${+fs.toFixed(3)} Hz but the campaign's settings ask for ${s.sampleRateHz} Hz. Nothing was stored.`);
-      const scale = decoded.fractionOfFullScale ? fields.data.fullScaleVolts : 1;
-      const eu = decoded.channels.map((ch, i) => {
-        const c = map[i]!;
-        const factor = (fields.data.units === 'volts' ? (scale * 1000) / c.sensitivityBase : 1) * c.sign;
-        const out = new Float64Array(ch.length);
-        for (let k = 0; k < ch.length; k++) out[k] = ch[k]! * factor;
-        return out;
-      });
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${req.file.originalname.slice(0, 100)}`, key, userId: me.id, map, settings, kind: fields.data.kind });
+      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz);
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
-      return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.data.kind, 'hit');
+      return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
     },
   });
 
@@ -320,9 +264,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
             preTriggerS: s.preTriggerS + 0.5 / s.sampleRateHz,
             peakForceN: body.peakForceN ?? Math.min(0.02 * s.forceRangeN, 100),
             pulseWidthS: rigTips[body.tip],
-            // Noise floors of a plausible IEPE chain (invented for the rig, not a datasheet value).
-            forceNoiseN: 0.02,
-            responseNoise: 0.005,
+            forceNoiseN: rigNoise.forceN,
+            responseNoise: rigNoise.responseMs2,
             forceRangeN: s.forceRangeN,
             responseRangeMs2: s.responseRangeMs2,
             adcBits: 24,

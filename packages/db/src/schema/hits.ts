@@ -71,3 +71,32 @@ export const frfResult = pgTable(
   },
   (t) => [uniqueIndex('frf_result_entry_uq').on(t.scheduleEntryId)],
 );
+
+/**
+ * A background-noise check: seconds recorded with nobody touching the structure, before or between
+ * hits. Kept like a hit (raw samples, channel map snapshot, who and when), never deleted; `results`
+ * holds the per-channel reading (RMS in the band, peak, tones, the words shown on Tap).
+ */
+export const noiseCheck = pgTable(
+  'noise_check',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    campaignId: uuid('campaign_id')
+      .notNull()
+      .references(() => campaign.id, { onDelete: 'restrict' }),
+    settingsVersion: integer('settings_version').notNull(),
+    sampleRateHz: doublePrecision('sample_rate_hz').notNull(),
+    samplesPerChannel: integer('samples_per_channel').notNull(),
+    /** Snapshot of the channel map and calibration used, as for a hit. */
+    channels: jsonb('channels').notNull(),
+    /** float32 little-endian, channel after channel (force first), engineering units. */
+    samples: bytea('samples').notNull(),
+    source: text('source').notNull(),
+    idempotencyKey: text('idempotency_key').notNull(),
+    /** Band (Hz) and per-channel reading: mean, RMS, RMS in band, peak, tones, status and message. */
+    results: jsonb('results').notNull(),
+    recordedBy: text('recorded_by').references(() => user.id, { onDelete: 'set null' }),
+    recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [uniqueIndex('noise_check_idempotency_uq').on(t.campaignId, t.idempotencyKey), index('noise_check_campaign_idx').on(t.campaignId, t.recordedAt)],
+);
