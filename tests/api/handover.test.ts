@@ -101,6 +101,12 @@ describe('hand-over report', () => {
     const modes = (await viewer.get(`/api/campaigns/${barId}/modes`)).body.modes as { fHz: number; zetaPercent: number }[];
     expect(modes).toHaveLength(4);
     for (const m of modes) expect(html).toContain(`>${m.fHz.toFixed(2)}<`);
+    // The demo's background-noise check before the first hit, each channel's floor with its reading.
+    const noise = (await viewer.get(`/api/campaigns/${barId}/noise-checks`)).body.checks as { channels: { rmsInBand: number; unit: string }[] }[];
+    expect(noise).toHaveLength(1);
+    expect(html).toContain('<h3>Background noise</h3>');
+    for (const ch of noise[0]!.channels) expect(html).toContain(`${ch.rmsInBand.toPrecision(3)} ${ch.unit}`);
+    expect(html).toMatch(/Quiet enough\./);
     // One geometry picture, 21 FRF thumbnails, 4 mode-shape pictures.
     expect(html.match(/<svg /g)!.length).toBe(1 + 21 + 4);
   });

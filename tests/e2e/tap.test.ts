@@ -126,12 +126,41 @@ describe('Tap in the browser', () => {
     }
   }, 300_000);
 
+  it('records background noise with the simulated rig and shows each channel in words, with its spectrum', async () => {
+    const { page, errors, close } = await signIn('engineer@demo.resonote.local', viewports.laptop);
+    try {
+      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
+      const panel = page.getByTestId('noise-panel');
+      // The demo's own check, taken before the first hit, found the plant's 50 Hz mains hum.
+      await panel.getByTestId('noise-latest').waitFor({ timeout: 30_000 });
+      const demoCheck = await panel.getByTestId('noise-latest').getAttribute('data-check');
+      expect(await panel.locator('[data-noise-status="caution"]').count()).toBeGreaterThan(0);
+      expect(await panel.textContent()).toMatch(/a tone at 50\.0 Hz stands \d+ dB above the floor \(mains hum\?\)/);
+
+      await panel.getByTestId('noise-listen').click();
+      await page.waitForFunction((before) => document.querySelector('[data-testid="noise-latest"]')?.getAttribute('data-check') !== before, demoCheck, { timeout: 30_000 });
+      // Without hum the rig's chain noise is quiet on every channel: the hammer far below the trigger.
+      await expect(panel.locator('[data-testid="noise-latest"] [data-noise-status="ok"]').first()).toBeDefinedAndVisible();
+      const text = (await panel.getByTestId('noise-latest').textContent())!;
+      expect(text).toMatch(/ch\d hammer: peak [\d.]+ N, [\d.]+ % of the \d+ N trigger level/);
+      expect(text).toMatch(/m\/s² rms in \d+–\d+ Hz \(\d+ dB below the \d+ m\/s² range\)/);
+      await panel.getByTestId('noise-spectrum-toggle').click();
+      await panel.locator('[data-testid="noise-spectrum"] .js-plotly-plot').waitFor({ timeout: 20_000 });
+      await page.waitForTimeout(500);
+      await panel.scrollIntoViewIfNeeded();
+      await screenshot(page, 'tap-noise-1366');
+      expect(errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
+    } finally {
+      await close();
+    }
+  }, 120_000);
+
   it('shows a viewer the hits and the FRF but no action controls', async () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
     await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
     await page.getByTestId('current-dof').waitFor();
     await expect(page.getByText('You are a viewer on this campaign')).toBeDefinedAndVisible();
-    for (const name of [/Strike/, /Accept/, /Reject/, /Upload/]) expect(await page.getByRole('button', { name }).count()).toBe(0);
+    for (const name of [/Strike/, /Accept/, /Reject/, /Upload/, /Listen/]) expect(await page.getByRole('button', { name }).count()).toBe(0);
     const before = await rows(page).count();
     await page.keyboard.press('Space');
     await page.waitForTimeout(800);

@@ -116,6 +116,9 @@ export async function seedDemo(handle: AppHandle, options: { log?: (m: string) =
         await db.delete(campaignMember).where(eq(campaignMember.userId, ids.admin!));
         const base = `/api/campaigns/${built.campaignId}`;
         const isBar = spec.simulator === 'steel-bar';
+        // A background-noise check before the first hit; on the baseplate the plant's mains hum shows.
+        const noise = await engineer.request('POST', `${base}/noise-checks/simulate`, isBar ? { durationS: 10, seed: 900, idempotencyKey: `demo-noise-${built.campaignId}` } : { durationS: 10, seed: 1900, humHz: 50, humMs2: 0.003, idempotencyKey: `demo-noise-${built.campaignId}` });
+        if (noise.status >= 300) throw new Error(`demo noise check: ${noise.status} ${JSON.stringify(noise.body)}`);
         // The bar is measured completely; the baseplate part way.
         const toMeasure = isBar ? built.entries : built.entries.slice(0, 12);
         let seed = isBar ? 1000 : 2000;

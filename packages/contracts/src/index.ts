@@ -6,3 +6,4 @@ export * from './geometry.ts';
 export * from './schedule.ts';
 export * from './kit.ts';
 export * from './settings.ts';
+export * from './noise.ts';

@@ -5,7 +5,7 @@
 import { aliasedTable, and, asc, desc, eq, sql } from 'drizzle-orm';
 import { averageFrf } from '@resonote/dsp';
 import { calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
-import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
@@ -119,6 +119,8 @@ export interface HandoverData {
     firstAt: Date | null;
     lastAt: Date | null;
   };
+  /** Background-noise checks, oldest first: per channel the RMS in the band, the peak and the reading in words. */
+  noise: { at: Date; by: string | null; source: string; durationS: number; channels: { channel: number; role: 'force' | 'response'; dof: string; unit: string; rmsInBand: number; peak: number; status: 'ok' | 'caution'; message: string }[] }[];
   frfs: HandoverFrf[];
   checks: HandoverChecks | null;
   modes: HandoverModes | null;
@@ -309,6 +311,17 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
     .where(eq(acquisitionSettings.campaignId, campaignId))
     .orderBy(asc(acquisitionSettings.version));
 
+  const noiseRows = await db
+    .select({ at: noiseCheck.recordedAt, by: user.name, source: noiseCheck.source, results: noiseCheck.results })
+    .from(noiseCheck)
+    .leftJoin(user, eq(user.id, noiseCheck.recordedBy))
+    .where(eq(noiseCheck.campaignId, campaignId))
+    .orderBy(asc(noiseCheck.recordedAt));
+  const noise = noiseRows.map((r) => {
+    const results = r.results as { durationS: number; channels: HandoverData['noise'][number]['channels'] };
+    return { at: r.at, by: r.by ?? null, source: r.source, durationS: results.durationS, channels: results.channels.map(({ channel, role, dof, unit, rmsInBand, peak, status, message }) => ({ channel, role, dof, unit, rmsInBand, peak, status, message })) };
+  });
+
   const frfs = await frfsOf(db, campaignId, schedule, current);
   const checks = options.checks === false ? null : await checksOf(db, campaignId, schedule, frfs, current);
   const modes = await modesOf(db, campaignId);
@@ -333,6 +346,7 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
       firstAt,
       lastAt,
     },
+    noise,
     frfs,
     checks,
     modes,

@@ -24,6 +24,20 @@ const CAL_STATE: Record<string, string> = { ok: '✓ valid', 'due-soon': '! due 
 const n = (v: number | null | undefined, digits = 3, unit = '') =>
   v === null || v === undefined || !Number.isFinite(v) ? '<span class="n">–</span>' : `<span class="n">${esc(formatNumber(v, digits))}${unit ? `&#8239;${esc(unit)}` : ''}</span>`;
 
+/** Background-noise checks: when, by whom, and each channel's floor in the band with the reading in words. */
+function noiseSection(d: HandoverData): string {
+  if (!d.noise.length) return '<h3>Background noise</h3><p class="muted">No background-noise check was recorded.</p>';
+  const rows = d.noise
+    .flatMap((c) =>
+      c.channels.map(
+        (ch, i) =>
+          `<tr>${i === 0 ? `<td rowspan="${c.channels.length}">${esc(c.at.toISOString().slice(0, 16).replace('T', ' '))} UTC<br><span class="small">${esc(c.by ?? '–')} · ${c.durationS.toFixed(1)} s · ${esc(c.source.startsWith('simulated') ? 'simulated rig' : 'upload')}</span></td>` : ''}<td class="n">ch${ch.channel} ${esc(ch.role === 'force' ? 'hammer' : ch.dof)}</td><td class="n r">${ch.rmsInBand.toPrecision(3)} ${esc(ch.unit)}</td><td class="n r">${ch.peak.toPrecision(3)} ${esc(ch.unit)}</td><td>${ch.status === 'ok' ? '✓' : '▲'} ${esc(ch.message)}</td></tr>`,
+      ),
+    )
+    .join('');
+  return `<h3>Background noise</h3><p class="small">Quiet recordings with nobody touching the structure, read as a Welch PSD (Hann, 50 % overlap, mean removed): RMS within the band of interest, peak, and tones standing 10 dB or more above the local floor (Resonote's rule of thumb).</p><table class="grid"><thead><tr><th>Recorded</th><th>Channel</th><th>RMS in band</th><th>Peak</th><th>Reading</th></tr></thead><tbody>${rows}</tbody></table>`;
+}
+
 export function formatNumber(v: number, digits = 3): string {
   if (v === 0) return '0';
   const a = Math.abs(v);
@@ -135,7 +149,8 @@ ${histRows ? `<h3>Version history</h3><table class="grid"><thead><tr><th>Version
   sec.push(`<section><h2>6. Hits</h2>
 <p>${mono(d.hits.total)} hits recorded: ${mono(d.hits.accepted)} accepted (✓), ${mono(d.hits.rejected)} rejected (✗), ${mono(d.hits.overridden)} with the automatic verdict overridden by hand. Rejected hits are kept with their reasons; nothing is deleted.</p>
 <div class="two keep"><div><h3>Rejected hits by reason</h3>${reasonRows ? `<table class="grid"><thead><tr><th>Reason</th><th>Hits</th></tr></thead><tbody>${reasonRows}</tbody></table><p class="small">A hit can have more than one reason.</p>` : '<p class="muted">None rejected.</p>'}</div>
-<div><h3>By engineer</h3>${engRows ? `<table class="grid"><thead><tr><th>Engineer</th><th>Hits</th><th>✓</th><th>✗</th><th>Rejected</th></tr></thead><tbody>${engRows}</tbody></table>` : '<p class="muted">No hits.</p>'}</div></div></section>`);
+<div><h3>By engineer</h3>${engRows ? `<table class="grid"><thead><tr><th>Engineer</th><th>Hits</th><th>✓</th><th>✗</th><th>Rejected</th></tr></thead><tbody>${engRows}</tbody></table>` : '<p class="muted">No hits.</p>'}</div></div>
+${noiseSection(d)}</section>`);
 
   // 7. FRFs
   const frfByEntry = new Map(d.frfs.map((x) => [x.entry.id, x]));

@@ -7,7 +7,7 @@ import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { backgroundNoise } from '@resonote/dsp';
 import { createRng } from '@resonote/sim';
-import { uuidSchema } from '@resonote/contracts';
+import { uuidSchema, type NoiseChannelReading } from '@resonote/contracts';
 import { noiseCheck, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
@@ -23,19 +23,7 @@ const MAX_S = 60;
 /** Force noise peaks above this fraction of the trigger level risk false triggers (Resonote's rule of thumb). */
 const TRIGGER_MARGIN = 0.5;
 
-interface ChannelReading {
-  channel: number;
-  role: 'force' | 'response';
-  dof: string;
-  unit: 'N' | 'm/s²';
-  mean: number;
-  rms: number;
-  rmsInBand: number;
-  peak: number;
-  tones: { testedHz: number; fHz: number; aboveFloorDb: number }[];
-  status: 'ok' | 'caution';
-  message: string;
-}
+type ChannelReading = NoiseChannelReading;
 
 const fmt = (v: number) => (v === 0 ? '0' : Math.abs(v) >= 0.01 && Math.abs(v) < 1e4 ? v.toPrecision(3) : v.toExponential(2));
 

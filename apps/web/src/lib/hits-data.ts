@@ -173,7 +173,7 @@ export async function fetchOverlay(path: string): Promise<OverlayAnswer & { rece
 }
 
 /** Everything a hit or a verdict can change, for one campaign. */
-const liveParts = new Set(['schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress']);
+const liveParts = new Set(['schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress', 'noise-checks']);
 export function invalidateTestData(client: QueryClient, campaignId: string) {
   return client.invalidateQueries({ predicate: (q) => q.queryKey[0] === 'campaign' && q.queryKey[1] === campaignId && liveParts.has(String(q.queryKey[2])) });
 }
@@ -237,7 +237,7 @@ export function newIdempotencyKey(): string {
  * Uploads a recording with XMLHttpRequest, which (unlike fetch) reports upload progress.
  * Errors come back as ApiError with the API's own message.
  */
-export function uploadRecording(path: string, form: FormData, key: string, onProgress: (fraction: number) => void): Promise<HitsAnswer> {
+export function uploadRecording<T = HitsAnswer>(path: string, form: FormData, key: string, onProgress: (fraction: number) => void): Promise<T> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     xhr.open('POST', `/api${path}`);
@@ -254,7 +254,7 @@ export function uploadRecording(path: string, form: FormData, key: string, onPro
       } catch {
         data = undefined;
       }
-      if (xhr.status >= 200 && xhr.status < 300) return resolve(data as HitsAnswer);
+      if (xhr.status >= 200 && xhr.status < 300) return resolve(data as T);
       const err = (data as { error?: { code?: string; message?: string } } | undefined)?.error;
       reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`));
     };

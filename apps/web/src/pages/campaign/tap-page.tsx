@@ -1,7 +1,7 @@
 // Tap: the engineer at the structure. The current DOF in large type and on the geometry, hits from
 // the simulated rig or an uploaded recording, each hit's verdict with its reasons and large
-// Accept / Reject buttons, the time traces and force spectrum of the chosen hit, and the averaged
-// FRF and coherence building up. Single keys for a foot pedal: A, R, Space/S, N.
+// Accept / Reject buttons, the time traces and force spectrum of the chosen hit, the averaged
+// FRF and coherence building up, and the background-noise check before (or between) hits. Single keys for a foot pedal: A, R, Space/S, N.
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useParams, useSearchParams } from 'react-router';
 import type { ScheduleStatus } from '@resonote/contracts';
@@ -15,6 +15,7 @@ import { DofHeader } from '../../components/tap/dof-header.tsx';
 import { FrfPlot } from '../../components/tap/frf-panel.tsx';
 import { HitList } from '../../components/tap/hit-list.tsx';
 import { HitPlots } from '../../components/tap/hit-plots.tsx';
+import { NoisePanel } from '../../components/tap/noise-panel.tsx';
 import { SafetyNote } from '../../components/tap/safety-note.tsx';
 import { Kbd, StrikePanel } from '../../components/tap/strike-panel.tsx';
 import { useRecordHits, type Tip } from '../../components/tap/use-record.ts';
@@ -205,6 +206,9 @@ export function TapPage() {
           </Panel>
           <Panel title={<>Hits at this DOF <span className="num font-normal text-[var(--muted)]">({hitList.length} recorded, {accepted} accepted)</span></>}>
             <HitList hits={hitList} selectedId={selected?.id ?? null} onSelect={setSelectedId} />
+          </Panel>
+          <Panel title="Background noise">
+            <NoisePanel campaignId={campaignId} canAct={canAct} />
           </Panel>
           <Panel title="Where on the structure">
             {geometry.isPending && <Spinner label="Loading the geometry…" />}
