@@ -5,7 +5,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { SKID_CAMPAIGN } from '@resonote/api/seed';
 import { startDemo, type DemoRun } from '../support/demo.ts';
-import { screenshot, viewports } from '../support/browser.ts';
+import path from 'node:path';
+import { screenshot, screenshotDir, viewports } from '../support/browser.ts';
 
 let demo: DemoRun;
 let skidId: string;
@@ -136,6 +137,11 @@ describe('Tap in the browser', () => {
       const demoCheck = await panel.getByTestId('noise-latest').getAttribute('data-check');
       expect(await panel.locator('[data-noise-status="caution"]').count()).toBeGreaterThan(0);
       expect(await panel.textContent()).toMatch(/a tone at 50\.0 Hz stands \d+ dB above the floor \(mains hum\?\)/);
+      await panel.getByTestId('noise-spectrum-toggle').click();
+      await panel.locator('[data-testid="noise-spectrum"] .js-plotly-plot').waitFor({ timeout: 20_000 });
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await page.waitForTimeout(500);
+      await panel.screenshot({ path: path.join(screenshotDir, 'tap-noise-hum-panel.png') });
 
       await panel.getByTestId('noise-listen').click();
       await page.waitForFunction((before) => document.querySelector('[data-testid="noise-latest"]')?.getAttribute('data-check') !== before, demoCheck, { timeout: 30_000 });
@@ -144,11 +150,12 @@ describe('Tap in the browser', () => {
       const text = (await panel.getByTestId('noise-latest').textContent())!;
       expect(text).toMatch(/ch\d hammer: peak [\d.]+ N, [\d.]+ % of the \d+ N trigger level/);
       expect(text).toMatch(/m\/s² rms in \d+–\d+ Hz \(\d+ dB below the \d+ m\/s² range\)/);
-      await panel.getByTestId('noise-spectrum-toggle').click();
-      await panel.locator('[data-testid="noise-spectrum"] .js-plotly-plot').waitFor({ timeout: 20_000 });
-      await page.waitForTimeout(500);
-      await panel.scrollIntoViewIfNeeded();
+      // The spectrum stays open and follows the new check.
+      await page.locator(`[data-testid="noise-spectrum"] .js-plotly-plot`).waitFor({ timeout: 20_000 });
+      await page.waitForTimeout(800);
       await screenshot(page, 'tap-noise-1366');
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await panel.screenshot({ path: path.join(screenshotDir, 'tap-noise-panel.png') });
       expect(errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
     } finally {
       await close();

@@ -37,12 +37,17 @@ function NoiseSpectrum({ check }: { check: NoiseCheck }) {
       const colour = force ? c.force : responseColour(response++, c.dark);
       return { type: 'scatter', mode: 'lines', x: s.f, y: s.levelDb, name, yaxis: force ? 'y' : 'y2', line: { color: colour, width: 1 }, hovertemplate: `${name}: %{y:.1f} ${s.unit}<extra></extra>` };
     });
+    // A 40 dB span above each row's highest line: a flat floor reads flat and a tone stands out.
+    const span = (row: 'y' | 'y2') => {
+      const top = Math.max(...data.filter((t) => t.yaxis === row).flatMap((t) => t.y.filter(Number.isFinite)));
+      return Number.isFinite(top) ? { range: [Math.floor(top - 40), Math.ceil(top + 3)] } : {};
+    };
     const band = { type: 'rect', xref: 'x', yref: 'paper', x0: check.bandHz.low, x1: check.bandHz.high, y0: 0, y1: 1, fillcolor: c.band, line: { width: 0 }, layer: 'below' };
     const layout = baseLayout(c, {
       shapes: [band],
       xaxis: axis(c, 'Frequency (Hz)', { anchor: 'y2', hoverformat: '.1f' }),
-      yaxis: axis(c, 'dB re 1 N²/Hz', { domain: [0.56, 1] }),
-      yaxis2: axis(c, 'dB re 1 (m/s²)²/Hz', { domain: [0, 0.44] }),
+      yaxis: axis(c, 'dB re 1 N²/Hz', { domain: [0.56, 1], ...span('y') }),
+      yaxis2: axis(c, 'dB re 1 (m/s²)²/Hz', { domain: [0, 0.44], ...span('y2') }),
     });
     return { data, layout };
   }, [check, theme]);
