@@ -76,6 +76,14 @@ describe('the Modes screen', () => {
     await expect(page.getByTestId('chosen-poles')).toBeDefinedAndVisible();
     expect(await page.getByTestId('chosen-poles').locator('tbody tr').count()).toBe(4);
 
+    // The suggestion from the whole diagram finds the same four modes (poles persisting across orders).
+    await page.getByRole('button', { name: 'Clear' }).click();
+    await page.getByTestId('suggest-modes').click();
+    await page.getByTestId('chosen-poles').locator('tbody tr').nth(3).waitFor();
+    const suggested = (await page.getByTestId('chosen-poles').locator('tbody tr').evaluateAll((trs) => trs.map((tr) => Number(tr.getAttribute('data-pole-fhz'))))).sort((a, b) => a - b);
+    expect(suggested).toHaveLength(4);
+    suggested.forEach((f, i) => expect(Math.abs(f / HANDBOOK_HZ[i]! - 1), `suggested mode near ${HANDBOOK_HZ[i]} Hz`).toBeLessThan(0.01));
+
     // Record the toasts: the first software-rendered 3D scene can hold the page longer than a toast stays.
     await page.evaluate(() => {
       const seen: string[] = ((window as unknown as { toasts: string[] }).toasts = []);
@@ -136,6 +144,7 @@ describe('the Modes screen', () => {
     expect(await page.getByRole('button', { name: 'Run fit' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Compute shapes' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: /Choose the stable poles/ }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: /Suggest modes/ }).count()).toBe(0);
     expect(await page.getByRole('button', { name: /Remove the pole/ }).count()).toBe(0);
     expect(await page.getByText('Fit settings').count()).toBe(0);
     await page.evaluate(() => window.scrollTo(0, 0));

@@ -1,6 +1,7 @@
 // The free–free steel bar of field-reference §7.1, measured at 21 points with the hammer at one end.
 import { describe, expect, it } from 'vitest';
 import { mac } from '../assurance.ts';
+import { clusterStablePoles } from './clusters.ts';
 import { pickStablePoles, stabilizationDiagram } from './lscf.ts';
 import { estimateShapes } from './lsfd.ts';
 import { axis, freeFreeRoot, freeFreeShape, gaussian, loadModalFixture } from './test-support.ts';
@@ -86,6 +87,24 @@ describe('free–free bar of field-reference §7.1', () => {
       expect(mac(model.modes[r].shape, exact)).toBeGreaterThanOrEqual(0.98);
       // a proportionally damped structure has real modes (field-reference §6.7): MPC close to 1
       expect(model.modes[r].mpc).toBeGreaterThan(0.99);
+    });
+  });
+
+  it('suggests the same four modes by clustering the stable poles across orders (representatives within 0.5 % of §7.1)', () => {
+    const { set } = barFrfs();
+    const orders = Array.from({ length: 20 }, (_, i) => 2 * i + 2);
+    const d = stabilizationDiagram(set, { bandHz: [20, 560], orders });
+    const clusters = clusterStablePoles(d);
+    expect(clusters).toHaveLength(4);
+    const reps = clusters.map((c) => d.orders.find((o) => o.order === c.representative.order)!.poles[c.representative.index]!);
+    const corrected = correctWindowDamping(reps, TAU);
+    // field-reference §7.1 weak direction (Euler–Bernoulli): 53.17, 146.55, 287.30, 474.93 Hz
+    [53.17, 146.55, 287.3, 474.93].forEach((fn, r) => {
+      expect(Math.abs(corrected[r]!.fHz / fn - 1)).toBeLessThan(0.005);
+      expect(Math.abs(corrected[r]!.zeta / ZETA - 1)).toBeLessThan(0.1);
+      // each mode persists over most of the diagram, its frequency steady within 1 %
+      expect(clusters[r]!.share).toBeGreaterThanOrEqual(0.4);
+      expect(clusters[r]!.fSpreadPercent).toBeLessThan(1);
     });
   });
 });

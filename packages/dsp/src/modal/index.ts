@@ -14,6 +14,7 @@ export {
   type DiagramPole,
   type PoleForStability,
 } from './lscf.ts';
+export { clusterStablePoles, type ClusterablePole, type PoleCluster, type PoleClusterOptions } from './clusters.ts';
 export { estimateShapes, synthesize, type ShapeOptions, type ModalModel, type ModelMode } from './lsfd.ts';
 export { correctWindowDamping } from './window-correction.ts';
 export { macMatrix, mpc, realShape } from './shape-tools.ts';

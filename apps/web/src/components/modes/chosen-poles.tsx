@@ -4,7 +4,7 @@ import { useMemo, useState } from 'react';
 import { fmtHz, fmtPct, stabilityLook, type DiagramOrder, type PoleRef } from '../../lib/modes-data.ts';
 import { Button } from '../ui.tsx';
 
-export function ChosenPoles({ orders, chosen, canEdit, busy, onRemove, onAddStable, onClear, onCompute }: { orders: DiagramOrder[]; chosen: PoleRef[]; canEdit: boolean; busy: boolean; onRemove: (p: PoleRef) => void; onAddStable: (order: number) => void; onClear: () => void; onCompute: () => void }) {
+export function ChosenPoles({ orders, chosen, canEdit, busy, onRemove, onAddStable, onSuggest, onClear, onCompute }: { orders: DiagramOrder[]; chosen: PoleRef[]; canEdit: boolean; busy: boolean; onRemove: (p: PoleRef) => void; onAddStable: (order: number) => void; onSuggest: () => void; onClear: () => void; onCompute: () => void }) {
   const rows = useMemo(
     () =>
       chosen
@@ -55,6 +55,14 @@ export function ChosenPoles({ orders, chosen, canEdit, busy, onRemove, onAddStab
       )}
       {canEdit && (
         <>
+          {withStable.length > 0 && (
+            <div className="space-y-1">
+              <Button type="button" variant="secondary" className="w-full" onClick={onSuggest} data-testid="suggest-modes">
+                Suggest modes from the whole diagram
+              </Button>
+              <p className="text-xs text-[var(--muted)]">Fully stable poles that come back at 40 % or more of the orders, within 1 % in frequency, count as one mode; the pole at the highest order is chosen. Check the suggestion on the diagram.</p>
+            </div>
+          )}
           {withStable.length > 0 && helperOrder !== null && (
             <div className="flex flex-wrap items-end gap-2">
               <label className="flex flex-col gap-1 text-xs text-[var(--muted)]" htmlFor="stable-order">

@@ -4,6 +4,7 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { useParams } from 'react-router';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { clusterStablePoles } from '@resonote/dsp';
 import { api } from '../../lib/api.ts';
 import { useSchedule, useSettings } from '../../lib/campaign-data.ts';
 import { useFailure } from '../../lib/mutation.ts';
@@ -87,6 +88,19 @@ export function ModesPage() {
     toast('info', `${add.length} stable pole${add.length === 1 ? '' : 's'} at order ${order} chosen.`);
   };
 
+  const suggest = () => {
+    const diagram = fit?.result?.diagram;
+    if (!diagram) return;
+    const clusters = clusterStablePoles(diagram);
+    setChosen(clusters.map((c) => c.representative));
+    toast(
+      'info',
+      clusters.length
+        ? `${clusters.length} mode${clusters.length === 1 ? '' : 's'} suggested: ${clusters.map((c) => `${fmtHz(c.fHz)} Hz`).join(', ')}. Check them on the diagram, then compute shapes.`
+        : 'No pole is stable at enough orders to suggest a mode: fit higher orders or a narrower band, or choose poles by hand.',
+    );
+  };
+
   const entries = schedule.data?.entries ?? [];
   const band = settings.data?.current.settings.bandHz;
   const running = fit && (fit.status === 'queued' || fit.status === 'running');
@@ -110,7 +124,7 @@ export function ModesPage() {
           )}
           {fit?.status === 'done' && fit.result && (
             <Panel title="Chosen poles">
-              <ChosenPoles orders={fit.result.diagram.orders} chosen={chosen} canEdit={canLead} busy={compute.isPending} onRemove={toggle} onAddStable={addStable} onClear={() => setChosen([])} onCompute={() => compute.mutate(chosen)} />
+              <ChosenPoles orders={fit.result.diagram.orders} chosen={chosen} canEdit={canLead} busy={compute.isPending} onRemove={toggle} onAddStable={addStable} onSuggest={suggest} onClear={() => setChosen([])} onCompute={() => compute.mutate(chosen)} />
             </Panel>
           )}
         </div>
