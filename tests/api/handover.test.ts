@@ -190,6 +190,10 @@ describe('hand-over bundle', () => {
     expect(shapes.filter((s) => s.mode === 1).map((s) => [s.dof, s.real])).toEqual(api.modes[0].shape.map((s: { dof: string; real: number }) => [s.dof, s.real]));
     const schedule = csv<{ entry_id: string; response_dof: string }>(files['schedule.csv']);
     expect(schedule.map((s) => s.entry_id)).toEqual((await viewer.get(`/api/campaigns/${barId}/schedule`)).body.entries.map((e: { id: string }) => e.id));
+    // Background noise: one row per check and channel, the same numbers as the API.
+    const noiseRows = csv<{ channel: number; rms_in_band: number; peak: number; status: string }>(files['noise.csv']);
+    const apiNoise = (await viewer.get(`/api/campaigns/${barId}/noise-checks`)).body.checks[0].channels as { channel: number; rmsInBand: number; peak: number; status: string }[];
+    expect(noiseRows.map((r) => [r.channel, r.rms_in_band, r.peak, r.status])).toEqual(apiNoise.map((c) => [c.channel, c.rmsInBand, c.peak, c.status]));
     const settings = JSON.parse(Buffer.from(files['settings.json']!).toString('utf8'));
     const apiSettings = (await viewer.get(`/api/campaigns/${barId}/settings`)).body;
     expect(settings.currentVersion).toBe(apiSettings.current.version);

@@ -128,6 +128,9 @@ settings.json     { currentVersion, current, history: [{ version, settings, reas
                   field names carry their units (sampleRateHz, recordLengthS, triggerLevelN, ...)
 kit.json          hammers and accelerometers with sensitivities (as entered and in base units),
                   latest calibration and its state at test time; the channel map
+noise.csv         background-noise checks, one row per check and channel: recorded_at,recorded_by,
+                  source,duration_s,channel,role,dof,unit,rms_in_band,peak,status,reading
+                  (rms_in_band and peak in the channel's unit, N or m/s^2; Welch PSD, Hann, mean removed)
 ${
   raw
     ? `hits/index.csv    one row per hit (accepted and rejected): file,hit_id,entry_id,sequence,verdict,reasons,
@@ -233,6 +236,7 @@ export function bundleContent(d: HandoverData) {
       : null,
     settings: { currentVersion: d.settings.version, current: d.settings.settings, history: d.settings.history },
     kit: { items: d.kit, channels: d.channels },
+    noise: d.noise.map((n) => ({ recordedAt: n.at.toISOString(), recordedBy: n.by, source: n.source, durationS: n.durationS, channels: n.channels })),
   };
 }
 
@@ -279,6 +283,13 @@ export function bundleZip(d: HandoverData, raw: RawHit[] | null): Uint8Array {
   put('mac.csv', toCsv(['mode', ...(modes?.table ?? []).map((m) => String(m.mode))], (modes?.mac ?? []).map((row, i) => [i + 1, ...row])));
   put('settings.json', JSON.stringify(b.settings, null, 2));
   put('kit.json', JSON.stringify(b.kit, null, 2));
+  put(
+    'noise.csv',
+    toCsv(
+      ['recorded_at', 'recorded_by', 'source', 'duration_s', 'channel', 'role', 'dof', 'unit', 'rms_in_band', 'peak', 'status', 'reading'],
+      b.noise.flatMap((n) => n.channels.map((ch) => [n.recordedAt, n.recordedBy ?? '', n.source, n.durationS, ch.channel, ch.role, ch.dof, ch.unit, ch.rmsInBand, ch.peak, ch.status, ch.message])),
+    ),
+  );
   if (raw) {
     put(
       'hits/index.csv',
