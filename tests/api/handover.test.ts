@@ -9,6 +9,8 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN, SKID_CAMPAIGN } from '@resonote/api/seed';
+import { eq } from 'drizzle-orm';
+import { hit } from '@resonote/db/schema';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { signUp } from '../support/accounts.ts';
 import { waitForMail } from '../support/campaign.ts';
@@ -51,7 +53,8 @@ async function signIn(email: string) {
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
 
 beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
+  // A small JSON raw limit: the skid's raw data (≈ 1.2 million values) fits, the bar's (≈ 2.8 million) does not.
+  app = await startTestApp(API_TEMPLATE, { EXPORT_JSON_RAW_MAX_VALUES: '2000000' });
   await seedDemo(app.handle, { log: () => undefined });
   lead = await signIn('lead@demo.resonote.local');
   viewer = await signIn('viewer@demo.resonote.local');
@@ -222,6 +225,34 @@ describe('hand-over bundle', () => {
     // The text is the shortest decimal of each float32: rounding it to float32 gives the stored value
     // (JSON has no −0, so both sides are compared with −0 folded into 0).
     expect(rows.map((r) => Math.fround(r[columns[1]!]!) + 0)).toEqual(api.channels[0].values.map((v: number) => v + 0));
+  }, 120_000);
+
+  it('streams every raw hit into the zip, each file matching its SHA-256 in the index', async () => {
+    const res = await binary(lead.get(`/api/campaigns/${barId}/export/bundle.zip?raw=1`));
+    const raw = unzipSync(new Uint8Array(res.body as Buffer));
+    const index = csv<{ file: string; sha256: string }>(raw['hits/index.csv']);
+    const db = app.handle.database.db;
+    const stored = await db.select({ id: hit.id }).from(hit).where(eq(hit.campaignId, barId));
+    expect(index).toHaveLength(stored.length);
+    expect(index.every((h) => raw[h.file] !== undefined)).toBe(true);
+    const last = index.at(-1)!;
+    const rows = csv<Record<string, number>>(raw[last.file]);
+    const columns = Object.keys(rows[0]!);
+    const f32 = new Float32Array(rows.length * (columns.length - 1));
+    columns.slice(1).forEach((col, c) => rows.forEach((r, i) => (f32[c * rows.length + i] = r[col]!)));
+    expect(createHash('sha256').update(Buffer.from(f32.buffer)).digest('hex')).toBe(last.sha256);
+  }, 120_000);
+
+  it('carries raw data in the JSON bundle up to EXPORT_JSON_RAW_MAX_VALUES and points to the zip above it', async () => {
+    const skid = await lead.get(`/api/campaigns/${skidId}/export/bundle.json?raw=1`);
+    expect(skid.status).toBe(200);
+    const hits = skid.body.hits as { hitId: string; values: number[][]; sha256: string }[];
+    expect(hits.length).toBeGreaterThan(0);
+    const one = (await viewer.get(`/api/campaigns/${skidId}/hits/${hits[0]!.hitId}?maxPoints=100000`)).body;
+    expect(hits[0]!.values[0]!.map((v) => v + 0)).toEqual(one.channels[0].values.map((v: number) => v + 0));
+    const big = await lead.get(`/api/campaigns/${barId}/export/bundle.json?raw=1`);
+    expect(big.status).toBe(413);
+    expect(big.body.error.message).toMatch(/million values, more than one JSON document carries \(2 million\)\. Download bundle\.zip\?raw=1 instead/);
   }, 120_000);
 
   it('gives the same content as one JSON document, and refuses both bundles to a viewer and an engineer', async () => {

@@ -3,36 +3,13 @@
 // over 40 schedule entries × 5 hits, each answer carrying the updated averaged FRF. Prints p50/p95.
 // Run after `npm test` has created the test cluster (or with RESONOTE_TEST_DATABASE_URL set):
 //   node --import tsx tests/bench/upload.ts
-import { createRng, hitSeries, steelBar } from '@resonote/sim';
+import { createRng, hitSeries } from '@resonote/sim';
 import { encodeWav } from '@resonote/api/recording';
-import { buildCampaign } from '@resonote/api/factory';
-import { signedInClient } from '@resonote/api/demo-client';
-import { startTestApp } from '../support/app.ts';
-import { createTemplate } from '../support/db.ts';
+import { benchCampaign, BENCH_REFS } from './bench-campaign.ts';
 
-const TEMPLATE = 'resonote_tpl_bench';
-await createTemplate(TEMPLATE);
-const app = await startTestApp(TEMPLATE, {}, { listen: true });
+const { app, client, bar, built } = await benchCampaign('resonote_tpl_bench', 'Upload benchmark');
+const refs = BENCH_REFS;
 try {
-  const signUp = await fetch(`${app.baseUrl}/api/auth/sign-up/email`, { method: 'POST', headers: { 'content-type': 'application/json', origin: app.origin }, body: JSON.stringify({ name: 'Bench Lead', email: 'bench@lab.test', password: 'bench-password-1' }) });
-  if (!signUp.ok) throw new Error(`sign-up: ${signUp.status}`);
-  const client = await signedInClient(app.baseUrl, app.origin, 'bench@lab.test', 'bench-password-1');
-  const bar = steelBar();
-  const refs = ['B21:+Z', 'B11:+Z', 'B01:+Z'];
-  const built = await buildCampaign(client, {
-    name: 'Upload benchmark',
-    structure: 'bar',
-    client: 'bench',
-    testType: 'roving-hammer',
-    referenceDofs: refs,
-    simulator: 'steel-bar',
-    points: bar.points,
-    directions: ['+Z'],
-    lines: bar.lines,
-    hammer: { model: 'H', serial: '1', sensitivity: 2.25, sensitivityUnit: 'mV/N', tips: [] },
-    accelerometers: refs.map((dof, i) => ({ model: 'A', serial: `A${i}`, sensitivity: 10.2, sensitivityUnit: 'mV/(m/s²)' as const, dof })),
-    settings: { sampleRateHz: 12800, recordLengthS: 1.28, preTriggerS: 0.005, triggerLevelN: 5, forceWindow: { lengthS: 0.01, taperS: 0.001 }, exponentialWindow: { mode: 'end-level', endLevelPercent: 1 }, hitsToAverage: 5, bandHz: { low: 10, high: 2000 }, estimator: 'H1', doubleHitRatio: 0.04, overloadPercent: 99, rollOffDb: 20, coherenceThreshold: 0.9, minPeakN: 10, forceRangeN: 2000, responseRangeMs2: 500 },
-  });
   const entries = built.entries.filter((e) => e.responseDof === 'B21:+Z').slice(0, 20).concat(built.entries.filter((e) => e.responseDof === 'B11:+Z').slice(0, 20));
   const fs = 12800;
   const n = 16384;

@@ -21,6 +21,7 @@ const envSchema = z.object({
   MAIL_FROM: z.string().default('Resonote <no-reply@resonote.local>'),
   JSON_BODY_LIMIT: z.string().default('1mb'),
   UPLOAD_LIMIT_MB: z.coerce.number().positive().default(64),
+  EXPORT_JSON_RAW_MAX_VALUES: z.coerce.number().int().positive().default(8_000_000),
   LOG_REQUESTS: bool.default(true),
   WEB_DIST: z.string().optional(),
 });
@@ -39,6 +40,8 @@ export interface Config {
   mailFrom: string;
   jsonBodyLimit: string;
   uploadLimitBytes: number;
+  /** Most raw sample values the JSON hand-over bundle carries (the zip streams any size). */
+  exportJsonRawMaxValues: number;
   logRequests: boolean;
   webDist?: string;
 }
@@ -71,6 +74,7 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     mailFrom: e.MAIL_FROM,
     jsonBodyLimit: e.JSON_BODY_LIMIT,
     uploadLimitBytes: Math.round(e.UPLOAD_LIMIT_MB * 1024 * 1024),
+    exportJsonRawMaxValues: e.EXPORT_JSON_RAW_MAX_VALUES,
     logRequests: e.LOG_REQUESTS,
     webDist: e.WEB_DIST,
   };

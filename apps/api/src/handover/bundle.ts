@@ -1,9 +1,10 @@
 // The hand-over bundle: geometry, schedule, every averaged FRF with coherence, modes, settings
 // and kit, with a README that says what every column is and where each number comes from.
 // The same content goes out as a zip of CSV/JSON files or as one JSON document.
-import { createHash } from 'node:crypto';
-import { asc, eq } from 'drizzle-orm';
-import { strToU8, zipSync, type Zippable } from 'fflate';
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+import { asc, eq, getTableColumns, sql } from 'drizzle-orm';
+import { strToU8, Zip, ZipDeflate } from 'fflate';
 import { hit, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
@@ -158,15 +159,21 @@ Where every number comes from
 `;
 }
 
-export async function rawHits(db: Db, d: HandoverData, withValues: boolean): Promise<RawHit[]> {
+/** The raw-hit index, without sample values: the SHA-256 of each hit's stored bytes comes from PostgreSQL, so no samples are loaded here. */
+export async function rawHitIndex(db: Db, d: HandoverData): Promise<RawHit[]> {
   const names = new Map((await db.select({ id: user.id, name: user.name }).from(user)).map((u) => [u.id, u.name]));
   const byEntry = new Map(d.schedule.map((e) => [e.id, e]));
-  const rows = await db.select().from(hit).where(eq(hit.campaignId, d.campaign.id)).orderBy(asc(hit.scheduleEntryId), asc(hit.sequence));
+  const { samples: _samples, ...columns } = getTableColumns(hit);
+  const rows = await db
+    .select({ ...columns, sha256: sql<string>`encode(sha256(${hit.samples}), 'hex')` })
+    .from(hit)
+    .where(eq(hit.campaignId, d.campaign.id))
+    .orderBy(asc(hit.scheduleEntryId), asc(hit.sequence));
   return rows.map((h) => {
     const e = byEntry.get(h.scheduleEntryId);
     const folder = e ? `${fileSafe(e.responseDof)}_${fileSafe(e.excitationDof)}` : h.scheduleEntryId;
     const channels = (h.channels as ChannelSnapshot[]).map((c) => ({ channel: c.channel, role: c.role, dof: c.dof, unit: c.unit, sign: c.sign, model: c.model, serial: c.serial, sensitivityBase: c.sensitivityBase, calibration: c.calibration }));
-    const out: RawHit = {
+    return {
       file: `hits/${folder}/${h.sequence}.csv`,
       hitId: h.id,
       entryId: h.scheduleEntryId,
@@ -178,12 +185,24 @@ export async function rawHits(db: Db, d: HandoverData, withValues: boolean): Pro
       samples: h.samplesPerChannel,
       recordedAt: h.recordedAt.toISOString(),
       recordedBy: h.recordedBy ? (names.get(h.recordedBy) ?? null) : null,
-      sha256: createHash('sha256').update(h.samples).digest('hex'),
+      sha256: h.sha256,
       channels,
-    };
-    if (withValues) out.values = unpackSamples(h.samples, channels.length, h.samplesPerChannel).map((ch) => Array.from(ch));
-    return out;
+    } satisfies RawHit;
   });
+}
+
+/** One hit's stored samples, per channel (float32, engineering units), read on its own. */
+async function hitValues(db: Db, h: RawHit): Promise<Float32Array[]> {
+  const [row] = await db.select({ samples: hit.samples }).from(hit).where(eq(hit.id, h.hitId));
+  if (!row) throw new Error(`hit ${h.hitId} disappeared during the export`);
+  return unpackSamples(row.samples, h.channels.length, h.samples);
+}
+
+/** The raw-hit index with every hit's values (the JSON bundle's form). */
+export async function rawHits(db: Db, d: HandoverData): Promise<RawHit[]> {
+  const index = await rawHitIndex(db, d);
+  for (const h of index) h.values = (await hitValues(db, h)).map((ch) => Array.from(ch));
+  return index;
 }
 
 /** The bundle as plain data: what both the zip and the JSON document are made of. */
@@ -246,10 +265,11 @@ export function bundleJson(d: HandoverData, raw: RawHit[] | null) {
   return { format: BUNDLE_FORMAT, version: BUNDLE_VERSION, exportedAt: d.generatedAt.toISOString(), readme: readme(d, raw !== null), ...bundleContent(d), hits: raw };
 }
 
-export function bundleZip(d: HandoverData, raw: RawHit[] | null): Uint8Array {
+/** Every file of the zip except the raw hits' own CSVs, in order: [name, bytes]. */
+function bundleFiles(d: HandoverData, raw: RawHit[] | null): [string, Uint8Array][] {
   const b = bundleContent(d);
-  const files: Zippable = {};
-  const put = (name: string, text: string) => (files[name] = strToU8(text));
+  const files: [string, Uint8Array][] = [];
+  const put = (name: string, text: string) => files.push([name, strToU8(text)]);
   put('README.txt', readme(d, raw !== null));
   put('campaign.json', JSON.stringify(b.campaign, null, 2));
   put('geometry.csv', toCsv(['label', 'x_mm', 'y_mm', 'z_mm', 'directions'], b.geometry.points.map((p) => [p.label, p.x, p.y, p.z, p.directions.join(' ')])));
@@ -298,14 +318,45 @@ export function bundleZip(d: HandoverData, raw: RawHit[] | null): Uint8Array {
         raw.map((h) => [h.file, h.hitId, h.entryId, h.sequence, h.verdict, h.reasons.map((r) => r.code).join(' '), h.settingsVersion, h.sampleRateHz, h.samples, h.recordedAt, h.recordedBy, h.sha256, JSON.stringify(h.channels)]),
       ),
     );
-    for (const h of raw) {
-      const header = ['time_s', ...h.channels.map((c) => `ch${c.channel}_${c.role === 'force' ? 'force_N' : 'response_ms2'}_${fileSafe(c.dof)}`)];
-      const values = h.values!;
-      const lines: string[] = [header.join(',')];
-      for (let i = 0; i < h.samples; i++) lines.push([i / h.sampleRateHz, ...values.map((ch) => f32Text(ch[i]!))].join(','));
-      // Raw noise compresses poorly; store it fast.
-      files[h.file] = [strToU8(lines.join('\r\n') + '\r\n'), { level: 1 }];
-    }
   }
-  return zipSync(files, { level: 6 });
+  return files;
+}
+
+/** A raw hit as CSV: time_s, then one column per channel in storage order, float32 values written exactly. */
+function hitCsv(h: RawHit, values: ArrayLike<number>[]): Uint8Array {
+  const header = ['time_s', ...h.channels.map((c) => `ch${c.channel}_${c.role === 'force' ? 'force_N' : 'response_ms2'}_${fileSafe(c.dof)}`)];
+  const lines: string[] = [header.join(',')];
+  for (let i = 0; i < h.samples; i++) lines.push([i / h.sampleRateHz, ...values.map((ch) => f32Text(ch[i]!))].join(','));
+  return strToU8(lines.join('\r\n') + '\r\n');
+}
+
+/**
+ * Writes the hand-over zip to `out` as it is built: the small files first, then (with `raw`) each
+ * hit's CSV, read from the database one hit at a time and written before the next is read, waiting
+ * whenever `out` asks to drain. Memory stays near one hit's CSV whatever the campaign's size.
+ */
+export async function streamBundleZip(db: Db, d: HandoverData, raw: boolean, out: Writable): Promise<void> {
+  const index = raw ? await rawHitIndex(db, d) : null;
+  let failed: Error | null = null;
+  const zip = new Zip((err, chunk, final) => {
+    if (err) {
+      failed = err;
+      return;
+    }
+    out.write(chunk);
+    if (final) out.end();
+  });
+  const add = async (name: string, bytes: Uint8Array, level: 1 | 6) => {
+    if (failed) throw failed;
+    const file = new ZipDeflate(name, { level });
+    zip.add(file);
+    file.push(bytes, true);
+    if (out.writableNeedDrain) await once(out, 'drain');
+  };
+  for (const [name, bytes] of bundleFiles(d, index)) await add(name, bytes, 6);
+  // Raw noise compresses poorly; store it fast.
+  for (const h of index ?? []) await add(h.file, hitCsv(h, await hitValues(db, h)), 1);
+  zip.end();
+  if (failed) throw failed;
+  if (!out.writableFinished) await once(out, 'finish');
 }

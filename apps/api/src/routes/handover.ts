@@ -6,14 +6,14 @@ import multer from 'multer';
 import { eq, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
-import { campaign, campaignInvitation, campaignMember, user } from '@resonote/db/schema';
+import { campaign, campaignInvitation, campaignMember, hit, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { forbidden, HttpError, notFound } from '../errors.ts';
 import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
 import { htmlToPdf } from '../handover/pdf.ts';
-import { bundleJson, bundleZip, rawHits } from '../handover/bundle.ts';
+import { bundleJson, rawHits, streamBundleZip } from '../handover/bundle.ts';
 import { signReportLink, verifyReportLink } from '../handover/share-token.ts';
 import { buildBackup, mayRestore, restoreBackup } from '../handover/backup.ts';
 
@@ -87,15 +87,20 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     produces: 'application/zip',
     handler: async ({ res, query, campaign: access, user: me }) => {
       const data = await collectHandover(db, access.campaignId, { checks: false });
-      const raw = wantsRaw(query) ? await rawHits(db, data, true) : null;
-      const zip = bundleZip(data, raw);
-      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-bundle', after: { format: 'zip', raw: raw !== null, frfs: data.frfs.length, settingsVersion: data.settings.version } });
+      const raw = wantsRaw(query);
+      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-bundle', after: { format: 'zip', raw, frfs: data.frfs.length, settingsVersion: data.settings.version } });
       res
         .status(200)
         .type('application/zip')
         .setHeader('content-disposition', `attachment; filename="${safeFileName(data.campaign.name)}-handover.zip"`)
         .setHeader('cache-control', 'no-store');
-      res.send(Buffer.from(zip.buffer, zip.byteOffset, zip.byteLength));
+      // Streamed as it is built (raw hits one at a time), so a large campaign never sits in memory whole.
+      try {
+        await streamBundleZip(db, data, raw, res);
+      } catch (err) {
+        // The headers are out: all that is left is to cut the download, which the client sees as incomplete.
+        res.destroy(err as Error);
+      }
       return undefined;
     },
   });
@@ -110,7 +115,12 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     returns: '{ format: "resonote-handover-bundle", version, readme, campaign, geometry, schedule, frfs: [{ file, responseDof, excitationDof, f, h1, h2, coherence, hitIds, inputHash, … }], modes, settings, kit, hits }',
     handler: async ({ query, campaign: access, user: me }) => {
       const data = await collectHandover(db, access.campaignId, { checks: false });
-      const raw = wantsRaw(query) ? await rawHits(db, data, true) : null;
+      if (wantsRaw(query)) {
+        // One JSON document is built in memory (EXPORT_JSON_RAW_MAX_VALUES, default 8 million ≈ 100 MB of text); the zip streams any size.
+        const values = (await db.select({ n: sql<number>`coalesce(sum(${hit.samplesPerChannel} * jsonb_array_length(${hit.channels})), 0)::float8` }).from(hit).where(eq(hit.campaignId, access.campaignId)))[0]?.n ?? 0;
+        if (values > config.exportJsonRawMaxValues) throw new HttpError(413, 'too-large', `The raw time data holds ${(values / 1e6).toFixed(1)} million values, more than one JSON document carries (${config.exportJsonRawMaxValues / 1e6} million). Download bundle.zip?raw=1 instead: it streams any size.`);
+      }
+      const raw = wantsRaw(query) ? await rawHits(db, data) : null;
       await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-bundle', after: { format: 'json', raw: raw !== null, frfs: data.frfs.length, settingsVersion: data.settings.version } });
       return bundleJson(data, raw);
     },
