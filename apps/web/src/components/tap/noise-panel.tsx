@@ -112,6 +112,11 @@ export function NoisePanel({ campaignId, canAct }: { campaignId: string; canAct:
               {latest.recordedBy ? ` · ${latest.recordedBy}` : ''} · <span className="num">{latest.durationS.toFixed(1)} s</span> · {latest.source.startsWith('simulated') ? 'simulated rig' : 'uploaded'}
             </span>
           </div>
+          {new Date(latest.recordedAt).toDateString() !== new Date().toDateString() && (
+            <p className="text-xs text-warn" data-testid="noise-stale">
+              This check is from an earlier day: cables, mounts and the machines around change, so record a fresh one before today's first hit.
+            </p>
+          )}
           <ul className="space-y-1.5">
             {latest.channels.map((ch) => (
               <li key={ch.channel} className="flex gap-2" data-noise-channel={ch.channel} data-noise-status={ch.status}>
