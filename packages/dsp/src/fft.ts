@@ -22,8 +22,8 @@ export interface RealFftPlan {
   /**
    * Transforms `input` (N samples) to X and adds, per one-sided line k, |X_k|² to auto[k] and
    * conj(R_k)·X_k to crossRe[k] + j·crossIm[k], where R (refRe, refIm) is an earlier spectrum of the
-   * same length. The same numbers as forward() followed by those sums, without storing X
-   * (the averaging engine's inner step). Returns X_0 (real), so the caller can check it is finite.
+   * same length: the averaging engine's inner step, with X kept in the plan's own buffers (no
+   * allocation per record). Returns X_0 (real), so the caller can check it is finite.
    */
   forwardCross(
     input: Float64Array,
@@ -35,8 +35,8 @@ export interface RealFftPlan {
   ): number;
 }
 
-/** forwardCross by forward() into owned buffers, then the sums: for the plans without a fused form. */
-abstract class UnfusedCross {
+/** forwardCross for every plan: forward() into buffers the plan owns, then the sums. */
+abstract class CrossSums {
   abstract readonly bins: number;
   abstract forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void;
   private xr: Float64Array | null = null;
@@ -71,7 +71,7 @@ function isPowerOfTwo(n: number): boolean {
   return n > 0 && (n & (n - 1)) === 0;
 }
 
-class TinyPlan extends UnfusedCross implements RealFftPlan {
+class TinyPlan extends CrossSums implements RealFftPlan {
   readonly bins: number;
   constructor(readonly n: number) {
     super();
@@ -90,7 +90,7 @@ class TinyPlan extends UnfusedCross implements RealFftPlan {
   }
 }
 
-class PowerOfTwoPlan implements RealFftPlan {
+class PowerOfTwoPlan extends CrossSums implements RealFftPlan {
   readonly bins: number;
   private readonly half: number;
   private readonly fft: FFT;
@@ -99,6 +99,7 @@ class PowerOfTwoPlan implements RealFftPlan {
   private readonly sinT: Float64Array;
 
   constructor(readonly n: number) {
+    super();
     this.half = n >>> 1;
     this.bins = this.half + 1;
     this.fft = new FFT(this.half);
@@ -147,71 +148,9 @@ class PowerOfTwoPlan implements RealFftPlan {
       outIm[j] = ti - ei;
     }
   }
-
-  forwardCross(
-    input: Float64Array,
-    refRe: Float64Array,
-    refIm: Float64Array,
-    auto: Float64Array,
-    crossRe: Float64Array,
-    crossIm: Float64Array,
-  ): number {
-    const m = this.half;
-    this.fft.transform(this.spec, input);
-    const z = this.spec;
-    const cosT = this.cosT;
-    const sinT = this.sinT;
-    // DC and Nyquist lines are real.
-    const x0 = z[0] + z[1];
-    const xm = z[0] - z[1];
-    auto[0] += x0 * x0;
-    crossRe[0] += refRe[0] * x0;
-    crossIm[0] -= refIm[0] * x0;
-    auto[m] += xm * xm;
-    crossRe[m] += refRe[m] * xm;
-    crossIm[m] -= refIm[m] * xm;
-    // The split of forward(), with each line summed at once instead of stored (k = m/2 is its own
-    // mirror: summed once, from the second form, which is the one forward() keeps).
-    for (let k = 1; k <= m >> 1; k++) {
-      const j = m - k;
-      const zr = z[2 * k];
-      const zi = z[2 * k + 1];
-      const cr = z[2 * j];
-      const ci = z[2 * j + 1];
-      const er = 0.5 * (zr + cr);
-      const ei = 0.5 * (zi - ci);
-      const or = 0.5 * (zi + ci);
-      const oi = -0.5 * (zr - cr);
-      const wr = cosT[k];
-      const wi = -sinT[k];
-      const tr = wr * or - wi * oi;
-      const ti = wr * oi + wi * or;
-      let a: number;
-      let b: number;
-      let p: number;
-      let q: number;
-      if (j !== k) {
-        a = er + tr;
-        b = ei + ti;
-        p = refRe[k];
-        q = refIm[k];
-        auto[k] += a * a + b * b;
-        crossRe[k] += p * a + q * b;
-        crossIm[k] += p * b - q * a;
-      }
-      a = er - tr;
-      b = ti - ei;
-      p = refRe[j];
-      q = refIm[j];
-      auto[j] += a * a + b * b;
-      crossRe[j] += p * a + q * b;
-      crossIm[j] += p * b - q * a;
-    }
-    return x0;
-  }
 }
 
-class BluesteinPlan extends UnfusedCross implements RealFftPlan {
+class BluesteinPlan extends CrossSums implements RealFftPlan {
   readonly bins: number;
   private readonly m: number;
   private readonly fft: FFT;
