@@ -5,6 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { auditEvent, noiseCheck } from '@resonote/db/schema';
+import { createRng } from '@resonote/sim';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
 import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
@@ -33,11 +34,10 @@ interface Reading {
   message: string;
 }
 
-/** Gaussian samples (Box–Muller over a fixed linear-congruential stream), so the upload is the same every run. */
+/** Gaussian samples from the simulator's seeded generator, so the upload is the same every run. */
 function gaussianNoise(n: number, sigma: number, seed: number): number[] {
-  let s = seed >>> 0;
-  const u = () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) + 0.5) / 4294967296;
-  return Array.from({ length: n }, () => sigma * Math.sqrt(-2 * Math.log(u())) * Math.cos(2 * Math.PI * u()));
+  const rng = createRng(seed);
+  return Array.from({ length: n }, () => sigma * rng.gaussian());
 }
 
 function jsonRecording(channels: number[][]) {

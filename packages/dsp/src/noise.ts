@@ -2,6 +2,7 @@
 // structure, read as a Welch PSD. It tells the engineer the floor each channel will add to every
 // hit, how close the force channel's noise comes to the trigger level, and whether a tone (mains
 // hum at 50/60 Hz and its harmonics, a running machine) stands out of the floor.
+import { median } from './stats.ts';
 import { checkFs, checkSamples } from './validate.ts';
 import { welchPsd } from './welch.ts';
 
@@ -32,13 +33,6 @@ export interface BackgroundNoise {
   peak: number;
   /** Tones found: the tested frequency, the line's frequency and its level above the local floor (dB). */
   tones: { testedHz: number; fHz: number; aboveFloorDb: number }[];
-}
-
-function median(values: number[]): number {
-  if (values.length === 0) return NaN;
-  const s = [...values].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
 }
 
 /**
@@ -86,10 +80,15 @@ export function backgroundNoise(x: ArrayLike<number>, fs: number, options: Backg
   const tones: BackgroundNoise['tones'] = [];
   for (const t of tested) {
     if (!(t >= lo && t <= hi && t < fs / 2 - 10)) continue;
+    // Lines are k·df: the tone's lines lie within ±1.5 lines of t, the floor's 2–10 Hz (at least 3–12 lines) away.
     let best = -1;
-    for (let k = 0; k < f.length; k++) if (Math.abs(f[k]! - t) <= 1.5 * df && (best < 0 || psd[k]! > psd[best]!)) best = k;
+    for (let k = Math.max(0, Math.ceil(t / df - 1.5)); k <= Math.min(f.length - 1, Math.floor(t / df + 1.5)); k++) if (best < 0 || psd[k]! > psd[best]!) best = k;
     if (best < 0) continue;
-    const floor = median(Array.from(f.keys()).filter((k) => Math.abs(f[k]! - t) >= Math.max(2, 3 * df) && Math.abs(f[k]! - t) <= Math.max(10, 12 * df)).map((k) => psd[k]!));
+    const near = Math.max(2, 3 * df);
+    const far = Math.max(10, 12 * df);
+    const floorLines: number[] = [];
+    for (let k = Math.max(0, Math.ceil((t - far) / df)); k <= Math.min(f.length - 1, Math.floor((t + far) / df)); k++) if (Math.abs(f[k]! - t) >= near) floorLines.push(psd[k]!);
+    const floor = median(floorLines);
     if (!(floor > 0)) continue;
     const above = 10 * Math.log10(psd[best]! / floor);
     if (above >= threshold) tones.push({ testedHz: t, fHz: f[best]!, aboveFloorDb: above });

@@ -1,7 +1,6 @@
 // The hand-over bundle: geometry, schedule, every averaged FRF with coherence, modes, settings
 // and kit, with a README that says what every column is and where each number comes from.
 // The same content goes out as a zip of CSV/JSON files or as one JSON document.
-import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import { asc, eq, getTableColumns, sql } from 'drizzle-orm';
 import { strToU8, Zip, ZipDeflate } from 'fflate';
@@ -348,15 +347,33 @@ export async function streamBundleZip(db: Db, d: HandoverData, raw: boolean, out
   });
   const add = async (name: string, bytes: Uint8Array, level: 1 | 6) => {
     if (failed) throw failed;
+    // A client that went away ends the export: nothing more is read from the database.
+    if (out.destroyed) throw new Error('the download was closed by the client');
     const file = new ZipDeflate(name, { level });
     zip.add(file);
     file.push(bytes, true);
-    if (out.writableNeedDrain) await once(out, 'drain');
+    if (out.writableNeedDrain) await settled(out, 'drain');
   };
   for (const [name, bytes] of bundleFiles(d, index)) await add(name, bytes, 6);
   // Raw noise compresses poorly; store it fast.
   for (const h of index ?? []) await add(h.file, hitCsv(h, await hitValues(db, h)), 1);
   zip.end();
   if (failed) throw failed;
-  if (!out.writableFinished) await once(out, 'finish');
+  if (!out.writableFinished) await settled(out, 'finish');
+}
+
+/** Waits for `event` on `out`, or ends with an error when the stream closes first (a client that went away). */
+function settled(out: Writable, event: 'drain' | 'finish'): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const done = () => {
+      out.off('close', closed);
+      resolve();
+    };
+    const closed = () => {
+      out.off(event, done);
+      reject(new Error('the download was closed by the client'));
+    };
+    out.once(event, done);
+    out.once('close', closed);
+  });
 }

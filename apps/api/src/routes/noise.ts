@@ -4,6 +4,7 @@
 // channel-map snapshot, who and when — so the noise floor of the day stays on record.
 import { randomUUID } from 'node:crypto';
 import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import type { Response } from 'express';
 import { z } from 'zod';
 import { backgroundNoise } from '@resonote/dsp';
 import { createRng } from '@resonote/sim';
@@ -28,7 +29,7 @@ type ChannelReading = NoiseChannelReading;
 const fmt = (v: number) => (v === 0 ? '0' : Math.abs(v) >= 0.01 && Math.abs(v) < 1e4 ? v.toPrecision(3) : v.toExponential(2));
 
 /** The reading of one channel in plain words, with the numbers behind it. */
-function readChannel(c: ChannelSnapshot, x: Float64Array, fs: number, s: CurrentSettings['settings']): ChannelReading & { f: Float64Array; psd: Float64Array } {
+function readChannel(c: ChannelSnapshot, x: ArrayLike<number>, fs: number, s: CurrentSettings['settings']): ChannelReading & { f: Float64Array; psd: Float64Array } {
   const band: [number, number] = [s.bandHz.low, s.bandHz.high];
   const r = backgroundNoise(x, fs, { bandHz: band });
   const cautions: string[] = [];
@@ -60,6 +61,9 @@ function readChannel(c: ChannelSnapshot, x: Float64Array, fs: number, s: Current
   };
 }
 
+/** A quiet recording to store: channels in channel-map order, engineering units. */
+type QuietRecording = { campaignId: string; userId: string; key: string; source: string; map: ChannelSnapshot[]; settings: CurrentSettings; fileChannels: Float64Array[] };
+
 export function registerNoiseRoutes({ routes, db, config }: Deps): void {
   /** The entry whose DOFs label the channels: the one asked for, else the next on the schedule, else none. */
   async function entryFor(campaignId: string, entryId: string | undefined) {
@@ -74,8 +78,17 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
     return { responseDof: 'not on the schedule', excitationDof: 'not on the schedule' };
   }
 
-  /** Reads, stores (with its audit line, in one transaction) and answers a quiet recording; a repeated key answers the stored one. */
-  async function record(args: { campaignId: string; userId: string; key: string; source: string; map: ChannelSnapshot[]; settings: CurrentSettings; fileChannels: Float64Array[] }) {
+  /**
+   * Reads, stores (with its audit line, in one transaction) and answers a quiet recording: 201 with
+   * the check and its spectra; a repeated key answers the stored check with 200.
+   */
+  async function record(res: Response, args: QuietRecording) {
+    const stored = await store(args);
+    if (stored.replayed) res.locals.status = 200;
+    return { replayed: stored.replayed, check: await present(stored.row, stored.psd ?? true) };
+  }
+
+  async function store(args: QuietRecording): Promise<{ replayed: boolean; row: typeof noiseCheck.$inferSelect; psd?: { f: Float64Array; psd: Float64Array }[] }> {
     const { campaignId, settings, map } = args;
     const s = settings.settings;
     const [earlier] = await db.select().from(noiseCheck).where(and(eq(noiseCheck.campaignId, campaignId), eq(noiseCheck.idempotencyKey, args.key)));
@@ -86,7 +99,8 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
     if (seconds > MAX_S) throw badRequest(`The recording lasts ${seconds.toFixed(1)} s; a background-noise check takes at most ${MAX_S} s. Nothing was stored.`);
     const order = storageOrder(map);
     const byChannel = new Map(map.map((c, i) => [c.channel, args.fileChannels[i]!]));
-    const channels = order.map((c) => byChannel.get(c.channel)!);
+    // Read from the float32 values that are stored, so a later GET shows the same numbers.
+    const channels = order.map((c) => Float32Array.from(byChannel.get(c.channel)!));
     const readings = order.map((c, i) => readChannel(c, channels[i]!, s.sampleRateHz, s));
     const results = { bandHz: s.bandHz, durationS: seconds, channels: readings.map(({ f: _f, psd: _p, ...rest }) => rest) };
     try {
@@ -99,7 +113,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
             sampleRateHz: s.sampleRateHz,
             samplesPerChannel: n,
             channels: order,
-            samples: packSamples(channels.map((c) => Float32Array.from(c))),
+            samples: packSamples(channels),
             source: args.source,
             idempotencyKey: args.key,
             results,
@@ -109,7 +123,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
         await audit(tx, { campaignId, actorId: args.userId, entity: 'noise-check', entityId: stored!.id, action: 'record', after: { source: args.source, durationS: seconds, channels: results.channels.map((c) => ({ channel: c.channel, dof: c.dof, rmsInBand: c.rmsInBand, status: c.status })) } });
         return stored!;
       });
-      return { replayed: false, row };
+      return { replayed: false, row, psd: readings.map(({ f, psd }) => ({ f, psd })) };
     } catch (err) {
       const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
       if (code === '23505') {
@@ -120,8 +134,11 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
     }
   }
 
-  /** A stored check as the API shows it; with `spectra`, each channel's PSD in dB re 1 unit²/Hz up to 1.25 × the band's upper edge. */
-  async function present(row: typeof noiseCheck.$inferSelect, spectra: boolean) {
+  /**
+   * A stored check as the API shows it; with `spectra`, each channel's PSD in dB re 1 unit²/Hz up to
+   * 1.25 × the band's upper edge — the ones just computed when given, else recomputed from the stored samples.
+   */
+  async function present(row: typeof noiseCheck.$inferSelect, spectra: boolean | { f: Float64Array; psd: Float64Array }[]) {
     const [who] = row.recordedBy ? await db.select({ name: user.name }).from(user).where(eq(user.id, row.recordedBy)) : [];
     const results = row.results as { bandHz: { low: number; high: number }; durationS: number; channels: ChannelReading[] };
     const base = {
@@ -137,12 +154,14 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       channels: results.channels,
     };
     if (!spectra) return base;
-    // Recomputed from the stored samples (the same float32 values the reading was made from).
     const snap = row.channels as ChannelSnapshot[];
-        const stored = unpackSamples(row.samples, snap.length, row.samplesPerChannel);
+    const computed =
+      spectra === true
+        ? unpackSamples(row.samples, snap.length, row.samplesPerChannel).map((x) => backgroundNoise(x, row.sampleRateHz, { bandHz: [results.bandHz.low, results.bandHz.high] }))
+        : spectra;
     const fMax = Math.min(row.sampleRateHz / 2, 1.25 * results.bandHz.high);
     const psd = snap.map((c, i) => {
-      const r = backgroundNoise(stored[i]!, row.sampleRateHz, { bandHz: [results.bandHz.low, results.bandHz.high] });
+      const r = computed[i]!;
       const f: number[] = [];
       const levelDb: number[] = [];
       for (let k = 0; k < r.f.length && r.f[k]! <= fMax; k++) {
@@ -172,9 +191,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       const settings = await currentSettings(db, access.campaignId);
       const map = await channelMapFor(db, access.campaignId, await entryFor(access.campaignId, fields.entryId));
       const fileChannels = uploadInEngineeringUnits(file, map, fields, settings.settings.sampleRateHz);
-      const { replayed, row } = await record({ campaignId: access.campaignId, userId: me.id, key, source: `upload:${file.originalname.slice(0, 100)}`, map, settings, fileChannels });
-      if (replayed) res.locals.status = 200;
-      return { replayed, check: await present(row, true) };
+      return record(res, { campaignId: access.campaignId, userId: me.id, key, source: `upload:${file.originalname.slice(0, 100)}`, map, settings, fileChannels });
     },
   });
 
@@ -213,9 +230,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       });
       const key = body.idempotencyKey ?? randomUUID();
       const source = `simulated-rig:seed=${seed}${body.humHz ? `:hum=${body.humHz}Hz` : ''}`;
-      const { replayed, row } = await record({ campaignId: access.campaignId, userId: me.id, key, source, map, settings, fileChannels });
-      if (replayed) res.locals.status = 200;
-      return { replayed, check: await present(row, true) };
+      return record(res, { campaignId: access.campaignId, userId: me.id, key, source, map, settings, fileChannels });
     },
   });
 

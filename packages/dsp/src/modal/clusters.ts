@@ -2,6 +2,7 @@
 // many model orders at the same frequency and damping are one mode; a pole that passes the checks at
 // one or two orders only is a numerical (noise) pole. This replaces "take the stable poles of the
 // highest order", which at high orders can pick noise poles that happen to pass the three checks.
+import { median } from '../stats.ts';
 
 /** What clustering needs of a diagram pole. */
 export interface ClusterablePole {
@@ -33,12 +34,6 @@ export interface PoleCluster {
   /** The member at the highest order: the pole to choose for shapes (its order and index in that order's list). */
   representative: { order: number; index: number };
 }
-
-const median = (v: number[]) => {
-  const s = [...v].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : 0.5 * (s[m - 1]! + s[m]!);
-};
 
 /**
  * Groups the fully stable ('all') poles of a stabilization diagram into modes.

@@ -64,13 +64,14 @@ export function NoisePanel({ campaignId, canAct }: { campaignId: string; canAct:
   const [busy, setBusy] = useState(false);
   const [units, setUnits] = useState<'volts' | 'engineering'>('volts');
   const fileRef = useRef<HTMLInputElement>(null);
-  const pendingKey = useRef<string | null>(null);
+  // A retry of the same action reuses its key (never stored twice); a different action gets a new one.
+  const pendingKey = useRef<{ what: string; key: string } | null>(null);
 
-  async function run(call: (key: string) => Promise<{ replayed: boolean; check: NoiseCheck }>) {
+  async function run(what: string, call: (key: string) => Promise<{ replayed: boolean; check: NoiseCheck }>) {
     setBusy(true);
-    pendingKey.current ??= newIdempotencyKey();
+    if (pendingKey.current?.what !== what) pendingKey.current = { what, key: newIdempotencyKey() };
     try {
-      const answer = await call(pendingKey.current);
+      const answer = await call(pendingKey.current.key);
       pendingKey.current = null;
       client.setQueryData(noiseKeys.one(campaignId, answer.check.id), answer.check);
       await client.invalidateQueries({ queryKey: noiseKeys.list(campaignId), exact: true });
@@ -84,14 +85,14 @@ export function NoisePanel({ campaignId, canAct }: { campaignId: string; canAct:
     }
   }
 
-  const listen = () => run((key) => api(`/campaigns/${campaignId}/noise-checks/simulate`, { body: { durationS: 10, idempotencyKey: key } }));
+  const listen = () => run('listen', (key) => api(`/campaigns/${campaignId}/noise-checks/simulate`, { body: { durationS: 10, idempotencyKey: key } }));
   const upload = () => {
     const file = fileRef.current?.files?.[0];
     if (!file) return toast('info', 'Choose the quiet recording first (CSV, WAV or JSON, one column per channel).');
     const form = new FormData();
     form.append('units', units);
     form.append('file', file);
-    return run((key) => uploadRecording(`/campaigns/${campaignId}/noise-checks`, form, key, () => undefined));
+    return run(`upload:${file.name}:${file.size}:${file.lastModified}:${units}`, (key) => uploadRecording(`/campaigns/${campaignId}/noise-checks`, form, key, () => undefined));
   };
 
   return (
