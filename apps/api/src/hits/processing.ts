@@ -3,6 +3,7 @@
 import { createHash } from 'node:crypto';
 import { aliasedTable, and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
+  FRF_ALGORITHM_VERSION,
   averageFrf,
   checkHit,
   defaultHitLimits,
@@ -313,6 +314,16 @@ function meanOverBand(values: Float64Array, f: Float64Array, lo: number, hi: num
 }
 
 /**
+ * The key of a stored result: the settings version, the accepted hits (id and version, in order)
+ * and the version of the averaging code, so a result computed by older code is never served.
+ */
+export function entryInputHash(settingsVersion: number, hits: readonly { id: string; version: number }[]): string {
+  return createHash('sha256')
+    .update(JSON.stringify({ algorithm: FRF_ALGORITHM_VERSION, v: settingsVersion, hits: hits.map((h) => `${h.id}:${h.version}`) }))
+    .digest('hex');
+}
+
+/**
  * The averaged spectra of a schedule entry from its accepted hits under the current settings.
  * Served from the stored result when its input hash matches; otherwise computed and stored.
  * Hits recorded at another sample rate or record length than the current settings are left out,
@@ -343,9 +354,7 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
     return ok;
   });
   if (sameLayout.length === 0) return null;
-  const hash = createHash('sha256')
-    .update(JSON.stringify({ v: settings.version, hits: sameLayout.map((h) => `${h.id}:${h.version}`) }))
-    .digest('hex');
+  const hash = entryInputHash(settings.version, sameLayout);
   const layout = first!;
   const responseChannels = layout.filter((c) => c.role === 'response');
   const excitationDof = layout[0]!.dof;
