@@ -392,13 +392,14 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     access: 'viewer',
     summary: 'Averaged FRFs of an entry (H1, H2 per response channel, coherence, force ESD) in the requested kind; only the band of interest unless band=all',
     query: z.strictObject({ kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
-    returns: '{ kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash } or 404 when no accepted hit exists',
+    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
     handler: async ({ params, query, campaign: access }) => {
       const entry = await loadEntry(access.campaignId, params.entryId!);
       const settings = await currentSettings(db, access.campaignId);
       const result = await entryResult(db, access.campaignId, entry.id, settings);
-      if (!result) throw new HttpError(404, 'no-result', `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.`);
-      return { entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint }, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
+      const about = { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint };
+      if (!result) return { status: 'no-accepted-hit' as const, entry: about, message: `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.` };
+      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
     },
   });
 

@@ -71,6 +71,7 @@ export interface ComplexJson {
   im: number[];
 }
 export interface FrfAnswer {
+  status?: 'ready';
   entry?: { id: string; responseDof: string; excitationDof: string; drivingPoint: boolean };
   kind: FrfKind;
   unit: string;
@@ -152,12 +153,8 @@ export const useEntryFrf = (id: string, entryId: string | null | undefined, kind
   useQuery({
     queryKey: hitKeys.frf(id, entryId ?? '', kind),
     queryFn: async () => {
-      try {
-        return await api<FrfAnswer>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
-      } catch (err) {
-        if (err instanceof ApiError && err.status === 404 && err.code === 'no-result') return null;
-        throw err;
-      }
+      const answer = await api<FrfAnswer | { status: 'no-accepted-hit'; message: string }>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
+      return answer.status === 'no-accepted-hit' ? null : answer;
     },
     enabled: Boolean(entryId),
   });
