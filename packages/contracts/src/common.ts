@@ -13,7 +13,7 @@ export const pointLabelSchema = z
   .max(32, 'a point label has at most 32 characters')
   .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'a point label uses letters, digits, ".", "_" or "-" and starts with a letter or digit');
 
-/** A DOF: node label, a colon, a signed axis — `12:+Z` (field-reference §9). */
+/** A DOF: node label, a colon, a signed axis — `12:+Z` (docs/methods.md#dof-signs). */
 export const dofLabelSchema = z
   .string()
   .trim()

@@ -16,7 +16,7 @@ function gaussian(seed: number): () => number {
   return () => Math.sqrt(-2 * Math.log(u() || 1e-300)) * Math.cos(2 * Math.PI * u());
 }
 
-/** Receptances of a 12-mode structure (modal sum, field-reference §5.5) with 1 % relative noise. */
+/** Receptances of a 12-mode structure (modal sum, docs/methods.md#modal-model) with 1 % relative noise. */
 function dataset(nResp: number, refs: number[], nLines: number): FrfSet {
   const rnd = gaussian(11);
   const fn = [42, 95, 133, 190, 251, 318, 377, 455, 530, 612, 700, 845];

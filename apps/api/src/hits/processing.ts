@@ -119,12 +119,12 @@ export function recordSamples(s: AcquisitionSettings): number {
   return Math.round(s.recordLengthS * s.sampleRateHz);
 }
 
-/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (field-reference §3.1). */
+/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (docs/methods.md#force-window). */
 export function forceWindowOf(s: AcquisitionSettings): ForceWindowOptions {
   return { startS: 0, lengthS: s.forceWindow.lengthS, taperS: s.forceWindow.taperS };
 }
 
-/** Exponential window on every channel from the trigger point (field-reference §3.2), or null. */
+/** Exponential window on every channel from the trigger point (docs/methods.md#exp-window), or null. */
 export function exponentialWindowOf(s: AcquisitionSettings): (ExponentialWindowOptions & { endLevelPercent: number }) | null {
   const w = s.exponentialWindow;
   if (w.mode === 'none') return null;
@@ -161,7 +161,7 @@ export interface SplitRecords {
 /**
  * Cuts a continuous recording (force first, engineering units) into triggered records of the
  * settings' length: trigger on |force − offset| ≥ level, keep the pre-trigger before it
- * (field-reference §4.4). A hit too close to the start or cut short by the end of the file is
+ * (docs/methods.md#trigger). A hit too close to the start or cut short by the end of the file is
  * reported as skipped, not stored.
  */
 export function splitByTrigger(channels: Float64Array[], fs: number, s: AcquisitionSettings): SplitRecords {
@@ -225,7 +225,7 @@ export function unpackSamples(buf: Buffer, channelCount: number, n: number): Flo
   return Array.from({ length: channelCount }, (_, c) => all.subarray(c * n, (c + 1) * n));
 }
 
-/** Subtracts each channel's pre-trigger mean (offset removal before the windows, field-reference §3.1). */
+/** Subtracts each channel's pre-trigger mean (offset removal before the windows, docs/methods.md#force-window). */
 export function removeOffsets(channels: Float32Array[], preSamples: number): Float64Array[] {
   const m = Math.max(1, preSamples);
   return channels.map((ch) => {

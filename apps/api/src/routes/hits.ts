@@ -328,8 +328,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const step = Math.max(1, Math.ceil(h.samplesPerChannel / query.maxPoints));
       const t: number[] = [];
       for (let i = 0; i < h.samplesPerChannel; i += step) t.push(i / h.sampleRateHz);
-      // The force as the FRF sees it: offset removed and the force window applied (field-reference
-      // §3.1), so noise over the rest of the record does not swamp |F(0)|.
+      // The force as the FRF sees it: offset removed and the force window applied (docs/methods.md
+      // #force-window), so noise over the rest of the record does not swamp |F(0)|.
       const fw = forceWindow(h.samplesPerChannel, h.sampleRateHz, forceWindowOf(s));
       const windowed = centred[0]!.map((v, i) => v * fw[i]!);
       const spectrum = transientSpectrum(windowed, h.sampleRateHz);
@@ -463,7 +463,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     path: '/campaigns/:campaignId/checks',
     tag: 'Results',
     access: 'viewer',
-    summary: 'Reciprocity (H_ij against H_ji) and linearity (the same DOF pair at two force levels) checks, with FRAC and dB/phase differences at the peaks (field-reference §6.7–§6.8)',
+    summary: 'Reciprocity (H_ij against H_ji) and linearity (the same DOF pair at two force levels) checks, with FRAC and dB/phase differences at the peaks (FRAC: Heylen & Lammens 1996; the checks: Ewins 2000)',
     handler: async ({ campaign: access }) => {
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
@@ -496,7 +496,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       return {
         reciprocity,
         linearity,
-        note: 'No normative pass/fail threshold exists for these checks (field-reference §6.8); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
+        note: 'No normative pass/fail threshold exists for these checks (reciprocity and linearity checks as in Ewins 2000, Modal Testing, ch. 3); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
       };
     },
   });

@@ -8,10 +8,10 @@ import { hermitianEigen, jacobiEigen, luSolve } from './linalg.ts';
 const RCOND = 1e-12;
 import type { ComplexValue, FrfSet } from './types.ts';
 
-/** Stability class of a pole against the previous model order (field-reference §6.5), from weakest to strongest. */
+/** Stability class of a pole against the previous model order (docs/methods.md#stabilization), from weakest to strongest. */
 export type Stability = 'new' | 'freq' | 'freq-damp' | 'all';
 
-/** Relative tolerances of the stability checks (field-reference §6.5, common practice). */
+/** Relative tolerances of the stability checks (docs/methods.md#stabilization, common practice). */
 export interface StabilityTolerances {
   /** Largest |Δf|/f for a stable frequency; default 0.01. */
   freq: number;
@@ -21,7 +21,7 @@ export interface StabilityTolerances {
   mac: number;
 }
 
-/** Defaults of the stability checks: 1 % in frequency, 5 % in damping, MAC 0.98 (field-reference §6.5, common practice). */
+/** Defaults of the stability checks: 1 % in frequency, 5 % in damping, MAC 0.98 (docs/methods.md#stabilization, common practice). */
 export const DEFAULT_STABILITY_TOLERANCES: Readonly<StabilityTolerances> = Object.freeze({ freq: 0.01, damping: 0.05, mac: 0.98 });
 
 /** What the stability checks need of a pole: natural frequency (Hz), damping ratio, and a shape vector. */
@@ -57,7 +57,7 @@ export interface StabilizationOptions {
   orders: number[];
   /** Stability tolerances; defaults `DEFAULT_STABILITY_TOLERANCES`. */
   tolerances?: Partial<StabilityTolerances>;
-  /** Poles with a larger damping ratio are dropped; default 0.3 (field-reference §6.5, common practice). */
+  /** Poles with a larger damping ratio are dropped; default 0.3 (docs/methods.md#stabilization, common practice). */
   maxDampingRatio?: number;
   /** Sample interval Δt (s) of the z-domain basis Ω = e^{jωΔt}; default 1/(2·f_max) with f_max the last line of the data. Must satisfy bandHz[1] ≤ 1/(2Δt). */
   dtS?: number;
@@ -74,14 +74,14 @@ export interface StabilizationDiagram {
   responses: string[];
   /** DOFs along the participation vectors. */
   references: string[];
-  /** True when the set had more references than responses and was transposed by reciprocity (field-reference §5.5). */
+  /** True when the set had more references than responses and was transposed by reciprocity (docs/methods.md#modal-model). */
   transposed: boolean;
   /** Per model order, in ascending order, the poles inside the band with 0 < ζ ≤ maxDampingRatio, by frequency. */
   orders: { order: number; poles: DiagramPole[] }[];
 }
 
 /**
- * Stability classes of `current` poles against the poles of the previous model order (field-reference §6.5,
+ * Stability classes of `current` poles against the poles of the previous model order (docs/methods.md#stabilization,
  * common practice; presentation after Phillips & Allemang, IMAC 2005). Each current pole is compared with the
  * previous pole nearest in frequency:
  *  - 'new'       if there is none or |Δf|/f ≥ tol.freq;
@@ -138,7 +138,7 @@ function checkTolerances(t: Partial<StabilityTolerances>): StabilityTolerances {
 /**
  * Stabilization diagram by the poly-reference least-squares complex frequency-domain estimator (LSCF,
  * Guillaume, Verboven, Vanlanduit, Van der Auweraer & Peeters, IMAC XXI 2003; Peeters et al. 2004), with
- * Levy's linearisation (Levy 1959) and the reduced normal equations of field-reference §6.3.
+ * Levy's linearisation (Levy 1959) and the reduced normal equations of docs/methods.md#lscf.
  *
  * Model, per response o (a row H_o(ω) over the N_i references): the right matrix fraction
  * H_o(ω) = B_o(Ω)·A(Ω)⁻¹ with Ω = e^{jωΔt}, B_o(Ω) = Σ_j Ω^j β_oj (1×N_i) and A(Ω) = Σ_j Ω^j α_j
@@ -154,7 +154,7 @@ function checkTolerances(t: Partial<StabilityTolerances>): StabilityTolerances {
  * Choice of Δt: 1/(2·f_max) with f_max the last line of the data's frequency axis (the Nyquist frequency
  * of the measurement), unless `dtS` is given. A z-domain model of a continuous-time FRF is not exactly
  * rational, and its error (the aliased tails of the modes) shrinks as 1/Δt grows, so the data's f_max gives
- * less bias at low orders than the band's upper edge does (checked on the field-reference §6.3 system). The
+ * less bias at low orders than the band's upper edge does (checked on the docs/methods.md#lscf system). The
  * price is a shorter arc of the unit circle and an ill-conditioned R, handled by its pseudo-inverse.
  *
  * FRFs of any kind (receptance, mobility, accelerance) give the same poles. H_ij = response i / force j,
