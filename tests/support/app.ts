@@ -1,4 +1,5 @@
 // Starts the real API (createApp) on a fresh database for one test file.
+import { randomBytes } from 'node:crypto';
 import net from 'node:net';
 import type { Server } from 'node:http';
 import request from 'supertest';
@@ -40,6 +41,8 @@ export async function startTestApp(
     SMTP_CAPTURE_PORT: '0',
     LOG_REQUESTS: 'false',
     AUTH_RATE_LIMIT_MAX: '1000',
+    // Its own secret, so no test writes the generated one into the checkout's .run folder.
+    AUTH_SECRET: randomBytes(32).toString('hex'),
     ...env,
   });
   const handle = await createApp({ config, log: () => undefined });
