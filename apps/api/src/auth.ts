@@ -43,6 +43,9 @@ export function createAuth(db: Db, config: Config, mailer: Mailer, database: Dat
     secret: config.authSecret,
     trustedOrigins: [config.publicUrl],
     telemetry: { enabled: false },
+    // An error that is not one of better-auth's own answers (a failed query) leaves its handler
+    // and reaches the API's error handler: 503 for a lost database, a logged 500 otherwise.
+    onAPIError: { throw: true },
     logger: {
       // A query that failed because the database is unreachable is an outage (noted once and
       // answered 503), not an error to print with its stack for every request.
