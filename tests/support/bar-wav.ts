@@ -4,9 +4,10 @@ import { createRng, hitSeries, steelBar } from '@resonote/sim';
 import { encodeWav } from '@resonote/api/recording';
 import { BAR_SETTINGS, type RigCampaign } from './rig.ts';
 
-export function barHitsWav(rig: RigCampaign, options: { excitationDof: string; count: number; seed: number }): Buffer {
+/** `recordLengthS` must match the campaign's settings (BAR_SETTINGS unless the test changed it). */
+export function barHitsWav(rig: RigCampaign, options: { excitationDof: string; count: number; seed: number; recordLengthS?: number }): Buffer {
   const fs = BAR_SETTINGS.sampleRateHz;
-  const n = fs * BAR_SETTINGS.recordLengthS;
+  const n = fs * (options.recordLengthS ?? BAR_SETTINGS.recordLengthS);
   const hits = hitSeries(steelBar().model, { excitationDof: options.excitationDof, responseDofs: ['B21:+Z'], fs, samples: n, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500 }, options.count, createRng(options.seed), {
     doubleHitProbability: 0,
     overloadProbability: 0,
