@@ -1,4 +1,5 @@
 // Starts the real API (createApp) on a fresh database for one test file.
+import { randomBytes } from 'node:crypto';
 import net from 'node:net';
 import type { Server } from 'node:http';
 import request from 'supertest';
@@ -29,17 +30,19 @@ export async function freePort(): Promise<number> {
 export async function startTestApp(
   template: string,
   env: Record<string, string> = {},
-  options: { listen?: boolean } = {},
+  options: { listen?: boolean; /** The URL the app connects with (e.g. through a TCP relay) instead of the database's own. */ databaseUrl?: (direct: string) => string } = {},
 ): Promise<TestApp & { server?: Server; baseUrl: string }> {
   const database = await freshDatabase(template);
   const port = options.listen ? await freePort() : 3999;
   const config = loadConfig({
     NODE_ENV: 'test',
     PORT: String(port),
-    DATABASE_URL: database.url,
+    DATABASE_URL: options.databaseUrl ? options.databaseUrl(database.url) : database.url,
     SMTP_CAPTURE_PORT: '0',
     LOG_REQUESTS: 'false',
     AUTH_RATE_LIMIT_MAX: '1000',
+    // Its own secret, so no test writes the generated one into the checkout's .run folder.
+    AUTH_SECRET: randomBytes(32).toString('hex'),
     ...env,
   });
   const handle = await createApp({ config, log: () => undefined });

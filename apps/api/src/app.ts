@@ -11,6 +11,7 @@ import { createAuth, type Auth } from './auth.ts';
 import { authHandler } from './auth-handler.ts';
 import { resolveUser } from './context.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
+import { DatabaseStatus } from './db-health.ts';
 import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
@@ -32,6 +33,8 @@ export interface AppHandle {
   auth: Auth;
   mailer: Mailer;
   database: DbHandle;
+  /** Whether the database is reachable now, and since when it is not. */
+  databaseStatus: DatabaseStatus;
   config: Config;
   /** Background modal fits. */
   fits: FitQueue;
@@ -48,9 +51,11 @@ export interface AppOptions {
 const defaultWebDist = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
 
 export async function createApp({ config, log = (m) => console.log(m) }: AppOptions): Promise<AppHandle> {
-  const database = openDb(config.databaseUrl);
+  const databaseStatus = new DatabaseStatus(log);
+  // A connection lost under the pool is noted, never thrown: the next checkout opens a new one.
+  const database = openDb(config.databaseUrl, { onConnectionError: (err) => databaseStatus.noteFailure(err), onConnect: () => databaseStatus.noteSuccess() });
   const mailer = await createMailer({ db: database.db, smtpUrl: config.smtpUrl, capturePort: config.smtpCapturePort, from: config.mailFrom });
-  const auth = createAuth(database.db, config, mailer);
+  const auth = createAuth(database.db, config, mailer, databaseStatus);
 
   const app = express();
   app.disable('x-powered-by');
@@ -82,10 +87,10 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   }
 
   // better-auth reads the raw body itself, so it is mounted before express.json().
-  app.all('/api/auth/*splat', authHandler(auth));
+  app.all('/api/auth/*splat', authHandler(auth, databaseStatus));
 
   const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
-  const deps = { routes, db: database.db, config, mailer };
+  const deps = { routes, db: database.db, config, mailer, databaseStatus };
   registerSystemRoutes(deps);
   registerCampaignRoutes(deps);
   registerGeometryRoutes(deps);
@@ -117,13 +122,14 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   }
 
   // Unexpected errors always reach the console (and fail a test through its console.error guard).
-  app.use(errorHandler((message) => console.error(message)));
+  app.use(errorHandler((message) => console.error(message), databaseStatus));
 
   return {
     app,
     auth,
     mailer,
     database,
+    databaseStatus,
     config,
     fits,
     routes: routes.registry,

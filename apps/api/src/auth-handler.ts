@@ -3,7 +3,8 @@
 import type { Request as ExpressRequest, RequestHandler } from 'express';
 import type { Auth } from './auth.ts';
 import { CLIENT_IP_HEADER } from './auth.ts';
-import { errorBody } from './errors.ts';
+import { errorBody, sendDatabaseUnavailable } from './errors.ts';
+import type { DatabaseStatus } from './db-health.ts';
 
 const MAX_AUTH_BODY = 64 * 1024;
 
@@ -39,7 +40,7 @@ const friendly: Record<string, string> = {
   'rate-limited': 'Too many attempts. Wait a minute and try again.',
 };
 
-export function authHandler(auth: Auth): RequestHandler {
+export function authHandler(auth: Auth, database: DatabaseStatus): RequestHandler {
   return async (req, res, next) => {
     try {
       const headers = new Headers();
@@ -61,6 +62,12 @@ export function authHandler(auth: Auth): RequestHandler {
       const url = new URL(req.originalUrl, `http://${req.headers.host ?? 'localhost'}`);
       const request = new Request(url, { method: req.method, headers, body: body && body.length ? new Uint8Array(body) : undefined });
       const response = await auth.handler(request);
+      // better-auth answers 500 itself when its queries fail; its logger (auth.ts) has noted a
+      // lost connection by then, so the caller gets the same 503 as every other route.
+      if (response.status >= 500 && !database.reachable) {
+        sendDatabaseUnavailable(res);
+        return;
+      }
 
       res.status(response.status);
       response.headers.forEach((value, key) => {

@@ -7,6 +7,7 @@ import type { Db } from '@resonote/db/client';
 import * as schema from '@resonote/db/schema';
 import type { Config } from './config.ts';
 import type { Mailer } from './mail.ts';
+import { isDatabaseUnavailable, type DatabaseStatus } from './db-health.ts';
 
 export const MIN_PASSWORD_LENGTH = 10;
 /** Header the API sets from the socket address (never from the client) for rate limiting. */
@@ -34,7 +35,7 @@ function windowCounter() {
   };
 }
 
-export function createAuth(db: Db, config: Config, mailer: Mailer) {
+export function createAuth(db: Db, config: Config, mailer: Mailer, database: DatabaseStatus) {
   return betterAuth({
     appName: 'Resonote',
     baseURL: config.publicUrl,
@@ -42,6 +43,21 @@ export function createAuth(db: Db, config: Config, mailer: Mailer) {
     secret: config.authSecret,
     trustedOrigins: [config.publicUrl],
     telemetry: { enabled: false },
+    // An error that is not one of better-auth's own answers (a failed query) leaves its handler
+    // and reaches the API's error handler: 503 for a lost database, a logged 500 otherwise.
+    onAPIError: { throw: true },
+    logger: {
+      // A query that failed because the database is unreachable is an outage (noted once and
+      // answered 503), not an error to print with its stack for every request.
+      log(level, message, ...args) {
+        const lost = args.find((a) => isDatabaseUnavailable(a));
+        if (lost) return database.noteFailure(lost);
+        const line = `[better-auth] ${message}`;
+        if (level === 'error') console.error(line, ...args);
+        else if (level === 'warn') console.warn(line, ...args);
+        else console.log(line, ...args);
+      },
+    },
     database: drizzleAdapter(db, {
       provider: 'pg',
       schema: { user: schema.user, session: schema.session, account: schema.account, verification: schema.verification },

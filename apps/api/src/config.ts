@@ -1,6 +1,13 @@
 // The API's whole configuration: one zod schema over the environment, with defaults so a local
 // run needs no settings. Nothing else in the API reads process.env.
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
+
+/** The git-ignored folder of local state (`<repo>/.run`); DATA_DIR moves it. */
+const defaultDataDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../../.run');
 
 const bool = z
   .enum(['true', 'false', '1', '0'])
@@ -13,6 +20,7 @@ const envSchema = z.object({
   PUBLIC_URL: z.url().optional(),
   DATABASE_URL: z.string().startsWith('postgres').default('postgres://postgres@127.0.0.1:54329/resonote'),
   AUTH_SECRET: z.string().min(32, 'AUTH_SECRET must be at least 32 characters').optional(),
+  DATA_DIR: z.string().min(1).optional(),
   REQUIRE_EMAIL_VERIFICATION: bool.default(false),
   AUTH_RATE_LIMIT_MAX: z.coerce.number().int().positive().default(10),
   AUTH_RATE_LIMIT_WINDOW_S: z.coerce.number().int().positive().default(60),
@@ -33,6 +41,10 @@ export interface Config {
   publicUrl: string;
   databaseUrl: string;
   authSecret: string;
+  /** Where the signing secret came from: the environment, or the file generated at first start. */
+  authSecretSource: 'environment' | { file: string; created: boolean };
+  /** Local state kept between restarts (the generated signing secret). */
+  dataDir: string;
   requireEmailVerification: boolean;
   authRateLimit: { max: number; windowS: number };
   smtpUrl?: string;
@@ -46,10 +58,45 @@ export interface Config {
   webDist?: string;
 }
 
-/** A fixed secret for local runs only; production must set AUTH_SECRET (checked below). */
-const DEV_SECRET = 'resonote-local-development-secret-not-for-production';
-
 export class ConfigError extends Error {}
+
+const SECRET_FILE = 'auth-secret';
+
+/**
+ * The signing secret of a run without AUTH_SECRET: read from `<dataDir>/auth-secret`, or made at
+ * first start (32 random bytes, hex) and written there with mode 0600, so a restart keeps
+ * sessions and report links valid and no two installations share a secret. The file appears
+ * whole or not at all (written aside, then hard-linked into place), so two processes starting
+ * at once agree on one secret.
+ */
+function storedSecret(dataDir: string): { secret: string; file: string; created: boolean } {
+  const file = path.join(dataDir, SECRET_FILE);
+  const read = () => {
+    const secret = fs.readFileSync(file, 'utf8').trim();
+    if (secret.length < 32) throw new ConfigError(`invalid configuration:\n  AUTH_SECRET: not set, and ${file} holds no usable secret (fewer than 32 characters); delete the file to make a new one, or set AUTH_SECRET`);
+    // Keep it private even when someone widened the mode.
+    if ((fs.statSync(file).mode & 0o077) !== 0) fs.chmodSync(file, 0o600);
+    return secret;
+  };
+  if (fs.existsSync(file)) return { secret: read(), file, created: false };
+  try {
+    fs.mkdirSync(dataDir, { recursive: true, mode: 0o700 });
+    const aside = `${file}.${process.pid}.${randomBytes(4).toString('hex')}`;
+    fs.writeFileSync(aside, `${randomBytes(32).toString('hex')}\n`, { mode: 0o600, flag: 'wx' });
+    try {
+      fs.linkSync(aside, file);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+      return { secret: read(), file, created: false };
+    } finally {
+      fs.rmSync(aside, { force: true });
+    }
+    return { secret: read(), file, created: true };
+  } catch (err) {
+    if (err instanceof ConfigError) throw err;
+    throw new ConfigError(`invalid configuration:\n  AUTH_SECRET: not set, and the generated secret cannot be kept in ${file} (${(err as Error).message}); set AUTH_SECRET or DATA_DIR`);
+  }
+}
 
 export function loadConfig(env: Record<string, string | undefined>): Config {
   const parsed = envSchema.safeParse(env);
@@ -58,15 +105,19 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     throw new ConfigError(`invalid configuration:\n${lines.join('\n')}`);
   }
   const e = parsed.data;
-  if (e.NODE_ENV === 'production' && !e.AUTH_SECRET) throw new ConfigError('invalid configuration:\n  AUTH_SECRET: required in production');
+  if (e.NODE_ENV === 'production' && !e.AUTH_SECRET) throw new ConfigError('invalid configuration:\n  AUTH_SECRET: required in production (32+ random characters, e.g. `openssl rand -hex 32`)');
   if (e.NODE_ENV === 'production' && !e.SMTP_URL) throw new ConfigError('invalid configuration:\n  SMTP_URL: required in production (the local SMTP fake is for development and test)');
+  const dataDir = path.resolve(e.DATA_DIR ?? defaultDataDir);
+  const stored = e.AUTH_SECRET ? null : storedSecret(dataDir);
   return {
     env: e.NODE_ENV,
     host: e.HOST,
     port: e.PORT,
     publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
     databaseUrl: e.DATABASE_URL,
-    authSecret: e.AUTH_SECRET ?? DEV_SECRET,
+    authSecret: e.AUTH_SECRET ?? stored!.secret,
+    authSecretSource: stored ? { file: stored.file, created: stored.created } : 'environment',
+    dataDir,
     requireEmailVerification: e.REQUIRE_EMAIL_VERIFICATION,
     authRateLimit: { max: e.AUTH_RATE_LIMIT_MAX, windowS: e.AUTH_RATE_LIMIT_WINDOW_S },
     smtpUrl: e.SMTP_URL,

@@ -4,6 +4,20 @@ import { migrateDatabase } from '@resonote/db/migrate';
 import { ConfigError, loadConfig, type Config } from './config.ts';
 import { createApp } from './app.ts';
 import { seedDemo } from './seed.ts';
+import { isDatabaseUnavailable } from './db-health.ts';
+
+// A database outage must never end the process: requests answer 503 meanwhile and the pool
+// reconnects. Every pg client has an 'error' listener (packages/db/src/client.ts); this catches a
+// promise about a lost connection that nobody awaited. Any other unhandled rejection still ends
+// the process, as Node does by default.
+process.on('unhandledRejection', (reason) => {
+  if (isDatabaseUnavailable(reason)) {
+    console.log(`[resonote] a database operation was cut off by the outage: ${(reason as Error)?.message ?? reason}`);
+    return;
+  }
+  console.error('[resonote] unhandled rejection:', reason);
+  process.exit(1);
+});
 
 let config: Config;
 try {
@@ -11,6 +25,10 @@ try {
 } catch (err) {
   console.error(err instanceof ConfigError ? err.message : err);
   process.exit(1);
+}
+if (config.authSecretSource !== 'environment') {
+  const { file, created } = config.authSecretSource;
+  console.log(created ? `[resonote] AUTH_SECRET is not set: generated a signing secret and kept it in ${file} (mode 0600); later starts reuse it` : `[resonote] AUTH_SECRET is not set: signing with the secret kept in ${file}`);
 }
 
 try {

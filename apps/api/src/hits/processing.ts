@@ -18,6 +18,7 @@ import {
 import { acquisitionSettingsSchema, defaultAcquisitionSettings, uuidSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, frfResult, hit, point, scheduleEntry } from '@resonote/db/schema';
 import { notFound } from '../errors.ts';
+import { isDatabaseUnavailable } from '../db-health.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
 
@@ -62,7 +63,13 @@ function scheduleWrite(db: Db, cache: Caches, entryId: string, write: () => Prom
   const run = () => {
     cache.scheduled.delete(entryId);
     const p: Promise<unknown> = write()
-      .catch((err: Error) => console.error(`[resonote] storing the result of entry ${entryId} failed: ${err.message}`))
+      .catch((err: Error) =>
+        // The result is recomputed from the hits on the next read, so a write lost to a database
+        // outage costs nothing; the message never carries the query's parameters (raw spectra).
+        isDatabaseUnavailable(err)
+          ? console.log(`[resonote] the stored copy of entry ${entryId}'s result was not written (database unreachable); it is recomputed on the next read`)
+          : console.error(`[resonote] storing the result of entry ${entryId} failed: ${((err as { cause?: Error }).cause ?? err).message}`),
+      )
       .finally(() => cache.pending.delete(p));
     cache.pending.add(p);
     return p.then(() => undefined);

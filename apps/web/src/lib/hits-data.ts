@@ -3,7 +3,7 @@
 import { useEffect, useState } from 'react';
 import { useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { ScheduleStatus } from '@resonote/contracts';
-import { api, ApiError } from './api.ts';
+import { api, ApiError, retryAfterSeconds } from './api.ts';
 import type { FrfKind } from './frf-math.ts';
 import type { ScheduleEntry } from './campaign-data.ts';
 
@@ -253,7 +253,7 @@ export function uploadRecording<T = HitsAnswer>(path: string, form: FormData, ke
       }
       if (xhr.status >= 200 && xhr.status < 300) return resolve(data as T);
       const err = (data as { error?: { code?: string; message?: string } } | undefined)?.error;
-      reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`));
+      reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`, undefined, retryAfterSeconds(xhr.getResponseHeader('retry-after'))));
     };
     xhr.send(form);
   });
