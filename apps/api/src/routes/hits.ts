@@ -217,7 +217,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
-      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz);
+      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz, s);
       const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
       return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
