@@ -136,6 +136,15 @@ export function decodeCsv(text: string): DecodedRecording {
   return { sampleRateHz, channels };
 }
 
+/** What a JSON value is, for a message, without serialising it (it may be nested thousands deep). */
+function describeJsonValue(v: unknown): string {
+  if (typeof v === 'string') return `the text ${quoteForMessage(v)}`;
+  if (Array.isArray(v)) return 'an array';
+  if (v === null) return 'null';
+  if (typeof v === 'object') return 'an object';
+  return String(v);
+}
+
 /** JSON: { "sampleRateHz": 4096, "channels": [[…force…], [… response …], …] }. */
 export function decodeJson(text: string): DecodedRecording {
   let doc: unknown;
@@ -153,7 +162,7 @@ export function decodeJson(text: string): DecodedRecording {
   if (lengths.size !== 1) throw new RecordingError('All channels must hold the same number of samples.');
   const channels = (o.channels as unknown[][]).map((c, ci) =>
     Float64Array.from(c, (v, i) => {
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new RecordingError(`channel ${ci + 1}, sample ${i + 1} is not a finite number (${typeof v === 'string' ? quoteForMessage(v) : JSON.stringify(v)?.slice(0, 40) ?? String(v)}).`);
+      if (typeof v !== 'number' || !Number.isFinite(v)) throw new RecordingError(`channel ${ci + 1}, sample ${i + 1} is not a finite number (${describeJsonValue(v)}).`);
       return v;
     }),
   );
