@@ -79,10 +79,13 @@ function makeRecordings(force: number[], accel: number[]): Recordings {
   return { wav, csvWithTime, csvNoTime, json };
 }
 
-function form(file: Uint8Array, name: string, fields: Record<string, string>, type = 'application/octet-stream'): FormData {
+/** A multipart form; `duplicate` repeats a field or the file part (a duplicated field). */
+function form(file: Uint8Array, name: string, fields: Record<string, string>, type = 'application/octet-stream', duplicate: 'field' | 'file' | null = null): FormData {
   const f = new FormData();
   for (const [k, v] of Object.entries(fields)) f.append(k, v);
+  if (duplicate === 'field') f.append(Object.keys(fields)[0] ?? 'units', 'volts');
   f.append('file', new Blob([new Uint8Array(file)], { type }), name);
+  if (duplicate === 'file') f.append('file', new Blob([new Uint8Array(file)], { type }), name);
   return f;
 }
 
@@ -137,7 +140,7 @@ function nextCase(p: Pick, t: FuzzTarget, index: number): Case {
     const entry = p.one(t.rig.entries);
     const path = target === 'hits' ? `/api/campaigns/${t.rig.campaignId}/schedule/${entry.id}/hits` : `/api/campaigns/${t.rig.campaignId}/noise-checks`;
     const key = p.chance(0.98) ? `fuzz-${index}-${p.int(0, 1e9)}` : p.one(['', 'short', 'x'.repeat(300)]);
-    return { target, how, request: () => ({ path, init: { method: 'POST', headers: { ...auth, ...(key ? { 'idempotency-key': key } : {}) }, body: form(bytes, name, fields) } }) };
+    return { target, how, request: () => ({ path, init: { method: 'POST', headers: { ...auth, ...(key ? { 'idempotency-key': key } : {}) }, body: form(bytes, name, fields, undefined, p.chance(0.04) ? p.one(['field', 'file'] as const) : null) } }) };
   }
   if (roll < 0.85) {
     const m = mutateCsv(p, t.geometryCsv);
@@ -177,6 +180,8 @@ export interface FuzzResult {
   /** "target status" → count, and "status" → count over all targets. */
   byTarget: Map<string, number>;
   byStatus: Map<string, number>;
+  /** Total answer time per target, ms. */
+  msByTarget: Map<string, number>;
   failures: FuzzFailure[];
 }
 
@@ -193,6 +198,7 @@ export async function runFuzz(t: FuzzTarget, options: FuzzOptions): Promise<Fuzz
   const byTarget = new Map<string, number>();
   const byStatus = new Map<string, number>();
   const failures: FuzzFailure[] = [];
+  const msByTarget = new Map<string, number>();
   const bump = (m: Map<string, number>, k: string) => m.set(k, (m.get(k) ?? 0) + 1);
   const started = performance.now();
   let done = 0;
@@ -201,6 +207,7 @@ export async function runFuzz(t: FuzzTarget, options: FuzzOptions): Promise<Fuzz
     const c = nextCase(p, t, i);
     const { path, init } = c.request();
     let status: string;
+    const sent = performance.now();
     try {
       const res = await fetch(`${t.baseUrl}${path}`, { ...init, signal: AbortSignal.timeout(options.timeoutMs) });
       const text = await res.text();
@@ -220,12 +227,13 @@ export async function runFuzz(t: FuzzTarget, options: FuzzOptions): Promise<Fuzz
       status = e.name === 'TimeoutError' ? 'hang' : `network error ${e.cause?.code ?? e.message}`;
       failures.push({ index: i, target: c.target, how: c.how, problem: status });
     }
+    msByTarget.set(c.target, (msByTarget.get(c.target) ?? 0) + performance.now() - sent);
     bump(byStatus, status);
     bump(byTarget, `${c.target} ${status}`);
     done++;
     if (options.onProgress && done % 500 === 0) options.onProgress(done, performance.now() - started);
   }
-  return { cases: done, elapsedMs: performance.now() - started, byTarget, byStatus, failures };
+  return { cases: done, elapsedMs: performance.now() - started, byTarget, byStatus, msByTarget, failures };
 }
 
 /** The histogram as printed lines: by status, then by target and status. */
@@ -239,6 +247,11 @@ export function histogramLines(r: FuzzResult): string[] {
     ...sorted(r.byTarget).map(([k, v]) => {
       const [target, status] = k.split(' ');
       return `${target!.padEnd(8)} ${status!.padEnd(7)} ${v}`;
+    }),
+    'target   cases  mean answer time',
+    ...sorted(r.msByTarget).map(([target, ms]) => {
+      const n = [...r.byTarget].filter(([k]) => k.startsWith(`${target} `)).reduce((a, [, v]) => a + v, 0);
+      return `${target.padEnd(8)} ${String(n).padEnd(6)} ${(ms / n).toFixed(1)} ms`;
     }),
   ];
 }
