@@ -2,13 +2,13 @@
 // tests/fuzz/harness.ts against its own app and database. Not a test: it prints the status
 // histogram and the time, lists the first failures, and exits non-zero on any 5xx, hang,
 // network error or 4xx outside the one error shape.
-//   --cases N (default 10000)  --seed S (default 20261203)  --timeout-ms T (default 30000)  --max-s M (default 1500)
+//   --cases N (default 10000)  --seed S (default 20261203)  --timeout-ms T (default 30000)  --max-s M (default 3600)
 import { parseArgs } from 'node:util';
 import { createTemplate } from '../support/db.ts';
 import { startTestApp } from '../support/app.ts';
 import { histogramLines, prepareFuzzTarget, runFuzz } from './harness.ts';
 
-const { values } = parseArgs({ options: { cases: { type: 'string', default: '10000' }, seed: { type: 'string', default: '20261203' }, 'timeout-ms': { type: 'string', default: '30000' }, 'max-s': { type: 'string', default: '1500' } } });
+const { values } = parseArgs({ options: { cases: { type: 'string', default: '10000' }, seed: { type: 'string', default: '20261203' }, 'timeout-ms': { type: 'string', default: '30000' }, 'max-s': { type: 'string', default: '3600' } } });
 const options = { cases: Number(values.cases), seed: Number(values.seed), timeoutMs: Number(values['timeout-ms']), maxMs: Number(values['max-s']) * 1000 };
 for (const [k, v] of Object.entries(options)) {
   if (!Number.isFinite(v) || v <= 0) {
