@@ -169,6 +169,14 @@ describe('CSV cells must be plain decimal numbers', () => {
   });
 });
 
+describe('number fields of an upload form are plain decimal numbers too', () => {
+  it.each(['0x1000', 'Infinity', ' ', '1e400'])('refuses sampleRateHz %j for a CSV without a time column', async (rate) => {
+    const res = await upload(Buffer.from('force,accel\n0,0\n0,0\n'), 'norate.csv', { sampleRateHz: rate });
+    expectRefusal(res, 400, 'bad-request', /^sampleRateHz: (must be a plain decimal number|is beyond the range of a number)/);
+    expect(await hitRows()).toBe(0);
+  });
+});
+
 describe('binary files are not read as CSV', () => {
   it('says a WAV uploaded as .csv is not a text CSV, without echoing its bytes', async () => {
     const res = await upload(encodeWav(twoChannels({ channel: 0, index: 0, value: 0.5 }), fs), 'oops.csv');

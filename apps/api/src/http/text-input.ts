@@ -5,6 +5,9 @@
 /** A plain decimal number: optional sign, digits with an optional point, optional exponent. No hex, no Infinity, no blanks. */
 const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
+/** True for a plain decimal number (the same rule as parseDecimal, without the range check). */
+export const isDecimal = (text: string) => DECIMAL.test(text.trim());
+
 export type DecimalResult = { ok: true; value: number } | { ok: false; reason: string };
 
 /**

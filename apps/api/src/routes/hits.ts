@@ -207,7 +207,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     tag: 'Hits',
     access: 'engineer',
     summary:
-      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24-bit PCM or 32-bit float, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
+      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24/32-bit PCM or 32/64-bit float, also extensible, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
     before: [upload],
     status: 201,
     returns: '{ replayed, hits: [{ id, sequence, verdict, reasons, metrics }], skipped, entry: { status, acceptedHits }, frf, next }',
