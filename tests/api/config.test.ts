@@ -17,6 +17,9 @@ afterAll(() => dataDirs.forEach((d) => fs.rmSync(d, { recursive: true, force: tr
 // The fixed development secret the code carried before the secret was generated per installation.
 const OLD_FIXED_SECRET = 'resonote-local-development-secret-not-for-production';
 
+/** Any 32+ characters: these cases are about other settings, so no secret file is written. */
+const SECRET = 's'.repeat(40);
+
 describe('configuration', () => {
   it('needs no settings for a local run', () => {
     const config = loadConfig({ DATA_DIR: tempDataDir() });
@@ -76,5 +79,13 @@ describe('configuration', () => {
 
     fs.writeFileSync(file, 'short\n');
     expect(() => loadConfig({ DATA_DIR: dataDir })).toThrow(/AUTH_SECRET: not set, and .*auth-secret holds no usable secret/);
+  });
+
+  it('has timeouts that end slow clients, and refuses a header timeout longer than the request timeout', () => {
+    // Defaults: apps/api/src/config.ts (headers 10 s, whole request 120 s, idle keep-alive 65 s, no traffic 60 s).
+    expect(loadConfig({ AUTH_SECRET: SECRET }).http).toEqual({ headersTimeoutMs: 10_000, requestTimeoutMs: 120_000, keepAliveTimeoutMs: 65_000, idleTimeoutMs: 60_000 });
+    expect(loadConfig({ AUTH_SECRET: SECRET, HTTP_REQUEST_TIMEOUT_S: '300', HTTP_HEADERS_TIMEOUT_S: '2.5' }).http).toMatchObject({ headersTimeoutMs: 2500, requestTimeoutMs: 300_000 });
+    expect(() => loadConfig({ AUTH_SECRET: SECRET, HTTP_HEADERS_TIMEOUT_S: '30', HTTP_REQUEST_TIMEOUT_S: '20' })).toThrow(/HTTP_HEADERS_TIMEOUT_S: 30 s is longer than HTTP_REQUEST_TIMEOUT_S \(20 s\)/);
+    expect(() => loadConfig({ AUTH_SECRET: SECRET, HTTP_IDLE_TIMEOUT_S: '0' })).toThrow(/HTTP_IDLE_TIMEOUT_S/);
   });
 });

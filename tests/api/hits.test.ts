@@ -229,7 +229,7 @@ describe('bad recordings are refused with a message and store nothing', () => {
   it('refuses a NaN in a CSV, naming the line', async () => {
     const res = await post(Buffer.from('time,force,accel\n0,0,0\n0.000244140625,NaN,0\n0.00048828125,0,0\n'), 'x.csv', 'bad-0000004');
     expect(res.status).toBe(400);
-    expect(res.body.error.message).toMatch(/Line 3, column "force": "NaN" is not a number/);
+    expect(res.body.error.message).toMatch(/Line 3, column 2 \("force"\): the value "NaN" is not a decimal number/);
   });
 
   it('refuses a truncated WAV and an empty one', async () => {

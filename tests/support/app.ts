@@ -5,6 +5,7 @@ import type { Server } from 'node:http';
 import request from 'supertest';
 import { createApp, type AppHandle } from '@resonote/api/app';
 import { loadConfig, type Config } from '@resonote/api/config';
+import { listen } from '@resonote/api/listen';
 import { freshDatabase } from './db.ts';
 
 export interface TestApp {
@@ -48,10 +49,8 @@ export async function startTestApp(
   const handle = await createApp({ config, log: () => undefined });
   let server: Server | undefined;
   if (options.listen) {
-    server = await new Promise<Server>((resolve) => {
-      const s = handle.app.listen(port, '127.0.0.1', () => resolve(s));
-      s.keepAliveTimeout = 65_000; // as in apps/api/src/server.ts
-    });
+    // The same HTTP server (timeouts included) as apps/api/src/server.ts.
+    server = await listen(handle.app, config, port, '127.0.0.1');
   }
   return {
     handle,

@@ -8,15 +8,44 @@ import type { DatabaseStatus } from './db-health.ts';
 
 const MAX_AUTH_BODY = 64 * 1024;
 
-async function readBody(req: ExpressRequest): Promise<Buffer | 'too-large'> {
-  const chunks: Buffer[] = [];
-  let size = 0;
-  for await (const chunk of req) {
-    size += (chunk as Buffer).length;
-    if (size > MAX_AUTH_BODY) return 'too-large';
-    chunks.push(chunk as Buffer);
-  }
-  return Buffer.concat(chunks);
+/**
+ * Reads the body up to MAX_AUTH_BODY bytes. Above it the rest is left unread (the stream is paused,
+ * not destroyed: destroying it mid-body left the keep-alive connection with no answer to its next
+ * request), and the caller answers 413 with `Connection: close`.
+ */
+function readBody(req: ExpressRequest): Promise<Buffer | 'too-large'> {
+  const announced = Number(req.headers['content-length']);
+  if (Number.isFinite(announced) && announced > MAX_AUTH_BODY) return Promise.resolve('too-large');
+  return new Promise((resolve, reject) => {
+    const chunks: Buffer[] = [];
+    let size = 0;
+    const done = () => {
+      req.off('data', onData);
+      req.off('end', onEnd);
+      req.off('error', onError);
+    };
+    const onData = (chunk: Buffer) => {
+      size += chunk.length;
+      if (size > MAX_AUTH_BODY) {
+        done();
+        req.pause();
+        resolve('too-large');
+        return;
+      }
+      chunks.push(chunk);
+    };
+    const onEnd = () => {
+      done();
+      resolve(Buffer.concat(chunks));
+    };
+    const onError = (err: Error) => {
+      done();
+      reject(err);
+    };
+    req.on('data', onData);
+    req.on('end', onEnd);
+    req.on('error', onError);
+  });
 }
 
 function codeFromAuth(status: number, raw: string | undefined): string {
@@ -54,6 +83,8 @@ export function authHandler(auth: Auth, database: DatabaseStatus): RequestHandle
       if (req.method !== 'GET' && req.method !== 'HEAD') {
         const read = await readBody(req);
         if (read === 'too-large') {
+          // The unread rest of the body would be taken for the next request: close the connection after the answer.
+          res.setHeader('connection', 'close');
           res.status(413).json(errorBody('too-large', `The request body is larger than the limit of ${MAX_AUTH_BODY} bytes.`));
           return;
         }

@@ -31,6 +31,13 @@ const envSchema = z.object({
   UPLOAD_LIMIT_MB: z.coerce.number().positive().default(64),
   EXPORT_JSON_RAW_MAX_VALUES: z.coerce.number().int().positive().default(8_000_000),
   LOG_REQUESTS: bool.default(true),
+  // Slow clients (issue 13): the whole header block within HTTP_HEADERS_TIMEOUT_S, the whole request
+  // (a 64 MB upload included) within HTTP_REQUEST_TIMEOUT_S, an idle keep-alive connection closed
+  // after HTTP_KEEP_ALIVE_TIMEOUT_S, a socket with no traffic either way during a request after HTTP_IDLE_TIMEOUT_S.
+  HTTP_HEADERS_TIMEOUT_S: z.coerce.number().positive().max(600).default(10),
+  HTTP_REQUEST_TIMEOUT_S: z.coerce.number().positive().max(3600).default(120),
+  HTTP_KEEP_ALIVE_TIMEOUT_S: z.coerce.number().positive().max(600).default(65),
+  HTTP_IDLE_TIMEOUT_S: z.coerce.number().positive().max(3600).default(60),
   WEB_DIST: z.string().optional(),
 });
 
@@ -56,6 +63,8 @@ export interface Config {
   exportJsonRawMaxValues: number;
   logRequests: boolean;
   webDist?: string;
+  /** Timeouts of the HTTP server, ms (apps/api/src/http/listen.ts). */
+  http: { headersTimeoutMs: number; requestTimeoutMs: number; keepAliveTimeoutMs: number; idleTimeoutMs: number };
 }
 
 export class ConfigError extends Error {}
@@ -106,6 +115,7 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
   }
   const e = parsed.data;
   if (e.NODE_ENV === 'production' && !e.AUTH_SECRET) throw new ConfigError('invalid configuration:\n  AUTH_SECRET: required in production (32+ random characters, e.g. `openssl rand -hex 32`)');
+  if (e.HTTP_HEADERS_TIMEOUT_S > e.HTTP_REQUEST_TIMEOUT_S) throw new ConfigError(`invalid configuration:\n  HTTP_HEADERS_TIMEOUT_S: ${e.HTTP_HEADERS_TIMEOUT_S} s is longer than HTTP_REQUEST_TIMEOUT_S (${e.HTTP_REQUEST_TIMEOUT_S} s); the headers are part of the request`);
   if (e.NODE_ENV === 'production' && !e.SMTP_URL) throw new ConfigError('invalid configuration:\n  SMTP_URL: required in production (the local SMTP fake is for development and test)');
   const dataDir = path.resolve(e.DATA_DIR ?? defaultDataDir);
   const stored = e.AUTH_SECRET ? null : storedSecret(dataDir);
@@ -128,5 +138,11 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     exportJsonRawMaxValues: e.EXPORT_JSON_RAW_MAX_VALUES,
     logRequests: e.LOG_REQUESTS,
     webDist: e.WEB_DIST,
+    http: {
+      headersTimeoutMs: Math.round(e.HTTP_HEADERS_TIMEOUT_S * 1000),
+      requestTimeoutMs: Math.round(e.HTTP_REQUEST_TIMEOUT_S * 1000),
+      keepAliveTimeoutMs: Math.round(e.HTTP_KEEP_ALIVE_TIMEOUT_S * 1000),
+      idleTimeoutMs: Math.round(e.HTTP_IDLE_TIMEOUT_S * 1000),
+    },
   };
 }

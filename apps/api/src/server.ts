@@ -3,6 +3,7 @@
 import { migrateDatabase } from '@resonote/db/migrate';
 import { ConfigError, loadConfig, type Config } from './config.ts';
 import { createApp } from './app.ts';
+import { createHttpServer } from './http/listen.ts';
 import { seedDemo } from './seed.ts';
 import { isDatabaseUnavailable } from './db-health.ts';
 
@@ -42,7 +43,13 @@ const handle = await createApp({ config });
 let demo: Awaited<ReturnType<typeof seedDemo>> | undefined;
 if (process.argv.includes('--seed')) demo = await seedDemo(handle);
 
-const server = handle.app.listen(config.port, config.host, () => {
+// The configured header, request, keep-alive and idle timeouts end slow clients (apps/api/src/http/listen.ts).
+const server = createHttpServer(handle.app, config);
+server.on('error', (err) => {
+  console.error(`[resonote] cannot listen on ${config.host}:${config.port}: ${err.message}`);
+  process.exit(1);
+});
+server.listen(config.port, config.host, () => {
   console.log(`\n[resonote] serving on ${config.publicUrl}`);
   if (demo) {
     console.log('[resonote] demo sign-ins (password for all: ' + demo.password + '):');
@@ -51,14 +58,6 @@ const server = handle.app.listen(config.port, config.host, () => {
   if (handle.mailer.capturePort) console.log(`[resonote] outgoing mail is captured on 127.0.0.1:${handle.mailer.capturePort}; admins read it under Admin → Mail`);
   const bootStarted = Number(process.env.RESONOTE_BOOT_STARTED ?? 0);
   if (bootStarted) console.log(`[resonote] ready in ${((Date.now() - bootStarted) / 1000).toFixed(1)} s`);
-});
-// Idle keep-alive sockets stay open longer than clients keep theirs, so a client never reuses a
-// socket the server is closing at that moment (that race shows as ECONNRESET on a POST).
-server.keepAliveTimeout = 65_000;
-server.headersTimeout = 66_000;
-server.on('error', (err) => {
-  console.error(`[resonote] cannot listen on ${config.host}:${config.port}: ${err.message}`);
-  process.exit(1);
 });
 
 let closing = false;

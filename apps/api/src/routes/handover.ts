@@ -2,13 +2,13 @@
 // bundles, sharing by mail (an expiring signed report link, or a viewer invitation), and campaign
 // backup and restore. Only leads and admins export and share; a shared link opens that one report.
 import { createHash, randomBytes } from 'node:crypto';
-import multer from 'multer';
 import { eq, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { campaign, campaignInvitation, campaignMember, hit, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
+import { singleFileUpload } from '../http/multipart.ts';
 import { forbidden, HttpError, notFound } from '../errors.ts';
 import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
@@ -246,14 +246,10 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
   });
 
   const limit = config.uploadLimitBytes * 4;
+  const parseBackupForm = singleFileUpload({ fileSize: limit, fields: 5, tooLarge: `The backup is larger than ${Math.round(limit / 1024 / 1024)} MB; nothing was restored.`, nothingDone: 'nothing was restored' });
   const upload: RequestHandler = (req, res, next) => {
     if (!req.is('multipart/form-data')) return next();
-    multer({ storage: multer.memoryStorage(), limits: { fileSize: limit, files: 1, fields: 5 } }).single('file')(req, res, (err: unknown) => {
-      if (!err) return next();
-      const e = err as { code?: string };
-      if (e.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'too-large', `The backup is larger than ${Math.round(limit / 1024 / 1024)} MB; nothing was restored.`));
-      next(new HttpError(400, 'bad-upload', `The upload could not be read: ${(err as Error).message}`));
-    });
+    parseBackupForm(req, res, next);
   };
 
   routes.add({

@@ -207,7 +207,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     tag: 'Hits',
     access: 'engineer',
     summary:
-      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24-bit PCM or 32-bit float, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
+      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24/32-bit PCM or 32/64-bit float, also extensible, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
     before: [upload],
     status: 201,
     returns: '{ replayed, hits: [{ id, sequence, verdict, reasons, metrics }], skipped, entry: { status, acceptedHits }, frf, next }',
@@ -217,7 +217,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
-      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz);
+      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz, s);
       const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
       return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');

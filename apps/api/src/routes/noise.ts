@@ -190,7 +190,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       const { fields, key, file } = readUploadForm(req, z.strictObject({ ...uploadFields, entryId: uuidSchema.optional() }));
       const settings = await currentSettings(db, access.campaignId);
       const map = await channelMapFor(db, access.campaignId, await entryFor(access.campaignId, fields.entryId));
-      const fileChannels = uploadInEngineeringUnits(file, map, fields, settings.settings.sampleRateHz);
+      const fileChannels = uploadInEngineeringUnits(file, map, fields, settings.settings.sampleRateHz, settings.settings);
       return record(res, { campaignId: access.campaignId, userId: me.id, key, source: `upload:${file.originalname.slice(0, 100)}`, map, settings, fileChannels });
     },
   });
