@@ -12,6 +12,7 @@ import { authHandler } from './auth-handler.ts';
 import { resolveUser } from './context.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
 import { DatabaseStatus } from './db-health.ts';
+import { noStore, sameOriginWrites } from './http/same-origin.ts';
 import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
@@ -86,8 +87,13 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     });
   }
 
+  // Every /api answer is per caller: never cached. Every cookie-carrying write must come from this
+  // Resonote's own pages (Origin check), before the auth handler and any body parser or upload.
+  app.use('/api', noStore);
+  app.use('/api', sameOriginWrites({ allowedOrigins: config.allowedOrigins }));
+
   // better-auth reads the raw body itself, so it is mounted before express.json().
-  app.all('/api/auth/*splat', authHandler(auth, databaseStatus));
+  app.all('/api/auth/*splat', authHandler(auth, config.authRateLimit, databaseStatus));
 
   const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
   const deps = { routes, db: database.db, config, mailer, databaseStatus };

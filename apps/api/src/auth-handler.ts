@@ -2,7 +2,7 @@
 // answer copied back; error answers are rewritten into the API's one error shape.
 import type { Request as ExpressRequest, RequestHandler } from 'express';
 import type { Auth } from './auth.ts';
-import { CLIENT_IP_HEADER } from './auth.ts';
+import { CLIENT_IP_HEADER, windowCounter } from './auth.ts';
 import { errorBody, sendDatabaseUnavailable } from './errors.ts';
 import type { DatabaseStatus } from './db-health.ts';
 
@@ -69,7 +69,26 @@ const friendly: Record<string, string> = {
   'rate-limited': 'Too many attempts. Wait a minute and try again.',
 };
 
-export function authHandler(auth: Auth, database: DatabaseStatus): RequestHandler {
+/** Routes whose attempts also count per e-mail address (the body's `email`). */
+const PER_ADDRESS = new Set(['/api/auth/sign-in/email', '/api/auth/sign-up/email', '/api/auth/request-password-reset']);
+
+function addressIn(body: Buffer): string | null {
+  try {
+    const parsed = JSON.parse(body.toString('utf8')) as { email?: unknown };
+    return typeof parsed?.email === 'string' && parsed.email.trim() ? parsed.email.trim().toLowerCase().slice(0, 320) : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * better-auth counts attempts per client IP (a limit sized for an office behind one NAT address);
+ * here each e-mail address gets its own stricter count, so guessing at one account slows that
+ * account only and never locks out colleagues on the same network. Counted whether or not the
+ * address has an account, so the limit tells nothing about which ones do.
+ */
+export function authHandler(auth: Auth, limit: { max: number; windowS: number }, database: DatabaseStatus): RequestHandler {
+  const perAddress = windowCounter();
   return async (req, res, next) => {
     try {
       const headers = new Headers();
@@ -89,6 +108,16 @@ export function authHandler(auth: Auth, database: DatabaseStatus): RequestHandle
           return;
         }
         body = read;
+        const path = req.originalUrl.split('?')[0]!;
+        const address = PER_ADDRESS.has(path) ? addressIn(body) : null;
+        if (address) {
+          const verdict = await perAddress.consume(`${path}|${address}`, { window: limit.windowS, max: limit.max });
+          if (!verdict.allowed) {
+            res.setHeader('retry-after', String(verdict.retryAfter));
+            res.status(429).json(errorBody('rate-limited', `Too many attempts for this e-mail address. Wait ${verdict.retryAfter} s and try again.`));
+            return;
+          }
+        }
       }
       const url = new URL(req.originalUrl, `http://${req.headers.host ?? 'localhost'}`);
       const request = new Request(url, { method: req.method, headers, body: body && body.length ? new Uint8Array(body) : undefined });

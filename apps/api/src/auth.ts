@@ -17,7 +17,7 @@ export const CLIENT_IP_HEADER = 'x-resonote-client-ip';
  * Fixed-window request counter kept by this app instance (two instances in one process, as in
  * the tests, never share counts). Check and increment happen in one step.
  */
-function windowCounter() {
+export function windowCounter() {
   const windows = new Map<string, { start: number; count: number }>();
   return {
     async consume(key: string, rule: { window: number; max: number }) {
@@ -41,7 +41,7 @@ export function createAuth(db: Db, config: Config, mailer: Mailer, database: Dat
     baseURL: config.publicUrl,
     basePath: '/api/auth',
     secret: config.authSecret,
-    trustedOrigins: [config.publicUrl],
+    trustedOrigins: config.allowedOrigins,
     telemetry: { enabled: false },
     // An error that is not one of better-auth's own answers (a failed query) leaves its handler
     // and reaches the API's error handler: 503 for a lost database, a logged 500 otherwise.
@@ -108,12 +108,13 @@ export function createAuth(db: Db, config: Config, mailer: Mailer, database: Dat
       enabled: true,
       customStorage: windowCounter(),
       window: config.authRateLimit.windowS,
-      max: config.authRateLimit.max * 10,
+      max: config.authRateLimit.ipMax * 2,
+      // Per client IP; the stricter count per e-mail address is kept in auth-handler.ts.
       customRules: {
-        '/sign-in/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/sign-up/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/request-password-reset': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/reset-password': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/sign-in/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/sign-up/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/request-password-reset': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/reset-password': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
         '/get-session': false,
       },
     },

@@ -18,12 +18,16 @@ const envSchema = z.object({
   HOST: z.string().default('127.0.0.1'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   PUBLIC_URL: z.url().optional(),
+  /** More origins whose cookie-carrying writes are accepted (comma-separated), e.g. the Vite dev server. */
+  TRUSTED_ORIGINS: z.string().optional(),
   DATABASE_URL: z.string().startsWith('postgres').default('postgres://postgres@127.0.0.1:54329/resonote'),
   AUTH_SECRET: z.string().min(32, 'AUTH_SECRET must be at least 32 characters').optional(),
   DATA_DIR: z.string().min(1).optional(),
   REQUIRE_EMAIL_VERIFICATION: bool.default(false),
   AUTH_RATE_LIMIT_MAX: z.coerce.number().int().positive().default(10),
   AUTH_RATE_LIMIT_WINDOW_S: z.coerce.number().int().positive().default(60),
+  /** Per client IP (several people may share one address behind a NAT); default 5 × AUTH_RATE_LIMIT_MAX. */
+  AUTH_RATE_LIMIT_IP_MAX: z.coerce.number().int().positive().optional(),
   SMTP_URL: z.string().optional(),
   SMTP_CAPTURE_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   MAIL_FROM: z.string().default('Resonote <no-reply@resonote.local>'),
@@ -46,6 +50,12 @@ export interface Config {
   host: string;
   port: number;
   publicUrl: string;
+  /**
+   * Origins whose cookie-carrying writes are accepted (apps/api/src/http/same-origin.ts and
+   * better-auth's trusted origins): the public URL's origin; outside production its
+   * 127.0.0.1/localhost twin too; then TRUSTED_ORIGINS.
+   */
+  allowedOrigins: string[];
   databaseUrl: string;
   authSecret: string;
   /** Where the signing secret came from: the environment, or the file generated at first start. */
@@ -53,7 +63,8 @@ export interface Config {
   /** Local state kept between restarts (the generated signing secret). */
   dataDir: string;
   requireEmailVerification: boolean;
-  authRateLimit: { max: number; windowS: number };
+  /** Sign-in, sign-up and reset attempts per window: `max` per e-mail address, `ipMax` per client IP. */
+  authRateLimit: { max: number; windowS: number; ipMax: number };
   smtpUrl?: string;
   smtpCapturePort: number;
   mailFrom: string;
@@ -107,6 +118,33 @@ function storedSecret(dataDir: string): { secret: string; file: string; created:
   }
 }
 
+/**
+ * The public origin, and outside production its loopback twin: `npm start` serves
+ * http://127.0.0.1:PORT, and a browser pointed at http://localhost:PORT sends that Origin instead.
+ * Both names reach the same loopback listener only on this machine, so the twin opens nothing to
+ * other sites.
+ */
+function originsFor(publicUrl: string, env: string, extra: string | undefined): string[] {
+  const url = new URL(publicUrl);
+  const origins = [url.origin];
+  if (env !== 'production' && (url.hostname === '127.0.0.1' || url.hostname === 'localhost')) {
+    const twin = new URL(url.origin);
+    twin.hostname = url.hostname === 'localhost' ? '127.0.0.1' : 'localhost';
+    origins.push(twin.origin);
+  }
+  for (const raw of (extra ?? '').split(',').map((o) => o.trim()).filter(Boolean)) {
+    let origin: string;
+    try {
+      origin = new URL(raw).origin;
+    } catch {
+      throw new ConfigError(`invalid configuration:\n  TRUSTED_ORIGINS: "${raw}" is not an origin such as http://127.0.0.1:5173`);
+    }
+    if (origin === 'null') throw new ConfigError(`invalid configuration:\n  TRUSTED_ORIGINS: "${raw}" is not an http(s) origin`);
+    if (!origins.includes(origin)) origins.push(origin);
+  }
+  return origins;
+}
+
 export function loadConfig(env: Record<string, string | undefined>): Config {
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
@@ -119,17 +157,19 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
   if (e.NODE_ENV === 'production' && !e.SMTP_URL) throw new ConfigError('invalid configuration:\n  SMTP_URL: required in production (the local SMTP fake is for development and test)');
   const dataDir = path.resolve(e.DATA_DIR ?? defaultDataDir);
   const stored = e.AUTH_SECRET ? null : storedSecret(dataDir);
+  const publicUrl = (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, '');
   return {
     env: e.NODE_ENV,
     host: e.HOST,
     port: e.PORT,
-    publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
+    publicUrl,
+    allowedOrigins: originsFor(publicUrl, e.NODE_ENV, e.TRUSTED_ORIGINS),
     databaseUrl: e.DATABASE_URL,
     authSecret: e.AUTH_SECRET ?? stored!.secret,
     authSecretSource: stored ? { file: stored.file, created: stored.created } : 'environment',
     dataDir,
     requireEmailVerification: e.REQUIRE_EMAIL_VERIFICATION,
-    authRateLimit: { max: e.AUTH_RATE_LIMIT_MAX, windowS: e.AUTH_RATE_LIMIT_WINDOW_S },
+    authRateLimit: { max: e.AUTH_RATE_LIMIT_MAX, windowS: e.AUTH_RATE_LIMIT_WINDOW_S, ipMax: e.AUTH_RATE_LIMIT_IP_MAX ?? 5 * e.AUTH_RATE_LIMIT_MAX },
     smtpUrl: e.SMTP_URL,
     smtpCapturePort: e.SMTP_CAPTURE_PORT,
     mailFrom: e.MAIL_FROM,

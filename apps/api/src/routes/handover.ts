@@ -257,18 +257,18 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     path: '/campaigns/restore',
     tag: 'Hand-over',
     access: 'user',
-    summary: 'Restore a campaign backup (multipart field "file") as a new campaign with new ids; the restorer becomes lead; ?members=1 also adds the backup’s members who have an account here (matched by e-mail)',
+    summary: 'Restore a campaign backup (multipart field "file") as a new campaign with new ids; the restorer becomes lead; ?members=1 also sends each of the backup’s other members an invitation with their role in the backup (they join only by accepting it)',
     query: z.strictObject({ members: z.enum(['0', '1']).optional() }),
     before: [upload],
     status: 201,
-    returns: '{ campaign: { id, name }, counts, membersCopied, membersSkipped }',
+    returns: '{ campaign: { id, name }, counts, invited: [{ email, role }], notInvited: [{ email, reason }], sourceCampaignId }',
     handler: async ({ req, query, user: me }) => {
       if (!req.is('multipart/form-data')) throw new HttpError(415, 'unsupported-media-type', 'Send the backup as multipart/form-data with the file in the field "file".');
       const file = req.file;
       if (!file) throw new HttpError(400, 'invalid-input', 'Attach the backup file as the form field "file".');
       if (!(await mayRestore(db, me))) throw forbidden('Only admins and campaign leads can restore campaigns.');
-      const result = await restoreBackup(db, file.buffer, me, { members: query.members === '1' });
-      return { campaign: { id: result.campaignId, name: result.name }, counts: result.counts, membersCopied: result.membersCopied, membersSkipped: result.membersSkipped, sourceCampaignId: result.sourceCampaignId };
+      const result = await restoreBackup(db, file.buffer, me, { members: query.members === '1', mailer, publicUrl: config.publicUrl });
+      return { campaign: { id: result.campaignId, name: result.name }, counts: result.counts, invited: result.invited, notInvited: result.notInvited, sourceCampaignId: result.sourceCampaignId };
     },
   });
 }

@@ -6,8 +6,8 @@ import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
-import { uuidSchema } from '@resonote/contracts';
-import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { idempotencyKeySchema, uuidSchema } from '@resonote/contracts';
+import { campaign, hit, point, scheduleEntry, uploadKey, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
@@ -38,6 +38,7 @@ import {
 } from '../hits/processing.ts';
 import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
+import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 
@@ -98,17 +99,18 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
 
   /**
    * Stores the triggered records of one recording (channels in channel-map order, engineering
-   * units) as hits with their verdicts, all in one transaction; a repeated idempotency key returns
-   * the hits stored the first time.
+   * units) as hits with their verdicts and the key's binding (hits/upload-keys.ts), all in one
+   * transaction; a retry of the same request with the same key returns the hits stored the first time.
    */
-  async function intake(args: { campaignId: string; entry: Entry; fileChannels: Float64Array[]; fs: number; source: string; key: string; userId: string; map: ChannelSnapshot[]; settings: CurrentSettings; kind: FrfKind }) {
+  async function intake(args: { campaignId: string; entry: Entry; fileChannels: Float64Array[]; fs: number; source: string; key: string; requestSha256: string; userId: string; map: ChannelSnapshot[]; settings: CurrentSettings; kind: FrfKind }) {
     const { campaignId, entry, settings, map } = args;
     const s = settings.settings;
+    const binding = { campaignId, key: args.key, purpose: 'hits' as const, scheduleEntryId: entry.id, requestSha256: args.requestSha256 };
     const replay = async () => {
-      const rows = await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.idempotencyKey, [args.key, `${args.key}#1`])));
-      if (!rows.length) return null;
-      const all = await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), sql`(${hit.idempotencyKey} = ${args.key} OR ${hit.idempotencyKey} LIKE ${args.key + '#%'})`)).orderBy(asc(hit.sequence));
-      return all;
+      const earlier = await earlierUse(db, binding);
+      if (!earlier) return null;
+      const rows = earlier.hitIds.length ? await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.id, earlier.hitIds))).orderBy(asc(hit.sequence)) : [];
+      return rows;
     };
     const earlier = await replay();
     if (earlier) return { replayed: true, stored: earlier, skipped: [] as { timeS: number; reason: string }[] };
@@ -151,6 +153,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
             })),
           )
           .returning();
+        await tx.insert(uploadKey).values({ ...binding, hitIds: rows.map((r) => r.id) });
         for (const r of rows) {
           await audit(tx, { campaignId, actorId: args.userId, entity: 'hit', entityId: r.id, action: 'record', after: { entry: `${entry.responseDof} / ${entry.excitationDof}`, sequence: r.sequence, verdict: r.verdict, reasons: r.reasons, source: r.source, settingsVersion: r.settingsVersion } });
         }
@@ -159,8 +162,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       stored.forEach((row, i) => rememberSamples(db, row.id, judged[i]!.record.channels));
       return { replayed: false, stored, skipped: split.skipped };
     } catch (err) {
-      const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
-      if (code === '23505') {
+      // A simultaneous request with the same key won the race: answer as its retry (or refuse).
+      if (isUniqueViolation(err)) {
         const again = await replay();
         if (again) return { replayed: true, stored: again, skipped: [] };
       }
@@ -218,7 +221,9 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
       const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz, s);
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, userId: me.id, map, settings, kind: fields.kind });
+      const { kind: _kind, idempotencyKey: _key, ...storing } = fields;
+      const hash = requestSha256('hits:upload', storing, file.buffer);
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, requestSha256: hash, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
       return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
     },
@@ -237,7 +242,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       seed: z.number().int().min(0).max(2 ** 31).optional(),
       doubleHitProbability: z.number().min(0).max(1).default(0.1),
       overloadProbability: z.number().min(0).max(1).default(0.03),
-      idempotencyKey: z.string().min(8).max(200).optional(),
+      idempotencyKey: idempotencyKeySchema.optional(),
       kind: kindSchema,
     }),
     status: 201,
@@ -288,7 +293,9 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         return out;
       });
       const key = body.idempotencyKey ?? randomUUID();
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels, fs: s.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:tip=${body.tip}`, key, userId: me.id, map, settings, kind: body.kind });
+      const { kind: _kind, idempotencyKey: _key, ...asked } = body;
+      const hash = requestSha256('hits:simulate', asked);
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels, fs: s.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:tip=${body.tip}`, key, requestSha256: hash, userId: me.id, map, settings, kind: body.kind });
       if (replayed) res.locals.status = 200;
       return answer(access.campaignId, entry, stored, replayed, skipped, settings, body.kind, 'hit');
     },
