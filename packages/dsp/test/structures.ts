@@ -143,3 +143,60 @@ export function widePlate(): { model: ClosedFormModel; points: [number, number][
   });
   return { model, points };
 }
+
+/** Roots βL of cos βL·cosh βL = 1 (free–free beam, Blevins 1979, table 8-1: 4.7300, 7.8532, 10.9956, …), by Newton from (2n+1)π/2. */
+export function freeFreeBetaL(n: number): number {
+  let x = ((2 * n + 1) * Math.PI) / 2;
+  for (let it = 0; it < 50; it++) {
+    // g(x) = cos x − 1/cosh x (= 0 ⇔ cos x cosh x = 1), well scaled for large x
+    const g = Math.cos(x) - 1 / Math.cosh(x);
+    const dg = -Math.sin(x) + Math.tanh(x) / Math.cosh(x);
+    const step = g / dg;
+    x -= step;
+    if (Math.abs(step) < 1e-15 * x) break;
+  }
+  return x;
+}
+
+/**
+ * Free–free Euler–Bernoulli beam (Blevins 1979, "Formulas for Natural Frequency and Mode Shape", table 8-1):
+ * ω_n = (β_nL)²/L²·√(EI/(ρA)); shape φ(x) = cosh βx + cos βx − σ(sinh βx + sin βx),
+ * σ = (cosh βL − cos βL)/(sinh βL − sin βL), with ∫₀ᴸφ² dx = L, so φ/√(ρAL) is mass-normalised; plus the two
+ * rigid-body modes (0 Hz): translation 1/√(ρAL) and rotation √(12/(ρAL))·(x/L − ½).
+ */
+export function freeFreeBeam(p: { L: number; EI: number; rhoA: number; points: number[]; flexible: number; zeta: (r: number) => number }): ClosedFormModel {
+  const { L, EI, rhoA } = p;
+  const m = rhoA * L;
+  const modes: ClosedFormModel['modes'] = [
+    { fHz: 0, zeta: 0, label: 'rigid translation', phi: Float64Array.from(p.points, () => 1 / Math.sqrt(m)) },
+    { fHz: 0, zeta: 0, label: 'rigid rotation', phi: Float64Array.from(p.points, (x) => Math.sqrt(12 / m) * (x / L - 0.5)) },
+  ];
+  for (let n = 1; n <= p.flexible; n++) {
+    const bl = freeFreeBetaL(n);
+    const b = bl / L;
+    // 1 − σ without cancellation: (cos βL − sin βL − e^{−βL})/(sinh βL − sin βL)
+    const oneMinusSigma = (Math.cos(bl) - Math.sin(bl) - Math.exp(-bl)) / (Math.sinh(bl) - Math.sin(bl));
+    const sigma = 1 - oneMinusSigma;
+    const phi = Float64Array.from(p.points, (x) => {
+      const u = b * x;
+      // cosh u − σ sinh u = e^{−u}(1 + σ)/2 + e^{u}(1 − σ)/2
+      const hyp = (Math.exp(-u) * (1 + sigma)) / 2 + (Math.exp(u) * oneMinusSigma) / 2;
+      return (hyp + Math.cos(u) - sigma * Math.sin(u)) / Math.sqrt(m);
+    });
+    modes.push({ fHz: (b * b * Math.sqrt(EI / rhoA)) / (2 * Math.PI), zeta: p.zeta(n - 1), label: `bending ${n}`, phi });
+  }
+  return { dofs: p.points.map((_, i) => `B${String(i + 1).padStart(2, '0')}:+Z`), modes };
+}
+
+/** The spring–mass chain of tests/reference/chain_modes.py: masses (kg), springs (N/m), and M, K (row-major). */
+export function chainMatrices(masses: number[], springs: number[]): { M: Float64Array; K: Float64Array; n: number } {
+  const n = masses.length;
+  const M = new Float64Array(n * n);
+  const K = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) {
+    M[i * n + i] = masses[i];
+    K[i * n + i] = springs[i] + springs[i + 1];
+    if (i + 1 < n) K[i * n + i + 1] = K[(i + 1) * n + i] = -springs[i + 1];
+  }
+  return { M, K, n };
+}

@@ -37,7 +37,7 @@ export interface SuggestedMode {
   /** Median natural frequency (Hz) and damping ratio (fraction of critical) of the members. */
   frequencyHz: number;
   dampingRatio: number;
-  /** The member at the highest order: order and index into that order's `poles`. */
+  /** The member nearest the medians of f and ζ: its order and index into that order's `poles`. */
   representative: { order: number; index: number };
   /** Number of orders with a member, and that over the diagram's orders. */
   orderCount: number;
@@ -131,7 +131,9 @@ export function suggestModes(diagram: { orders: { order: number; poles: Suggesta
     const zs = members.map((m) => m.p.zeta);
     const f = median(fs);
     const z = median(zs);
-    const top = members.reduce((a, b) => (b.order > a.order ? b : a));
+    // representative: the member nearest the medians (f by the frequency tolerance, ζ by the damping tolerance)
+    const dist = (m: Member) => Math.hypot((m.p.fHz - f) / (fTol * f), (m.p.zeta - z) / (dTol * z));
+    const top = members.reduce((a, b) => (dist(b) < dist(a) ? b : a));
     let minMac = 1;
     for (const m of members) if (m !== top) minMac = Math.min(minMac, agree(m.p, top.p));
     out.push({
