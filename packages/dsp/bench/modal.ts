@@ -2,7 +2,7 @@
 // 2…40 (the poly-reference LSCF stabilization diagram, then the residue fit for the stable poles), and the
 // wide-band fits of issue 14: 60 FRFs × 4000 lines at orders 2…120, and the 16-mode plate of test/structures.ts.
 // Run: cd packages/dsp && node --import tsx bench/modal.ts
-import { estimateShapes, pickStablePoles, stabilizationDiagram, type FrfSet } from '../src/modal/index.ts';
+import { estimateShapes, pickStablePoles, stabilizationDiagram, suggestModes, type FrfSet } from '../src/modal/index.ts';
 
 /** mulberry32 (public-domain 32-bit PRNG) and Box–Muller, so every run fits the same data. */
 function gaussian(seed: number): () => number {
@@ -73,11 +73,11 @@ for (const [label, nResp, refs, pickOrder] of [
       `stabilization ${(t1 - t0).toFixed(0)} ms + shapes of ${model.modes.length} stable poles ${(t2 - t1).toFixed(0)} ms ` +
       `= ${((t2 - t0) / 1000).toFixed(2)} s`,
   );
-  console.log(`  stable poles (Hz): ${poles.map((p) => p.fHz.toFixed(1)).join(', ')}`);
+  console.log(`  stable poles at order ${pickOrder} (Hz): ${poles.map((p) => p.fHz.toFixed(1)).join(', ')}`);
+  console.log(`  suggested modes (Hz): ${suggestModes(diagram).map((m) => m.frequencyHz.toFixed(1)).join(', ')}`);
 }
 
 // Wide-band fits (issue 14 targets: ≤ 5 s and ≤ 3 s on 2 cores).
-import { suggestModes } from '../src/modal/index.ts';
 import { lines, measure, widePlate } from '../test/structures.ts';
 {
   const set = dataset(60, [0], 4000);
