@@ -74,6 +74,8 @@ for (const [label, nResp, refs, pickOrder] of [
       `= ${((t2 - t0) / 1000).toFixed(2)} s`,
   );
   console.log(`  stable poles at order ${pickOrder} (Hz): ${poles.map((p) => p.fHz.toFixed(1)).join(', ')}`);
+  // With one reference, 12 modes need order ≥ 24 to show; most columns start at orders 34–38 of 2…40, under
+  // the suggestion's 40 % of the orders, so it keeps only the earliest ones (orders to 120 below: all 12).
   console.log(`  suggested modes (Hz): ${suggestModes(diagram).map((m) => m.frequencyHz.toFixed(1)).join(', ')}`);
 }
 
