@@ -58,9 +58,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
 
   it('resolves two modes 1 % apart (100 and 101 Hz, ζ = 0.5 %) with two references at the lowest order', () => {
     const m = closeModes([0, 4], 0);
-    // a narrow band (11 % of its top frequency) at the lowest orders: the data's Δt (timeBase 'data') keeps the
-    // band far from z = −1; the band's Δt biases order 2 by 1.4e-3 in ζ (docs/decisions/wide-band-lscf.md)
-    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6], timeBase: 'data' });
+    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6], });
     // order 2 with 2 references has 4 poles, i.e. exactly the 2 modes
     for (const o of d.orders) {
       expect(o.poles.length).toBeGreaterThanOrEqual(2);
@@ -82,8 +80,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
 
   it('keeps both close modes stable in all checks with 1 % noise and two references', () => {
     const m = closeModes([0, 4], 0.01);
-    // narrow band, over-modelled with two references: timeBase 'data' as above (docs/decisions/wide-band-lscf.md)
-    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6, 8, 10], timeBase: 'data' });
+    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6, 8, 10], });
     for (const o of d.orders.slice(1)) {
       for (let r = 0; r < 2; r++) {
         const p = o.poles.find((q) => rel(q.fHz, m.fHz[r]) < 1e-3 && q.stable === 'all');

@@ -20,10 +20,11 @@ export {
 } from './stability.ts';
 
 /**
- * Default time base: 1/(2Δt) = 1.25·f_hi, so the band spans the unit circle from angle 0.8π·f_lo/f_hi to 0.8π and
- * a guard arc of 0.2π is left each side of z = −1, between the band's top modes and the aliases of their
- * conjugates (docs/decisions/wide-band-lscf.md: 1.0 biases low orders near the band's top, 2.0 loses accuracy
- * at high orders on wide bands).
+ * Default time base: 1/(2Δt) = max(1.25·f_hi, f_lo + f_hi). A wide band then spans the unit circle from
+ * 0.8π·f_lo/f_hi to 0.8π, leaving a guard arc of 0.2π each side of z = −1 between the band's top modes and the
+ * aliases of their conjugates; a narrow band is centred at π/2, as far from z = −1 as from z = +1
+ * (docs/decisions/wide-band-lscf.md: a band ending at z = −1 biases low orders near its top; 2·f_hi loses
+ * accuracy at high orders on wide bands).
  */
 const BAND_GUARD = 1.25;
 
@@ -41,12 +42,12 @@ export interface StabilizationOptions {
   /** Poles with a larger damping ratio are dropped; default 0.3 (common practice). */
   maxDampingRatio?: number;
   /**
-   * Sample interval Δt (s) of the z-domain basis Ω = e^{jωΔt}. Default: 1/(2·1.25·bandHz[1]), tied to the band
-   * (not to the recording's rate), so the band fills most of the upper half of the unit circle, from angle
-   * 0.8π·lo/hi to 0.8π (Peeters et al. 2004 tie Δt to the band). Must satisfy bandHz[1] ≤ 1/(2Δt).
+   * Sample interval Δt (s) of the z-domain basis Ω = e^{jωΔt}. Default: tied to the band, not to the recording's
+   * rate: 1/(2Δt) = max(1.25·hi, lo + hi), so a wide band fills most of the upper half of the unit circle (from
+   * angle 0.8π·lo/hi to 0.8π) and a narrow one sits around π/2. Must satisfy bandHz[1] ≤ 1/(2Δt).
    */
   dtS?: number;
-  /** 'band' (default, Δt = 1/(2·1.25·bandHz[1])) or 'data' (Δt = 1/(2·f_last), the behaviour before wide bands); ignored when dtS is given. */
+  /** 'band' (default, 1/(2Δt) = max(1.25·hi, lo + hi)) or 'data' (Δt = 1/(2·f_last), the behaviour before wide bands); ignored when dtS is given. */
   timeBase?: 'band' | 'data';
   /**
    * Scalar weight per response DOF: 'rms' (default) divides each response's FRFs by their RMS magnitude over
@@ -67,7 +68,7 @@ export interface StabilizationOptions {
  * band, with one scalar weight w_o per response (`weighting`); the numerators are eliminated (reduced normal
  * equations, see lscf-normal.ts), which is solved once for the largest order and nested for the others.
  *
- * Time base: Δt = 1/(2·1.25·f_hi) by default, so the band spans the arc from 0.8π·f_lo/f_hi to 0.8π
+ * Time base: 1/(2Δt) = max(1.25·f_hi, f_lo + f_hi) by default, so a wide band spans the arc from 0.8π·f_lo/f_hi to 0.8π
  * and the basis stays near-orthogonal however wide the band (docs/decisions/wide-band-lscf.md). Poles:
  * eigenvalues z_r of the block companion matrix, λ_r = ln(z_r)/Δt, f = |λ|/2π, ζ = −Re λ/|λ|; kept when
  * Im z > 0, f inside the band, 0 < ζ ≤ maxDampingRatio. Participation factor: left null vector of A(z_r);
@@ -97,7 +98,7 @@ export function stabilizationDiagram(frfSet: FrfSet, options: StabilizationOptio
   const timeBase = options.timeBase ?? 'band';
   if (timeBase !== 'band' && timeBase !== 'data') throw new RangeError(`timeBase=${String(timeBase)} must be 'band' or 'data'`);
   const fLast = g.f[g.f.length - 1];
-  const dt = options.dtS ?? 1 / (2 * (timeBase === 'band' ? BAND_GUARD * hi : fLast));
+  const dt = options.dtS ?? 1 / (2 * (timeBase === 'band' ? Math.max(BAND_GUARD * hi, lo + hi) : fLast));
   if (typeof dt !== 'number' || !(dt > 0) || !Number.isFinite(dt)) throw new RangeError(`dtS=${String(dt)} must be > 0 and finite`);
   if (hi > (1 / (2 * dt)) * (1 + 1e-12)) throw new RangeError(`dtS=${dt} s aliases the band: bandHz[1]=${hi} Hz is above 1/(2·dtS)=${1 / (2 * dt)} Hz`);
   const orders = [...new Set(options.orders)].sort((a, b) => a - b);
