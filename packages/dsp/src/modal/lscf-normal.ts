@@ -80,34 +80,54 @@ export function lscfSums(
   }
   const sp = new Float64Array(no * ni * nd);
   const sm = new Float64Array(no * ni * nd);
-  const hr = new Float64Array(nf);
-  const hi = new Float64Array(nf);
-  // P_il(k) = Σ_o conj(H_oi)·H_ol (weighted), accumulated while the rows pass.
-  const pr = new Float64Array(ni * ni * nf);
-  const pim = new Float64Array(ni * ni * nf);
-  for (let o = 0; o < no; o++) {
-    const w = weights[o];
-    for (let i = 0; i < ni; i++) {
+  // Weighted FRFs, four at a time per pass over the table of powers (the table is the memory traffic).
+  const nq = no * ni;
+  const hr = new Float64Array(4 * nf);
+  const hi = new Float64Array(4 * nf);
+  for (let q0 = 0; q0 < nq; q0 += 4) {
+    const cnt = Math.min(4, nq - q0);
+    hr.fill(0);
+    hi.fill(0);
+    for (let c = 0; c < cnt; c++) {
+      const o = Math.floor((q0 + c) / ni);
+      const i = (q0 + c) % ni;
+      const w = weights[o];
       const xr = re[o][i];
       const xi = im[o][i];
       for (let k = 0; k < nf; k++) {
-        hr[k] = w * xr[k0 + k];
-        hi[k] = w * xi[k0 + k];
-      }
-      const base = (o * ni + i) * nd;
-      for (let d = 0; d < nd; d++) {
-        let a = 0;
-        let b = 0;
-        const off = d * nf;
-        for (let k = 0; k < nf; k++) {
-          a += cs[off + k] * hr[k];
-          b += sn[off + k] * hi[k];
-        }
-        sp[base + d] = a;
-        sm[base + d] = b;
+        hr[c * nf + k] = w * xr[k0 + k];
+        hi[c * nf + k] = w * xi[k0 + k];
       }
     }
-    const w2 = w * w;
+    for (let d = 0; d < nd; d++) {
+      let a0 = 0, a1 = 0, a2 = 0, a3 = 0;
+      let b0 = 0, b1 = 0, b2 = 0, b3 = 0;
+      const off = d * nf;
+      for (let k = 0; k < nf; k++) {
+        const c = cs[off + k];
+        const sv = sn[off + k];
+        a0 += c * hr[k];
+        b0 += sv * hi[k];
+        a1 += c * hr[nf + k];
+        b1 += sv * hi[nf + k];
+        a2 += c * hr[2 * nf + k];
+        b2 += sv * hi[2 * nf + k];
+        a3 += c * hr[3 * nf + k];
+        b3 += sv * hi[3 * nf + k];
+      }
+      const a = [a0, a1, a2, a3];
+      const b = [b0, b1, b2, b3];
+      for (let c = 0; c < cnt; c++) {
+        sp[(q0 + c) * nd + d] = a[c];
+        sm[(q0 + c) * nd + d] = b[c];
+      }
+    }
+  }
+  // P_il(k) = Σ_o conj(H_oi)·H_ol (weighted).
+  const pr = new Float64Array(ni * ni * nf);
+  const pim = new Float64Array(ni * ni * nf);
+  for (let o = 0; o < no; o++) {
+    const w2 = weights[o] * weights[o];
     for (let i = 0; i < ni; i++) {
       for (let l = 0; l < ni; l++) {
         const ar = re[o][i];
