@@ -14,6 +14,7 @@ export {
 export type { GeometryPoint, DemoStructure } from './geometry.ts';
 export { steelBar, steelBarModel, STEEL_BAR, STEEL_BAR_SUSPENSION, STEEL_BAR_ZETA, type SteelBarModelInput, type SteelBarSuspension } from './steel-bar.ts';
 export { pumpSkidBaseplate, PUMP_SKID_PLATE, type PumpSkidOptions } from './pump-skid.ts';
+export { simplySupportedPlate, SS_PLATE, type SsPlateOptions } from './ss-plate.ts';
 export {
   halfSineForce,
   halfSineImpulse,
