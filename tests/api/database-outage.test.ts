@@ -17,6 +17,7 @@ import { barHitsWav } from '../support/bar-wav.ts';
 import { startTcpProxy, type TcpProxy } from '../support/tcp-proxy.ts';
 import { adminUrl } from '../support/db.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { isDatabaseUnavailable } from '@resonote/api/db-health';
 
 let proxy: TcpProxy;
 let app: TestApp;
@@ -76,7 +77,8 @@ describe('a lost database connection', () => {
     const health = await request(app.handle.app).get('/api/health');
     expect(health.status).toBe(503);
     expect(health.headers['retry-after']).toBe('3');
-    expect(health.body).toMatchObject({ status: 'degraded', database: { status: 'unreachable' } });
+    // Public: when, not why (hosts and ports stay in the server's log).
+    expect(health.body).toEqual({ status: 'degraded', database: { status: 'unreachable', since: expect.any(String) } });
     const since = Date.parse(health.body.database.since);
     expect(Math.abs(since - cutAt)).toBeLessThan(5_000);
 
@@ -93,6 +95,29 @@ describe('a lost database connection', () => {
     expect(back.body).toMatchObject({ status: 'ok', database: { status: 'up' } });
     expect((await lead.agent.get('/api/me')).status).toBe(200);
     expect(app.handle.databaseStatus.state()).toEqual({ reachable: true, since: null, lastError: null });
+  });
+
+  it('tells a lost connection from other failures: pg and network codes, SQLSTATE 57P0x and class 08, pg messages, through wrapping causes', () => {
+    // SQLSTATE values from the PostgreSQL documentation, Appendix A "PostgreSQL Error Codes".
+    const lost = [
+      Object.assign(new Error('terminating connection due to administrator command'), { code: '57P01' }),
+      Object.assign(new Error('the database system is starting up'), { code: '57P03' }),
+      Object.assign(new Error('connection failure'), { code: '08006' }),
+      Object.assign(new Error('connect ECONNREFUSED 127.0.0.1:5432'), { code: 'ECONNREFUSED' }),
+      new Error('Connection terminated unexpectedly'),
+      new Error('Failed query: SELECT 1', { cause: Object.assign(new Error('x'), { code: '57P01' }) }),
+      new AggregateError([Object.assign(new Error('refused'), { code: 'ECONNREFUSED' })], 'all attempts failed'),
+    ];
+    for (const err of lost) expect(isDatabaseUnavailable(err), err.message).toBe(true);
+    const other = [
+      Object.assign(new Error('duplicate key value violates unique constraint'), { code: '23505' }),
+      Object.assign(new Error('syntax error'), { code: '42601' }),
+      new Error('Failed query: insert', { cause: Object.assign(new Error('deadlock detected'), { code: '40P01' }) }),
+      new RangeError('fs=0 must be > 0'),
+      null,
+      'Connection terminated',
+    ];
+    for (const err of other) expect(isDatabaseUnavailable(err), String(err)).toBe(false);
   });
 
   it('answers 503 to an upload whose backend is terminated inside its transaction (57P01), stores nothing of it, and stores the retry with the same key once', async () => {

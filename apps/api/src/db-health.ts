@@ -30,6 +30,17 @@ export function isDatabaseUnavailable(err: unknown, depth = 0): boolean {
   return isDatabaseUnavailable(e.cause, depth + 1);
 }
 
+/** The innermost error's message (Drizzle's "Failed query: …" wraps the one that says what happened). */
+function rootMessage(err: unknown): string {
+  let e: unknown = err;
+  for (let i = 0; i < 6; i++) {
+    const next = (e as { cause?: unknown; errors?: unknown[] } | null)?.cause ?? (e as { errors?: unknown[] } | null)?.errors?.[0];
+    if (!(next instanceof Error)) break;
+    e = next;
+  }
+  return e instanceof Error ? e.message : String(e);
+}
+
 export interface DatabaseState {
   reachable: boolean;
   /** When the current outage was first noticed (ISO time); null while reachable. */
@@ -51,7 +62,7 @@ export class DatabaseStatus {
 
   /** A connection broke or could not be made. */
   noteFailure(err: unknown): void {
-    const message = err instanceof Error ? err.message : String(err);
+    const message = rootMessage(err);
     this.lastError = message;
     if (this.downSince) return;
     this.downSince = new Date();
