@@ -7,7 +7,8 @@ import http from 'node:http';
 import net from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
-import { hit, noiseCheck, point } from '@resonote/db/schema';
+import { strToU8, unzipSync, zipSync } from 'fflate';
+import { campaign, hit, noiseCheck, point } from '@resonote/db/schema';
 import { encodeWav } from '@resonote/api/recording';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
@@ -211,6 +212,26 @@ describe('a multipart body cut off before its end', () => {
     expectRefusal(res, 400, 'upload-cut-off', /The upload was cut off before it ended .*send it again\. Nothing was stored\./);
     expect(res.body.error.message).not.toMatch(/Unexpected end of form/);
     expect(await hitRows()).toBe(0);
+  });
+});
+
+describe('a backup with a row that does not fit', () => {
+  it('is refused by name (a timestamp that is no time was a 500 found by the fuzz run), restoring nothing', async () => {
+    const backup = await lead.agent.get(`/api/campaigns/${rig.campaignId}/backup`).buffer(true).parse((res, done) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => done(null, Buffer.concat(chunks)));
+    });
+    expect(backup.status).toBe(200);
+    const files = unzipSync(new Uint8Array(backup.body as Buffer));
+    const points = JSON.parse(Buffer.from(files['tables/point.json']!).toString('utf8')) as Record<string, unknown>[];
+    points[0]!.createdAt = 'the day before yesterday';
+    files['tables/point.json'] = strToU8(JSON.stringify(points));
+    const [before] = await app.handle.database.db.select({ n: count() }).from(campaign);
+    const res = await lead.agent.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync(files)), 'edited.zip');
+    expectRefusal(res, 400, 'backup-corrupt', /tables\/point\.json has a createdAt that is not a timestamp \("the day before yesterday"\)\. Nothing was restored\./);
+    const [after] = await app.handle.database.db.select({ n: count() }).from(campaign);
+    expect(after!.n).toBe(before!.n);
   });
 });
 

@@ -192,6 +192,13 @@ function isDbInputError(err: unknown): string | null {
   return null;
 }
 
+/** A timestamp of a backup row (ISO text); anything that is no time is refused, not left for the driver to throw on. */
+function timestampOf(v: unknown, table: string, key: string): Date {
+  const d = typeof v === 'string' || typeof v === 'number' ? new Date(v) : null;
+  if (!d || Number.isNaN(d.getTime())) throw corrupt(`tables/${table}.json has a ${key} that is not a timestamp (${JSON.stringify(v)?.slice(0, 40) ?? String(v)})`);
+  return d;
+}
+
 export interface RestoreResult {
   campaignId: string;
   name: string;
@@ -326,7 +333,7 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: Restorer, op
         const v = row[key];
         if (spec.userCols.includes(key)) out[key] = typeof v === 'string' ? (userMap.get(v) ?? null) : null;
         else if (spec.name === 'hit' && key === 'samples') out[key] = blobs.get(row.id as string)!;
-        else if (type === 'PgTimestamp') out[key] = v === null || v === undefined ? v : new Date(v as string);
+        else if (type === 'PgTimestamp') out[key] = v === null || v === undefined ? v : timestampOf(v, spec.name, key);
         else if (type === 'PgCustomColumn') out[key] = typeof v === 'string' ? Buffer.from(v, 'base64') : v;
         else out[key] = remap(v, ids);
       }
