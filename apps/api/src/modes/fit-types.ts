@@ -16,7 +16,7 @@ export interface StoredDiagram {
   responses: string[];
   references: string[];
   transposed: boolean;
-  orders: { order: number; poles: { fHz: number; zeta: number; stable: string; lambda: { re: number; im: number } }[] }[];
+  orders: { order: number; poles: { fHz: number; zeta: number; stable: string; lambda: { re: number; im: number }; shape?: { re: number[]; im: number[] } }[] }[];
 }
 
 export interface FitResult {

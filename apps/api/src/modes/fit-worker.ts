@@ -25,7 +25,8 @@ parentPort!.on('message', (job: FitJob) => {
     const diagram = stabilizationDiagram(set, { bandHz: job.bandHz, orders: job.orders, tolerances: job.tolerances });
     const orders = diagram.orders.map((o) => ({
       order: o.order,
-      poles: o.poles.map((p) => ({ fHz: p.fHz, zeta: p.zeta, stable: p.stable, lambda: p.lambda })),
+      // The shape estimate of each pole is kept for the suggestion, which clusters by frequency and MAC.
+      poles: o.poles.map((p) => ({ fHz: p.fHz, zeta: p.zeta, stable: p.stable, lambda: p.lambda, shape: { re: Array.from(p.shape.re), im: Array.from(p.shape.im) } })),
     }));
     post({
       type: 'done',

@@ -4,9 +4,9 @@
 import { randomUUID } from 'node:crypto';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
+import { averageFrf, forceWindow, transientSpectrum, type Complex, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
-import { uuidSchema } from '@resonote/contracts';
+import { AXIS_CONVENTION, frfAxisFactor, sameAxis, uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
@@ -477,14 +477,19 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const reciprocity = [];
       for (const a of entries) {
         if (!withResult.has(a.id)) continue;
-        const b = entries.find((x) => x.r === a.e && x.rd === a.ed && x.e === a.r && x.ed === a.rd && x.id !== a.id);
+        // The reciprocal pair by physical axis, whatever the written signs (contracts/axis.ts).
+        const b = entries.find((x) => x.r === a.e && sameAxis(`${x.r}:${x.rd}`, `${a.e}:${a.ed}`) && x.e === a.r && sameAxis(`${x.e}:${x.ed}`, `${a.r}:${a.rd}`) && x.id !== a.id);
         if (!b || !withResult.has(b.id) || a.id > b.id) continue;
         const ra = await entryResult(db, access.campaignId, a.id, settings);
         const rb = await entryResult(db, access.campaignId, b.id, settings);
         if (!ra || !rb || ra.samples !== rb.samples) continue;
         const ia = mainChannel(ra.channels, `${a.r}:${a.rd}`);
         const ib = mainChannel(rb.channels, `${b.r}:${b.rd}`);
-        reciprocity.push({ a: label(a), b: label(b), ...compareFrfs(ra.frf.h1[ia]!, rb.frf.h1[ib]!, ra.frf.f, s.bandHz) });
+        // Both FRFs on the positive axes before they are compared: H(i,−d) = −H(i,+d).
+        const fa = frfAxisFactor(`${a.r}:${a.rd}`, `${a.e}:${a.ed}`);
+        const fb = frfAxisFactor(`${b.r}:${b.rd}`, `${b.e}:${b.ed}`);
+        const scaled = (h: Complex, k: number) => (k === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) });
+        reciprocity.push({ a: label(a), b: label(b), axisConvention: AXIS_CONVENTION, ...compareFrfs(scaled(ra.frf.h1[ia]!, fa), scaled(rb.frf.h1[ib]!, fb), ra.frf.f, s.bandHz) });
       }
       const linearity = [];
       for (const e of entries) {
