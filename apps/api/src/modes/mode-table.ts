@@ -117,3 +117,23 @@ export function synthesizeFromTable(rows: readonly TableRow[], f: Float64Array, 
   }
   return { h: { re, im }, used, missing };
 }
+
+/** One row of the mode table as the page and the hand-over read it. */
+export function rowView(r: TableRow, mode: number, rows: readonly TableRow[]) {
+  const number = (id: string | null) => (id ? rows.findIndex((x) => x.id === id) + 1 || null : null);
+  return {
+    id: r.id,
+    mode,
+    fHz: r.fHz,
+    zetaPercent: r.zetaPercent,
+    estimated: { fHz: (r.model as StoredModel).modes[0]?.fHz ?? r.fHz, zetaPercent: r.zetaPercentRaw },
+    mpc: r.mpc,
+    pole: { order: r.modelOrder, index: r.poleIndex },
+    source: { fitId: r.fitId, bandHz: [r.bandLowHz, r.bandHighHz] as [number, number], references: r.references, order: r.modelOrder, poleIndex: r.poleIndex, inputHash: r.inputHash },
+    shape: r.shape as ShapeEntry[],
+    massShape: (r.massShape as { dof: string; re: number; im: number }[] | null) ?? null,
+    massNote: r.massNote,
+    duplicate: r.duplicate ? { of: number(r.duplicateOf), ofId: r.duplicateOf, note: r.duplicateNote } : null,
+    addedAt: r.addedAt,
+  };
+}

@@ -4,16 +4,16 @@
 import { randomUUID } from 'node:crypto';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { averageFrf, forceWindow, transientSpectrum, type Complex, type HitCheck } from '@resonote/dsp';
+import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
-import { AXIS_CONVENTION, frfAxisFactor, sameAxis, uuidSchema } from '@resonote/contracts';
+import { AXIS_CONVENTION, uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
 import { channelMapFor, storageOrder, uploadInEngineeringUnits, type ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs, entryLinearity } from '../hits/checks.ts';
+import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
 import {
@@ -478,7 +478,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       for (const a of entries) {
         if (!withResult.has(a.id)) continue;
         // The reciprocal pair by physical axis, whatever the written signs (contracts/axis.ts).
-        const b = entries.find((x) => x.r === a.e && sameAxis(`${x.r}:${x.rd}`, `${a.e}:${a.ed}`) && x.e === a.r && sameAxis(`${x.e}:${x.ed}`, `${a.r}:${a.rd}`) && x.id !== a.id);
+        const b = entries.find((x) => isReciprocal({ responseDof: `${a.r}:${a.rd}`, excitationDof: `${a.e}:${a.ed}` }, { responseDof: `${x.r}:${x.rd}`, excitationDof: `${x.e}:${x.ed}` }) && x.id !== a.id);
         if (!b || !withResult.has(b.id) || a.id > b.id) continue;
         const ra = await entryResult(db, access.campaignId, a.id, settings);
         const rb = await entryResult(db, access.campaignId, b.id, settings);
@@ -486,10 +486,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         const ia = mainChannel(ra.channels, `${a.r}:${a.rd}`);
         const ib = mainChannel(rb.channels, `${b.r}:${b.rd}`);
         // Both FRFs on the positive axes before they are compared: H(i,−d) = −H(i,+d).
-        const fa = frfAxisFactor(`${a.r}:${a.rd}`, `${a.e}:${a.ed}`);
-        const fb = frfAxisFactor(`${b.r}:${b.rd}`, `${b.e}:${b.ed}`);
-        const scaled = (h: Complex, k: number) => (k === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) });
-        reciprocity.push({ a: label(a), b: label(b), axisConvention: AXIS_CONVENTION, ...compareFrfs(scaled(ra.frf.h1[ia]!, fa), scaled(rb.frf.h1[ib]!, fb), ra.frf.f, s.bandHz) });
+        reciprocity.push({ a: label(a), b: label(b), axisConvention: AXIS_CONVENTION, ...compareFrfs(onPositiveAxis(ra.frf.h1[ia]!, `${a.r}:${a.rd}`, `${a.e}:${a.ed}`), onPositiveAxis(rb.frf.h1[ib]!, `${b.r}:${b.rd}`, `${b.e}:${b.ed}`), ra.frf.f, s.bandHz) });
       }
       const linearity = [];
       for (const e of entries) {
