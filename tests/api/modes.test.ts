@@ -85,7 +85,17 @@ describe('modal fit of the demo bar', () => {
       const measured = m.shape.map((s) => s.real);
       expect(mac(measured, analytic), `MAC of mode ${i + 1}`).toBeGreaterThanOrEqual(0.98);
       expect(m.mpc).toBeGreaterThan(0.9);
+      // Unit modal mass from the driving point B21:+Z (Ewins 2000): the least-squares scale of the fitted
+      // mass-normalised shape onto the simulator's mass-normalised one (φ̃/√(ρAL), 1/√kg) is 1 within 10 %.
+      const massShape = (m as unknown as { massShape: { dof: string; real: number }[] | null }).massShape;
+      expect(massShape, `mode ${i + 1} mass-normalised`).not.toBeNull();
+      const a = massShape!.map((x) => elastic[i]!.shape[x.dof] ?? 0);
+      const b = massShape!.map((x) => x.real);
+      const scale = a.reduce((acc, v, j) => acc + v * b[j]!, 0) / a.reduce((acc, v) => acc + v * v, 0);
+      // A shape's overall sign is arbitrary (the fitted one puts the driving point positive), so |scale|.
+      expect(Math.abs(Math.abs(scale) - 1), `mode ${i + 1} modal-mass scale ${scale}`).toBeLessThan(0.1);
     });
+    expect(res.body.modes.massNote).toMatch(/driving point B21:\+Z/);
     // Auto-MAC of distinct bending modes is small off the diagonal.
     const macM = res.body.modes.mac as number[][];
     for (let a = 0; a < 4; a++) for (let b = 0; b < 4; b++) if (a !== b) expect(macM[a]![b]!).toBeLessThan(0.2);
@@ -122,6 +132,21 @@ describe('modal fit of the demo bar', () => {
       expect(pole.stable).toBe('all');
     }
     expect(res.body.rule).toMatch(/orders/);
+  });
+
+  it('warns in words, with the frequency, when the CMIF peaks where no stable column stands', async () => {
+    // Orders 2 and 4 only: too few orders for any mode to be suggested, so every CMIF peak lacks a column.
+    const res = await lead.post(`/api/campaigns/${barId}/modes/fits`).send({ bandHz: { low: 20, high: 600 }, maxOrder: 4 });
+    const low = await waitForFit(res.body.fit.id);
+    expect(low.status).toBe('done');
+    const warnings = (await viewer.get(`/api/campaigns/${barId}/modes/fits/${res.body.fit.id}`)).body.fit.warnings as { code: string; fHz: number; message: string }[];
+    const cmifPeaks = warnings.filter((w) => w.code === 'cmif-peak-without-column');
+    // The bar's bending modes (field-reference §7.1) are the CMIF peaks.
+    for (const f0 of HANDBOOK_HZ) expect(cmifPeaks.some((w) => Math.abs(w.fHz / f0 - 1) < 0.01), `${f0} Hz`).toBe(true);
+    expect(cmifPeaks[0]!.message).toMatch(/CMIF peaks at \d+(\.\d+)? Hz but no stable column/);
+    // The good fit has no such warning.
+    const good = (await viewer.get(`/api/campaigns/${barId}/modes/fits/${fitId}`)).body.fit.warnings as { code: string; fHz?: number }[];
+    expect(good.filter((w) => w.code === 'cmif-peak-without-column' && HANDBOOK_HZ.some((f0) => Math.abs(w.fHz! / f0 - 1) < 0.01))).toEqual([]);
   });
 
   it('keeps the chosen poles of a fit on the server before shapes are computed, with optimistic concurrency', async () => {
@@ -201,6 +226,7 @@ describe("the campaign's mode table", () => {
       expect(r.source.order).toBeGreaterThan(0);
       expect(r.duplicate).toBeNull();
       expect(r.estimated.zetaPercent).toBeGreaterThan(r.zetaPercent);
+      expect((r as unknown as { massShape: unknown }).massShape).not.toBeNull();
     }
     expect(table.mac).toHaveLength(rows.length);
     expect(table.axisConvention).toMatch(/positive axis/);

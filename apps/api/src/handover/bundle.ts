@@ -128,8 +128,9 @@ modes.csv         the campaign's mode table, one row per mode (from one or sever
 mode-shapes.csv   long format, one row per mode and DOF: mode,dof,re,im,real
                   re/im: unit-normalised complex shape (largest entry 1); real: its best real fit.
 mode-shapes-mass-normalised.csv
-                  mode,dof,re,im in 1/sqrt(kg) (unit modal mass, from the driving-point residue,
-                  Ewins 2000); only modes whose fit had a driving point; none for the others.
+                  mode,dof,re,im,real in 1/sqrt(kg) (unit modal mass, from the driving-point residue,
+                  Ewins 2000; real: rotated so the driving point is real and positive); only modes
+                  whose fit had a driving point; none for the others (modes.csv mass_normalised=no).
                   Directions: every DOF is on the positive axis of its point (+X, +Y, +Z); a DOF
                   measured as -Z had its values multiplied by -1 (H(i,-d) = -H(i,+d)).
 mac.csv           the MAC matrix of the table's shapes over the DOFs each pair shares
@@ -309,7 +310,7 @@ function bundleFiles(d: HandoverData, raw: RawHit[] | null): [string, Uint8Array
     ),
   );
   put('mode-shapes.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => m.shape.map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
-  put('mode-shapes-mass-normalised.csv', toCsv(['mode', 'dof', 're', 'im'], (modes?.table ?? []).flatMap((m) => (m.massShape ?? []).map((s) => [m.mode, s.dof, s.re, s.im]))));
+  put('mode-shapes-mass-normalised.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => (m.massShape ?? []).map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
   put('mac.csv', toCsv(['mode', ...(modes?.table ?? []).map((m) => String(m.mode))], (modes?.mac ?? []).map((row, i) => [i + 1, ...row])));
   put('settings.json', JSON.stringify(b.settings, null, 2));
   put('kit.json', JSON.stringify(b.kit, null, 2));

@@ -204,7 +204,7 @@ ${thumbs ? `<p class="small">Each thumbnail: |H1| accelerance in ${DB_REFERENCE}
     const massNotes = [...new Set(m.table.filter((r) => !r.massShape).map((r) => r.massNote).filter(Boolean))];
     const withMass = m.table.filter((r) => r.massShape);
     const massTable = withMass.length
-      ? `<h3>Mass-normalised shapes (unit modal mass, 1/√kg)</h3><p class="small">Scaled from the driving-point residue (Ewins 2000); real part of each entry.</p><table class="grid keep" style="width:auto"><thead><tr><th>Mode</th>${withMass[0]!.massShape!.map((s) => `<th class="n">${esc(s.dof)}</th>`).join('')}</tr></thead><tbody>${withMass.map((r) => `<tr><td class="n r">${r.mode}</td>${r.massShape!.map((s) => `<td class="n r">${s.re.toPrecision(4)}</td>`).join('')}</tr>`).join('')}</tbody></table>`
+      ? `<h3>Mass-normalised shapes (unit modal mass, 1/√kg)</h3><p class="small">Scaled from the driving-point residue (Ewins 2000); each shape rotated so the driving point is real and positive, real part given.</p><table class="grid keep" style="width:auto"><thead><tr><th>Mode</th>${withMass[0]!.massShape!.map((s) => `<th class="n">${esc(s.dof)}</th>`).join('')}</tr></thead><tbody>${withMass.map((r) => `<tr><td class="n r">${r.mode}</td>${r.massShape!.map((s) => `<td class="n r">${s.real.toPrecision(4)}</td>`).join('')}</tr>`).join('')}</tbody></table>`
       : '';
     sec.push(`<section><h2>9. Modes</h2>
 <p>The campaign's mode table: ${mono(m.table.length)} mode${m.table.length === 1 ? '' : 's'} taken from ${mono(m.fits.length)} fit${m.fits.length === 1 ? '' : 's'}:</p><ul class="small">${fitList}</ul>

@@ -131,7 +131,7 @@ export function rowView(r: TableRow, mode: number, rows: readonly TableRow[]) {
     pole: { order: r.modelOrder, index: r.poleIndex },
     source: { fitId: r.fitId, bandHz: [r.bandLowHz, r.bandHighHz] as [number, number], references: r.references, order: r.modelOrder, poleIndex: r.poleIndex, inputHash: r.inputHash },
     shape: r.shape as ShapeEntry[],
-    massShape: (r.massShape as { dof: string; re: number; im: number }[] | null) ?? null,
+    massShape: (r.massShape as { dof: string; re: number; im: number; real: number }[] | null) ?? null,
     massNote: r.massNote,
     duplicate: r.duplicate ? { of: number(r.duplicateOf), ofId: r.duplicateOf, note: r.duplicateNote } : null,
     addedAt: r.addedAt,

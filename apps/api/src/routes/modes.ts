@@ -4,7 +4,7 @@
 import { createHash } from 'node:crypto';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import { convertFrf, correctWindowDamping, estimateShapes, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
+import { convertFrf, correctWindowDamping, estimateShapes, fitQuality, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
 import { AXIS_CONVENTION, canonicalLabel, frfAxisFactor, uuidSchema } from '@resonote/contracts';
 import { line, modalFit, modeTableRow, point, scheduleEntry } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
@@ -16,7 +16,7 @@ import type { FitQueue } from '../modes/jobs.ts';
 import type { FitResult } from '../modes/fit-types.ts';
 import { loadModel, singleMode, storeModel, type StoredModel } from '../modes/model-store.ts';
 import { bumpTable, DUPLICATE_RULE, refreshDuplicates, rowView, synthesizeFromTable, tableMac, tableRows, tableVersion, type ShapeEntry } from '../modes/mode-table.ts';
-import { mpcWarnings, synthesisWarnings, QUALITY_LIMITS, type QualityWarning } from '../modes/quality.ts';
+import { cmifWarnings, mpcWarnings, synthesisWarnings, QUALITY_LIMITS, type QualityWarning } from '../modes/quality.ts';
 import { massShapesOf, suggestFromDiagram } from '../modes/suggest.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
@@ -145,7 +145,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       const r = result as FitResult | null;
       const slim = r ? { ...r, diagram: { ...r.diagram, orders: r.diagram.orders.map((o) => ({ order: o.order, poles: o.poles.map(({ shape: _s, ...p }) => p) })) } } : null;
       const modes = fit.modes as { warnings?: QualityWarning[] } | null;
-      const warnings = [...((r as { warnings?: QualityWarning[] } | null)?.warnings ?? []), ...(modes?.warnings ?? [])];
+      const warnings = [...cmifWarnings(r?.cmifPeaksWithoutColumn ?? []), ...(modes?.warnings ?? [])];
       return { fit: { ...rest, result: slim, draft: { poles: (draft as { poles?: unknown[] } | null)?.poles ?? null, version: draftVersion }, warnings } };
     },
   });
@@ -232,17 +232,12 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       const mac = macMatrix(shapes, shapes).map((row) => Array.from(row));
       // How well the model reproduces each FRF: FRAC of measured against synthesized over the band.
       const inBand = Array.from(set.f).map((x, k) => [x, k] as const).filter(([x]) => x >= request.bandHz[0] && x <= request.bandHz[1]).map(([, k]) => k);
+      // Synthesis error per FRF, 100·‖H − Ĥ‖/‖H‖ over the band (dsp fitQuality).
+      const quality = fitQuality(set, model, request.bandHz);
       const fit2 = set.frfs.map((x) => {
         const syn = synthesize(model, set.f, x.response, x.reference, set.kind);
         const pick = (c: Complex) => ({ re: Float64Array.from(inBand, (k) => c.re[k]!), im: Float64Array.from(inBand, (k) => c.im[k]!) });
-        // Synthesis error: energy of (measured − synthesized) over the energy of the measured FRF in the band, %.
-        let num = 0;
-        let den = 0;
-        for (const k of inBand) {
-          num += (x.h.re[k]! - syn.re[k]!) ** 2 + (x.h.im[k]! - syn.im[k]!) ** 2;
-          den += x.h.re[k]! ** 2 + x.h.im[k]! ** 2;
-        }
-        return { response: x.response, reference: x.reference, frac: frac(pick(x.h), pick(syn)), errorPercent: den > 0 ? (100 * num) / den : null };
+        return { response: x.response, reference: x.reference, frac: frac(pick(x.h), pick(syn)), errorPercent: quality.frfs.find((q) => q.response === x.response && q.reference === x.reference)?.errorPercent ?? null };
       });
       const table = model.modes.map((m, i) => ({
         mode: i + 1,
@@ -252,7 +247,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
         mpc: m.mpc,
         pole: body.poles[i],
         shape: model.responses.map((dof, j) => ({ dof, re: m.shape.re[j]!, im: m.shape.im[j]!, real: m.realShape[j]! })),
-        massShape: mass.shapes?.[i] ? model.responses.map((dof, j) => ({ dof, re: mass.shapes![i]!.re[j]!, im: mass.shapes![i]!.im[j]! })) : null,
+        massShape: mass.shapes[i] ?? null,
       }));
       const warnings = [...mpcWarnings(table), ...synthesisWarnings(fit2.map((x) => ({ response: x.response, reference: x.reference, errorPercent: x.errorPercent })).filter((x): x is { response: string; reference: string; errorPercent: number } => x.errorPercent !== null))];
       const chosenAt = new Date().toISOString();
@@ -333,7 +328,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     status: 201,
     handler: async ({ body, campaign: access, user: me }) => {
       const fit = await loadFit(access.campaignId, body.fitId);
-      const computed = fit.modes as { table: { mode: number; fHz: number; zetaPercent: number; estimated: { fHz: number; zetaPercent: number }; mpc: number; pole?: { order: number; index: number }; shape: ShapeEntry[]; massShape?: { dof: string; re: number; im: number }[] | null }[]; model: StoredModel; massNote?: string } | null;
+      const computed = fit.modes as { table: { mode: number; fHz: number; zetaPercent: number; estimated: { fHz: number; zetaPercent: number }; mpc: number; pole?: { order: number; index: number }; shape: ShapeEntry[]; massShape?: { dof: string; re: number; im: number; real: number }[] | null }[]; model: StoredModel; massNote?: string } | null;
       if (!computed) throw conflict('No shapes have been computed in this fit yet: choose poles and compute shapes first.');
       const request = fit.request as { bandHz: [number, number] };
       const picked = [...new Set(body.modes)].map((n, i) => {
