@@ -16,8 +16,8 @@ export function ModeTable({ modes, selected, onSelect, onRemove, busy }: { modes
               <span className="block font-normal">window-corrected</span>
             </th>
             <th scope="col" className="pr-3 text-right font-medium">
-              ζ estimated (%)
-              <span className="block font-normal">before correction</span>
+              ζ raw (%)
+              <span className="block font-normal">as estimated</span>
             </th>
             <th scope="col" className="pr-3 text-right font-medium">
               MPC (0–1)
@@ -25,7 +25,7 @@ export function ModeTable({ modes, selected, onSelect, onRemove, busy }: { modes
             </th>
             <th scope="col" className="pr-3 font-medium">
               From fit
-              <span className="block font-normal">band · order</span>
+              <span className="block font-normal">band, model order</span>
             </th>
             <th scope="col" className="pr-3 font-medium">Unit modal mass</th>
             {onRemove && <th scope="col" className="sr-only">Remove</th>}
@@ -66,7 +66,7 @@ export function ModeTable({ modes, selected, onSelect, onRemove, busy }: { modes
                 )}
               </td>
               <td className="num pr-3 align-top text-xs text-[var(--muted)]">
-                {m.source.bandHz[0]}–{m.source.bandHz[1]} Hz · {m.source.order}
+                <span className="whitespace-nowrap">{m.source.bandHz[0]}–{m.source.bandHz[1]} Hz</span> <span className="whitespace-nowrap">order {m.source.order}</span>
               </td>
               <td className="pr-3 align-top text-xs" title={m.massNote}>
                 {m.massShape ? (

@@ -40,7 +40,13 @@ export function ModesPage() {
   const fitKey = modeKeys.fit(campaignId, shownFitId ?? '');
 
   // The chosen poles: the fit's draft on the server (or, for an older fit, the poles of its computed modes).
-  const [chosen, setChosen] = useState<PoleRef[]>([]);
+  const [chosen, setChosenState] = useState<PoleRef[]>([]);
+  // The latest choice, read by handlers that fire several times before a render (plotly clicks).
+  const chosenRef = useRef<PoleRef[]>([]);
+  const setChosen = (next: PoleRef[]) => {
+    chosenRef.current = next;
+    setChosenState(next);
+  };
   const [draftState, setDraftState] = useState<'saved' | 'saving' | 'failed'>('saved');
   const draftVersion = useRef(1);
   const saving = useRef<Promise<void>>(Promise.resolve());
@@ -102,13 +108,16 @@ export function ModesPage() {
     onError: (err) => fail(err, [fitKey]),
   });
 
-  const toggle = (p: PoleRef) => choose(chosen.some((x) => samePole(x, p)) ? chosen.filter((x) => !samePole(x, p)) : [...chosen, p]);
+  const toggle = (p: PoleRef) => {
+    const now = chosenRef.current;
+    choose(now.some((x) => samePole(x, p)) ? now.filter((x) => !samePole(x, p)) : [...now, p]);
+  };
   const addStable = (order: number) => {
     const o = fit?.result?.diagram.orders.find((x) => x.order === order);
     if (!o) return;
     // The same mode is not chosen twice: a chosen pole within 1 % of a new one is replaced.
     const add = o.poles.map((p, index) => ({ p, ref: { order, index } })).filter(({ p }) => p.stable === 'all');
-    const keep = chosen.filter((x) => {
+    const keep = chosenRef.current.filter((x) => {
       const pole = fit?.result?.diagram.orders.find((y) => y.order === x.order)?.poles[x.index];
       return !pole || !add.some(({ p }) => Math.abs(p.fHz - pole.fHz) / p.fHz < 0.01);
     });
@@ -251,7 +260,7 @@ function FitModes({ campaignId, fit, modes, table, canLead }: { campaignId: stri
     mutationFn: () => api<{ version: number; modes: TableRow[] }>(`/campaigns/${campaignId}/modes/table`, { body: { fitId: fit.id, modes: picked.map((m) => m.mode), baseVersion: table.version } }),
     onSuccess: (r) => {
       client.setQueryData<CurrentModes>(modeKeys.current(campaignId), (old) => (old ? { ...old, version: r.version, modes: r.modes } : old));
-      void client.invalidateQueries({ queryKey: modeKeys.current(campaignId) });
+      void client.invalidateQueries({ queryKey: modeKeys.current(campaignId), exact: true });
       const twice = r.modes.filter((m) => m.duplicate).length;
       toast(twice ? 'info' : 'ok', `${picked.length} mode${picked.length === 1 ? '' : 's'} added to the mode table.${twice ? ` ${twice} row${twice === 1 ? ' holds a mode' : 's hold modes'} found twice; see the flags.` : ''}`);
       setUnticked(new Set());
@@ -314,8 +323,8 @@ function FitModes({ campaignId, fit, modes, table, canLead }: { campaignId: stri
             <PairSelect id="fit-synthesis-pair" pairs={pairs} value={pairIndex ?? drivingIndex} onChange={setPairIndex} />
             {synthesis.isPending && <Spinner label="Synthesizing the FRF…" />}
             {synthesis.isError && <Notice tone="error">The synthesized FRF could not be loaded: {synthesis.error.message}</Notice>}
-            {synthesis.data && pair && <SynthesisPlot synthesis={synthesis.data} title={`${pair.response} / ${pair.reference} · ${modes.table.length} modes of this fit`} height={360} />}
-            <p className="text-xs text-[var(--muted)]">Accelerance, H1, over the fit's band, with the fit's residual terms. Synthesis error = ‖measured − synthesized‖ / ‖measured‖.</p>
+            {synthesis.data && pair && <SynthesisPlot synthesis={synthesis.data} title={`${pair.response} / ${pair.reference}`} height={360} />}
+            <p className="text-xs text-[var(--muted)]">Accelerance, H1, from the {modes.table.length} modes computed in this fit, over the fit's band, with its residual terms. Synthesis error = ‖measured − synthesized‖ / ‖measured‖.</p>
           </div>
         )}
       </Panel>
@@ -402,7 +411,7 @@ function TableResults({ campaignId, table, entries, canLead }: { campaignId: str
     mutationFn: (row: TableRow) => api<{ version: number; modes: TableRow[] }>(`/campaigns/${campaignId}/modes/table/${row.id}?baseVersion=${table.version}`, { method: 'DELETE' }),
     onSuccess: (r, row) => {
       client.setQueryData<CurrentModes>(modeKeys.current(campaignId), (old) => (old ? { ...old, version: r.version, modes: r.modes } : old));
-      void client.invalidateQueries({ queryKey: modeKeys.current(campaignId) });
+      void client.invalidateQueries({ queryKey: modeKeys.current(campaignId), exact: true });
       toast('ok', `The mode at ${fmtHz(row.fHz)} Hz was removed from the table (its fit keeps it).`);
     },
     onError: (err) => fail(err, [modeKeys.current(campaignId)]),
@@ -497,10 +506,10 @@ function TableResults({ campaignId, table, entries, canLead }: { campaignId: str
               <PairSelect id="synthesis-pair" pairs={pairs} value={pairIndex ?? drivingIndex} onChange={setPairIndex} />
               {synthesis.isPending && <Spinner label="Synthesizing the FRF…" />}
               {synthesis.isError && <Notice tone="error">The synthesized FRF could not be loaded: {synthesis.error.message}</Notice>}
-              {synthesis.data && pair && <SynthesisPlot synthesis={synthesis.data} title={`${pair.response} / ${pair.reference} · ${synthesis.data.modesUsed?.length ?? 0} modes of the table`} height={400} />}
+              {synthesis.data && pair && <SynthesisPlot synthesis={synthesis.data} title={`${pair.response} / ${pair.reference}`} height={400} />}
               {synthesis.data && (
                 <p className="text-xs text-[var(--muted)]">
-                  Accelerance, H1, {synthesis.data.f[0]?.toFixed(1)}–{synthesis.data.f.at(-1)?.toFixed(1)} Hz: the whole band of the table's fits. {synthesis.data.note}
+                  Accelerance, H1, from {synthesis.data.modesUsed?.length ?? 0} modes of the table, {synthesis.data.f[0]?.toFixed(1)}–{synthesis.data.f.at(-1)?.toFixed(1)} Hz: the whole band of the table's fits. {synthesis.data.note}
                   {synthesis.data.modesWithoutThisFrf?.length ? ` Mode${synthesis.data.modesWithoutThisFrf.length === 1 ? '' : 's'} ${synthesis.data.modesWithoutThisFrf.join(', ')} came from fits without this FRF and are not in the sum.` : ''}
                 </p>
               )}
