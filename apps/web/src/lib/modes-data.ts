@@ -34,14 +34,42 @@ export interface ModeRow {
   mpc: number;
   pole?: PoleRef;
   shape: ShapeValue[];
+  /** Unit modal mass (1/√kg) where the fit had a driving point. */
+  massShape?: ShapeValue[] | null;
+}
+/** A row of the campaign's mode table: a mode with the fit it came from. */
+export interface TableRow extends ModeRow {
+  id: string;
+  source: { fitId: string | null; bandHz: [number, number]; references: string[]; order: number; poleIndex: number; inputHash: string };
+  massNote: string;
+  duplicate: { of: number | null; ofId: string | null; note: string } | null;
+  addedAt: string;
+}
+export interface QualityWarning {
+  code: 'cmif-peak-without-column' | 'synthesis-error' | 'low-mpc';
+  message: string;
+  fHz?: number;
+  value?: number;
 }
 export interface ChosenModes {
   table: ModeRow[];
   mac: number[][];
-  synthesisFrac: { response: string; reference: string; frac: number }[];
+  synthesisFrac: { response: string; reference: string; frac: number; errorPercent?: number | null }[];
   correction: string;
+  massNote?: string;
+  warnings?: QualityWarning[];
+  axisConvention?: string;
   chosenBy?: string;
   chosenAt?: string;
+}
+export interface SuggestedMode {
+  fHz: number;
+  zetaPercent: number;
+  representative: PoleRef;
+  count: number;
+  fSpreadPercent: number;
+  zetaSpreadPercent: number;
+  minMac: number;
 }
 
 export type FitStatus = 'queued' | 'running' | 'done' | 'failed';
@@ -53,6 +81,9 @@ export interface ModalFit {
   request: { bandHz: [number, number]; orders: number[]; frfCount: number; entryIds?: string[] };
   result: { cmif: { f: number[]; values: number[][] }; diagram: { orders: DiagramOrder[] } } | null;
   modes: ChosenModes | null;
+  /** Poles chosen but not yet computed, kept on the server; version for optimistic concurrency. */
+  draft: { poles: PoleRef[] | null; version: number };
+  warnings: QualityWarning[];
   createdAt: string;
   finishedAt: string | null;
   elapsedMs: number | null;
@@ -72,14 +103,15 @@ export interface FitSummary {
 }
 
 export interface CurrentModes {
-  fitId: string | null;
-  bandHz?: [number, number];
-  frfCount?: number;
-  modes: ModeRow[];
+  /** Version of the campaign's mode table (0 before the first row). */
+  version: number;
+  modes: TableRow[];
   mac: number[][];
-  correction?: string;
-  chosenBy?: string;
-  chosenAt?: string;
+  bandHz: [number, number] | null;
+  fitIds: string[];
+  duplicateRule: string;
+  axisConvention: string;
+  warnings: QualityWarning[];
   points: { id: string; label: string; x: number; y: number; z: number }[];
   lines: { pointA: string; pointB: string }[];
 }
@@ -90,13 +122,20 @@ export interface Synthesis {
   f: number[];
   measured: { re: number[]; im: number[] };
   synthesized: { re: number[]; im: number[] };
+  modesUsed?: number[];
+  modesWithoutThisFrf?: number[];
+  note?: string;
 }
 
 export const modeKeys = {
   current: (id: string) => ['campaign', id, 'modes'] as const,
   fits: (id: string) => ['campaign', id, 'modes', 'fits'] as const,
   fit: (id: string, fitId: string) => ['campaign', id, 'modes', 'fit', fitId] as const,
-  synthesis: (id: string, fitId: string, response: string, reference: string) => ['campaign', id, 'modes', 'fit', fitId, 'synthesis', response, reference] as const,
+  // The key names the computed pole set (chosenAt changes with every "Compute shapes"), so a
+  // synthesis of an earlier pole set is never shown for a newer one.
+  synthesis: (id: string, fitId: string, chosenAt: string, response: string, reference: string) => ['campaign', id, 'modes', 'fit', fitId, 'synthesis', chosenAt, response, reference] as const,
+  // …and the table's version, for the synthesis from the campaign's mode table.
+  tableSynthesis: (id: string, version: number, response: string, reference: string) => ['campaign', id, 'modes', 'table-synthesis', version, response, reference] as const,
 };
 
 export const useCurrentModes = (id: string) => useQuery({ queryKey: modeKeys.current(id), queryFn: () => api<CurrentModes>(`/campaigns/${id}/modes`) });
@@ -115,11 +154,23 @@ export const useFit = (id: string, fitId: string | null) =>
     refetchOnWindowFocus: false,
   });
 
-export const useSynthesis = (id: string, fitId: string | null, pair: { response: string; reference: string } | null) =>
+const pairQuery = (pair: { response: string; reference: string }) => `response=${encodeURIComponent(pair.response)}&reference=${encodeURIComponent(pair.reference)}&kind=accelerance`;
+
+/** Measured against synthesized from the modes computed in one fit (with its residual terms). */
+export const useSynthesis = (id: string, fitId: string | null, chosenAt: string | null, pair: { response: string; reference: string } | null) =>
   useQuery({
-    queryKey: modeKeys.synthesis(id, fitId ?? '', pair?.response ?? '', pair?.reference ?? ''),
-    queryFn: () => api<Synthesis>(`/campaigns/${id}/modes/fits/${fitId}/synthesis?response=${encodeURIComponent(pair!.response)}&reference=${encodeURIComponent(pair!.reference)}&kind=accelerance`),
-    enabled: Boolean(fitId && pair),
+    queryKey: modeKeys.synthesis(id, fitId ?? '', chosenAt ?? '', pair?.response ?? '', pair?.reference ?? ''),
+    queryFn: () => api<Synthesis>(`/campaigns/${id}/modes/fits/${fitId}/synthesis?${pairQuery(pair!)}`),
+    enabled: Boolean(fitId && chosenAt && pair),
+    refetchOnWindowFocus: false,
+  });
+
+/** Measured against synthesized from every mode of the campaign's mode table, over the whole band. */
+export const useTableSynthesis = (id: string, version: number, pair: { response: string; reference: string } | null) =>
+  useQuery({
+    queryKey: modeKeys.tableSynthesis(id, version, pair?.response ?? '', pair?.reference ?? ''),
+    queryFn: () => api<Synthesis>(`/campaigns/${id}/modes/synthesis?${pairQuery(pair!)}`),
+    enabled: Boolean(version > 0 && pair),
     refetchOnWindowFocus: false,
   });
 

@@ -60,7 +60,7 @@ export function ChosenPoles({ orders, chosen, canEdit, busy, onRemove, onAddStab
               <Button type="button" variant="secondary" className="w-full" onClick={onSuggest} data-testid="suggest-modes">
                 Suggest modes from the whole diagram
               </Button>
-              <p className="text-xs text-[var(--muted)]">Fully stable poles that come back at 40 % or more of the orders, within 1 % in frequency, count as one mode; the pole at the highest order is chosen. Check the suggestion on the diagram.</p>
+              <p className="text-xs text-[var(--muted)]">Computed on the server: fully stable poles that come back at 40 % or more of the orders, within 1 % in frequency and with agreeing shapes (MAC ≥ 0.9), count as one mode, so close modes with different shapes stay apart. Check the suggestion on the diagram.</p>
             </div>
           )}
           {withStable.length > 0 && helperOrder !== null && (
