@@ -1,7 +1,7 @@
 // Rational-ratio resampling by a polyphase windowed-sinc FIR: the method of
 // scipy.signal.resample_poly (Kaiser window, β = 5, half-length 10 × max(up, down) input-rate
 // samples, cut-off at the lower of the two Nyquist frequencies), written out here so a recording
-// made at another rate can join a campaign (docs/decisions/0014-bridge-and-api-tokens.md).
+// made at another rate can join a campaign (docs/decisions/bridge-and-api-tokens.md).
 // Method: Crochiere & Rabiner, "Multirate Digital Signal Processing" (1983), ch. 2–3; the Kaiser
 // window: Kaiser (1974).
 

@@ -33,7 +33,7 @@ export function newTokenSecret(): string {
   return API_TOKEN_PREFIX + randomBytes(32).toString('base64url');
 }
 
-/** SHA-256 hex of the whole secret: what the table stores (docs/decisions/0014-bridge-and-api-tokens.md). */
+/** SHA-256 hex of the whole secret: what the table stores (docs/decisions/bridge-and-api-tokens.md). */
 export function hashTokenSecret(secret: string): string {
   return createHash('sha256').update(secret, 'utf8').digest('hex');
 }
