@@ -8,7 +8,7 @@ import { bytea } from './hits.ts';
 
 /**
  * A personal API token: one campaign, a role no higher than the user's there. Only the SHA-256
- * of the secret is stored (docs/decisions/0014-bridge-and-api-tokens.md); `prefix` is the first
+ * of the secret is stored (docs/decisions/bridge-and-api-tokens.md); `prefix` is the first
  * characters of the secret, shown in lists so the user can tell tokens apart.
  */
 export const apiToken = pgTable(
