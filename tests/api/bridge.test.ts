@@ -26,7 +26,7 @@ const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof ==
 const hitsAt = async (excitation: string) => (await app.handle.database.db.select({ id: hit.id }).from(hit).where(eq(hit.scheduleEntryId, entry(excitation).id))).length;
 
 /** Hits as volts in a float32 WAV (2.25 mV/N hammer, 10.2 mV/(m/s²) accelerometer), as in tests/api/hits.test.ts. */
-function wav(excitationDof: string, seed: number, count: number, rateHz = fs0) {
+function wav(excitationDof: string, seed: number, count: number, rateHz: number = fs0) {
   const samples = Math.round(rateHz * BAR_SETTINGS.recordLengthS);
   const hits = hitSeries(bar.model, { excitationDof, responseDofs: ['B21:+Z'], fs: rateHz, samples, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500 }, count, createRng(seed), { doubleHitProbability: 0, overloadProbability: 0 });
   const force = new Float64Array(samples * count);
