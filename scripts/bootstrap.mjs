@@ -1,7 +1,7 @@
 // Bootstrap shared by `npm start` and `npm test`: pinned pnpm, dependencies, a PostgreSQL cluster
 // on 127.0.0.1 in a git-ignored folder, and (for tests) Debian's chromium. Plain Node, no
 // dependencies, because it runs before anything is installed.
-import { execFileSync, spawnSync } from 'node:child_process';
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import fs from 'node:fs';
 import os from 'node:os';
@@ -101,10 +101,11 @@ function clusterDir(name) {
 }
 
 /**
- * Makes sure a PostgreSQL cluster named `name` runs on 127.0.0.1:`port` with database `database`.
- * Returns { url, stop }.
+ * A PostgreSQL cluster named `name` on 127.0.0.1:`port` (created with initdb when missing), and the
+ * controls `npm start`'s supervisor and the fault test use: `running()` (is the postmaster alive?),
+ * `start()`, `stop(mode)`, `remove()`.
  */
-export function ensurePostgres({ name, port, database }) {
+export function postgresCluster({ name, port }) {
   let pgBin = findPgBin();
   if (!pgBin) {
     aptInstall(['postgresql']);
@@ -114,6 +115,7 @@ export function ensurePostgres({ name, port, database }) {
   const dir = clusterDir(name);
   const data = path.join(dir, 'data');
   const sock = path.join(dir, 'run');
+  const logFile = path.join(sock, 'postgres.log');
   fs.mkdirSync(sock, { recursive: true });
   if (isRoot) spawnSync('chown', ['-R', 'postgres:postgres', dir]);
   if (!fs.existsSync(path.join(data, 'PG_VERSION'))) {
@@ -124,20 +126,78 @@ export function ensurePostgres({ name, port, database }) {
     if (!init.ok) fail(`initdb failed:\n${init.stderr || init.stdout}`);
   }
   const pgCtl = path.join(pgBin, 'pg_ctl');
-  const status = pgRun(pgCtl, ['-D', data, 'status'], { quiet: true });
-  if (!status.ok) {
+  const startArgs = ['-D', data, '-l', logFile, '-o', `-h 127.0.0.1 -p ${port} -k ${sock} -c fsync=${name.includes('test') ? 'off' : 'on'}`, '-w', '-t', '60', 'start'];
+  const logTail = () => (fs.existsSync(logFile) ? fs.readFileSync(logFile, 'utf8').slice(-2000) : '');
+  return {
+    name,
+    port,
+    data,
+    logFile,
+    url: (database) => `postgres://postgres@127.0.0.1:${port}/${database}`,
+    /** The postmaster's pid from postmaster.pid when that process is alive, else null. */
+    postmasterPid() {
+      try {
+        const pid = Number(fs.readFileSync(path.join(data, 'postmaster.pid'), 'utf8').split('\n')[0]);
+        if (!Number.isInteger(pid) || pid <= 0) return null;
+        process.kill(pid, 0);
+        return pid;
+      } catch {
+        return null;
+      }
+    },
+    running() {
+      return pgRun(pgCtl, ['-D', data, 'status'], { quiet: true }).ok;
+    },
+    /** Starts the postmaster and waits until it accepts connections; { ok, message }. */
+    start() {
+      const started = pgRun(pgCtl, startArgs, { quiet: true });
+      return { ok: started.ok, message: started.ok ? '' : `${started.stderr}\n${logTail()}` };
+    },
+    /** The same as start() without blocking the event loop (the supervisor of `npm start`). */
+    startAsync() {
+      return new Promise((resolve) => {
+        const cmd = isRoot ? 'runuser' : pgCtl;
+        const args = isRoot ? ['-u', 'postgres', '--', pgCtl, ...startArgs] : startArgs;
+        const child = spawn(cmd, args, { stdio: 'pipe', cwd: os.tmpdir() });
+        let stderr = '';
+        child.stderr.on('data', (d) => (stderr += String(d)));
+        child.on('error', (err) => resolve({ ok: false, message: err.message }));
+        child.on('exit', (code) => resolve({ ok: code === 0, message: code === 0 ? '' : `${stderr}\n${logTail()}` }));
+      });
+    },
+    stop(mode = 'fast') {
+      return pgRun(pgCtl, ['-D', data, '-m', mode, '-w', 'stop'], { quiet: true });
+    },
+    /** Stops the cluster and deletes its folder (test clusters). */
+    remove() {
+      if (this.running()) this.stop('immediate');
+      fs.rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/**
+ * Makes sure a PostgreSQL cluster named `name` runs on 127.0.0.1:`port` with database `database`.
+ * Returns { url, stop, cluster }.
+ */
+export function ensurePostgres({ name, port, database }) {
+  const cluster = postgresCluster({ name, port });
+  if (!cluster.running()) {
     log(`starting PostgreSQL on 127.0.0.1:${port}`);
-    const start = pgRun(
-      pgCtl,
-      ['-D', data, '-l', path.join(sock, 'postgres.log'), '-o', `-h 127.0.0.1 -p ${port} -k ${sock} -c fsync=${name.includes('test') ? 'off' : 'on'}`, '-w', '-t', '60', 'start'],
-      { quiet: true },
-    );
-    if (!start.ok) {
-      const logText = fs.existsSync(path.join(sock, 'postgres.log')) ? fs.readFileSync(path.join(sock, 'postgres.log'), 'utf8').slice(-2000) : '';
-      fail(`PostgreSQL did not start on port ${port}:\n${start.stderr}\n${logText}`);
-    }
+    const start = cluster.start();
+    if (!start.ok) fail(`PostgreSQL did not start on port ${port}:\n${start.message}`);
   }
-  const psql = path.join(pgBin, 'psql');
+  ensureDatabase(port, database);
+  return {
+    url: cluster.url(database),
+    stop: () => cluster.stop('fast'),
+    cluster,
+  };
+}
+
+/** Creates `database` on the cluster at `port` unless it exists. */
+export function ensureDatabase(port, database) {
+  const psql = path.join(findPgBin(), 'psql');
   const base = ['-h', '127.0.0.1', '-p', String(port), '-U', 'postgres', '-v', 'ON_ERROR_STOP=1', '-tAc'];
   const exists = output(psql, [...base, `SELECT 1 FROM pg_database WHERE datname = '${database}'`]);
   if (!exists.ok) fail(`cannot reach PostgreSQL on port ${port}: ${exists.stderr}`);
@@ -145,10 +205,6 @@ export function ensurePostgres({ name, port, database }) {
     const created = output(psql, [...base, `CREATE DATABASE "${database}"`]);
     if (!created.ok) fail(`CREATE DATABASE ${database} failed: ${created.stderr}`);
   }
-  return {
-    url: `postgres://postgres@127.0.0.1:${port}/${database}`,
-    stop: () => pgRun(pgCtl, ['-D', data, '-m', 'fast', '-w', 'stop'], { quiet: true }),
-  };
 }
 
 export function ensureChromium() {

@@ -12,7 +12,6 @@ export default defineConfig({
     hookTimeout: 90_000,
     pool: 'forks',
     fileParallelism: false,
-    // One retry: the Tap test failed once in ~10 runs on this 2-core machine (not reproduced; see the issue 6 note).
-    retry: 1,
+    // No retries: a test that fails once is a finding (tests wait for states, never for time).
   },
 });

@@ -34,7 +34,7 @@ describe('demo seed', () => {
     expect(Object.keys(progress.rejectedByReason).length).toBeGreaterThan(0);
   });
 
-  it('puts the bar’s first bending mode where the handbook says (53.17 Hz, field-reference §7.1)', async () => {
+  it('puts the bar’s first bending mode where the handbook says (53.17 Hz, docs/methods.md#free-free-beam)', async () => {
     const lead = app.agent();
     await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
     const bar = ((await lead.get('/api/campaigns')).body.campaigns as { id: string; name: string }[]).find((c) => c.name === BAR_CAMPAIGN)!;

@@ -46,7 +46,7 @@ describe('geometry CSV import', () => {
     const res = await lead.agent.post(`${base()}/geometry/import`).send({ csv });
     expect(res.status).toBe(400);
     expect(res.body.error.details).toEqual([
-      { line: 3, message: 'z "zero" is not a number (mm)' },
+      { line: 3, message: 'column 4 (z, mm): the value "zero" is not a decimal number' },
       { line: 5, message: 'label "B01" already appears on line 2' },
     ]);
     expect(await countPoints()).toBe(0);

@@ -9,6 +9,8 @@ import { asc, count, eq } from 'drizzle-orm';
 import { auditEvent, campaign, campaignMember, hit, noiseCheck, scheduleEntry, user } from '@resonote/db/schema';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startTestApp, type TestApp } from '../support/app.ts';
+import { signUp } from '../support/accounts.ts';
+import { waitForMail } from '../support/campaign.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 const apiRequire = createRequire(new URL('../../apps/api/package.json', import.meta.url));
@@ -158,15 +160,32 @@ describe('campaign restore', () => {
     expect(events[0].after.from.campaignId).toBe(barId);
   });
 
-  it('adds the backup’s members who have an account here when asked with ?members=1', async () => {
+  it('invites the backup’s other members with their backup roles when asked with ?members=1; nobody joins before accepting', async () => {
     const res = await admin.post('/api/campaigns/restore?members=1').attach('file', backup, 'bar.zip');
     expect(res.status).toBe(201);
-    const members = (await admin.get(`/api/campaigns/${res.body.campaign.id}/members`)).body.members as { email: string; role: string }[];
-    const roles = Object.fromEntries(members.map((m) => [m.email, m.role]));
-    expect(roles['lead@demo.resonote.local']).toBe('lead');
-    expect(roles['engineer@demo.resonote.local']).toBe('engineer');
-    expect(roles['viewer@demo.resonote.local']).toBe('viewer');
-    expect(roles['admin@demo.resonote.local']).toBe('lead');
+    const id = res.body.campaign.id as string;
+    // The demo campaign's members besides the restorer (the demo admin): lead, engineer, viewer.
+    expect(res.body.invited).toEqual(
+      expect.arrayContaining([
+        { email: 'lead@demo.resonote.local', role: 'lead' },
+        { email: 'engineer@demo.resonote.local', role: 'engineer' },
+        { email: 'viewer@demo.resonote.local', role: 'viewer' },
+      ]),
+    );
+    expect(res.body.notInvited).toEqual([]);
+    const members = (await admin.get(`/api/campaigns/${id}/members`)).body.members as { email: string; role: string }[];
+    expect(members.map((m) => [m.email, m.role])).toEqual([['admin@demo.resonote.local', 'lead']]);
+    const open = (await admin.get(`/api/campaigns/${id}/invitations`)).body.invitations as { email: string; role: string }[];
+    expect(open.map((i) => `${i.email}/${i.role}`).sort()).toEqual(res.body.invited.map((i: { email: string; role: string }) => `${i.email}/${i.role}`).sort());
+    expect((await engineer.get(`/api/campaigns/${id}`)).status).toBe(404);
+
+    // The engineer accepts through the mailed link and only then holds the role.
+    const restoredName = `${BAR_CAMPAIGN} (restored)`.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
+    const mail = await waitForMail(app, 'engineer@demo.resonote.local', new RegExp(`invites you to the Resonote campaign “${restoredName}”`));
+    expect(mail.text).toMatch(/restored from a backup that lists you as a member; you join it only if you accept/);
+    const token = mail.text.match(/\/invitations\/([A-Za-z0-9_-]+)/)![1]!;
+    expect((await engineer.post(`/api/invitations/${token}/accept`).send({})).status).toBe(200);
+    expect((await engineer.get(`/api/campaigns/${id}`)).body.myRole).toBe('engineer');
   });
 
   it('restores a backup written before noise checks existed (no tables/noise_check.json) with none', async () => {
@@ -221,5 +240,75 @@ describe('campaign restore', () => {
     const [eng] = await db.select({ id: user.id }).from(user).where(eq(user.email, 'engineer@demo.resonote.local'));
     const led = await db.select().from(campaignMember).where(eq(campaignMember.userId, eng!.id));
     expect(led.every((m) => m.role !== 'lead')).toBe(true);
+  });
+});
+
+describe('restore from an edited backup', () => {
+  /** The backup with its JSON tables changed by `edit` (as anyone holding the file can). */
+  function edited(edit: (tables: { members: { userId: string; role: string; email: string; name: string }[]; users: { id: string; name: string; email: string }[] }) => void): Buffer {
+    const files = unzipSync(new Uint8Array(backup));
+    const read = (name: string) => JSON.parse(Buffer.from(files[name]!).toString('utf8'));
+    const tables = { members: read('tables/campaign_member.json'), users: read('tables/users.json') };
+    edit(tables);
+    const enc = (v: unknown) => new TextEncoder().encode(JSON.stringify(v));
+    return Buffer.from(zipSync({ ...files, 'tables/campaign_member.json': enc(tables.members), 'tables/users.json': enc(tables.users) }));
+  }
+
+  it('grants no role to an existing account that the backup lists as lead: it gets an invitation it may accept or not', async () => {
+    const target = await signUp(app, 'Tara Target', 'tara@lab.test');
+    const file = edited(({ members }) => members.push({ userId: 'not-a-local-id', role: 'lead', email: 'tara@lab.test', name: 'Tara Target' }));
+    const res = await lead.post('/api/campaigns/restore?members=1').attach('file', file, 'edited.zip');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    const id = res.body.campaign.id as string;
+    expect((await target.agent.get(`/api/campaigns/${id}`)).status).toBe(404);
+    const db = app.handle.database.db;
+    const rows = await db.select({ userId: campaignMember.userId, role: campaignMember.role }).from(campaignMember).where(eq(campaignMember.campaignId, id));
+    expect(rows).toHaveLength(1);
+    expect(res.body.invited).toContainEqual({ email: 'tara@lab.test', role: 'lead' });
+  });
+
+  it('answers the same whether or not an address has an account here', async () => {
+    await signUp(app, 'Hana Here', 'hana@lab.test');
+    const withAddress = (email: string) => edited(({ members }) => members.push({ userId: 'x', role: 'viewer', email, name: 'Someone' }));
+    const answers = [];
+    for (const email of ['hana@lab.test', 'nobody-here@lab.test']) {
+      const res = await lead.post('/api/campaigns/restore?members=1').attach('file', withAddress(email), 'edited.zip');
+      expect(res.status).toBe(201);
+      const { campaign: _c, ...rest } = res.body;
+      answers.push(JSON.stringify(rest).replaceAll(email, '<address>'));
+    }
+    expect(answers[1]).toBe(answers[0]);
+    expect(answers[0]).toContain('{"email":"<address>","role":"viewer"}');
+  });
+
+  it('records as nobody the hits a backup attributes to an address the restorer shares no campaign with', async () => {
+    const stranger = await signUp(app, 'Sam Stranger', 'stranger@lab.test');
+    // The backup's engineer (who recorded the hits) renamed to the stranger's address.
+    const file = edited(({ users }) => {
+      for (const u of users) if (u.email === 'engineer@demo.resonote.local') u.email = 'stranger@lab.test';
+    });
+    const res = await lead.post('/api/campaigns/restore').attach('file', file, 'edited.zip');
+    expect(res.status).toBe(201);
+    const db = app.handle.database.db;
+    const recorders = new Set((await db.select({ by: hit.recordedBy }).from(hit).where(eq(hit.campaignId, res.body.campaign.id))).map((h) => h.by));
+    expect(recorders.has(stranger.id)).toBe(false);
+    expect(recorders.has(null)).toBe(true);
+
+    // Unedited, the same lead's restore keeps the engineer (a colleague in the demo campaign) as recorder.
+    const plain = await lead.post('/api/campaigns/restore').attach('file', backup, 'bar.zip');
+    const [eng] = await db.select({ id: user.id }).from(user).where(eq(user.email, 'engineer@demo.resonote.local'));
+    const plainRecorders = new Set((await db.select({ by: hit.recordedBy }).from(hit).where(eq(hit.campaignId, plain.body.campaign.id))).map((h) => h.by));
+    expect(plainRecorders.has(eng!.id)).toBe(true);
+  });
+
+  it('refuses a backup that lists more members than one restore invites, and writes nothing', async () => {
+    const file = edited(({ members }) => {
+      for (let i = 0; i < 101; i++) members.push({ userId: `u${i}`, role: 'viewer', email: `many-${i}@lab.test`, name: `M ${i}` });
+    });
+    const before = await campaignCount();
+    const res = await lead.post('/api/campaigns/restore?members=1').attach('file', file, 'many.zip');
+    expect(res.status).toBe(400);
+    expect(res.body.error.code).toBe('too-many-members');
+    expect(await campaignCount()).toBe(before);
   });
 });

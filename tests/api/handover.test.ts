@@ -49,7 +49,7 @@ async function signIn(email: string) {
   return agent;
 }
 
-// Euler–Bernoulli free–free bar (field-reference §7.1), as in modes.test.ts.
+// Euler–Bernoulli free–free bar (docs/methods.md#free-free-beam), as in modes.test.ts.
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
 
 beforeAll(async () => {

@@ -1,5 +1,5 @@
 // Kit register, calibration records and the channel map, against the real Express app and a real
-// PostgreSQL database (design.md "Kit"; field-reference §9 units, §10 calibration and traceability).
+// PostgreSQL database (design.md "Kit"; docs/methods.md#units, #traceability).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { startTestApp, type TestApp } from '../support/app.ts';
@@ -55,7 +55,7 @@ describe('registering kit items', () => {
     expect(res.status).toBe(201);
     const item = res.body.item;
     expect(item).toMatchObject({ kind: 'hammer', model: 'HMR-10', serial: 'H-001', sensitivity: 10, sensitivityUnit: 'mV/lbf', sensitivityBaseUnit: 'mV/N', tips: ['medium'], axes: [], version: 1 });
-    // field-reference §9: 10 mV/lbf = 2.2481 mV/N (1 lbf = 4.4482216152605 N exactly).
+    // docs/methods.md#units: 10 mV/lbf = 2.2481 mV/N (1 lbf = 4.4482216152605 N exactly).
     expect(item.sensitivityBase).toBeCloseTo(2.2481, 4);
     expect(item.sensitivityBase).toBe(10 / 4.4482216152605);
   });
@@ -65,7 +65,7 @@ describe('registering kit items', () => {
     expect(res.status).toBe(201);
     const item = res.body.item;
     expect(item).toMatchObject({ kind: 'accelerometer', sensitivity: 100, sensitivityUnit: 'mV/g', sensitivityBaseUnit: 'mV/(m/s²)', axes: ['X', 'Y', 'Z'], tips: [] });
-    // field-reference §9: 100 mV/g = 10.1972 mV/(m/s²), with g_n = 9.80665 m/s² exactly.
+    // docs/methods.md#units: 100 mV/g = 10.1972 mV/(m/s²), with g_n = 9.80665 m/s² exactly.
     expect(item.sensitivityBase).toBeCloseTo(10.1972, 4);
     expect(item.sensitivityBase).toBe(100 / 9.80665);
   });
@@ -100,7 +100,7 @@ describe('changing kit items', () => {
     const res = await crew.lead.agent.patch(`${kitPath}/${item.id}`).send({ version: item.version, sensitivity: 50, sensitivityUnit: 'mV/g' });
     expect(res.status).toBe(200);
     expect(res.body.item).toMatchObject({ sensitivity: 50, sensitivityUnit: 'mV/g', version: item.version + 1 });
-    // field-reference §9: g_n = 9.80665 m/s² exactly, so 50 mV/g = 5.0986 mV/(m/s²).
+    // docs/methods.md#units: g_n = 9.80665 m/s² exactly, so 50 mV/g = 5.0986 mV/(m/s²).
     expect(res.body.item.sensitivityBase).toBeCloseTo(5.0986, 4);
     expect(res.body.item.sensitivityBase).toBe(50 / 9.80665);
   });
@@ -183,7 +183,7 @@ describe('calibration records and warnings', () => {
     expect(res.status).toBe(201);
     expect(res.body.calibration).toMatchObject({ certificateRef: 'CERT-2026-17', sensitivity: 98.1, recordedBy: crew.lead.id });
     expect(res.body.item).toMatchObject({ sensitivity: 98.1, sensitivityUnit: 'mV/g', version: item.version + 1 });
-    // field-reference §9: mV/g ÷ 9.80665 (exact g_n) gives mV/(m/s²); 98.1 mV/g = 10.0034 mV/(m/s²).
+    // docs/methods.md#units: mV/g ÷ 9.80665 (exact g_n) gives mV/(m/s²); 98.1 mV/g = 10.0034 mV/(m/s²).
     expect(res.body.item.sensitivityBase).toBeCloseTo(10.0034, 4);
     const list = await crew.lead.agent.get(kitPath);
     expect(list.body.items.find((i: { id: string }) => i.id === item.id)).toMatchObject({ sensitivity: 98.1, version: item.version + 1 });

@@ -1,9 +1,9 @@
 // Modes through the whole chain: the demo bar's simulated hits → averaged FRFs → background LSCF
 // fit → chosen poles → shapes. The fit must recover what the simulator put in (design.md, "Demo
-// scenario"): the Euler–Bernoulli free–free bar of field-reference §7.1.
+// scenario"): the Euler–Bernoulli free–free bar of docs/methods.md#free-free-beam.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mac } from '@resonote/dsp';
-import { steelBar } from '@resonote/sim';
+import { steelBar, STEEL_BAR_ZETA } from '@resonote/sim';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
@@ -35,10 +35,11 @@ afterAll(async () => {
   await app?.close();
 });
 
-// Euler–Bernoulli weak-direction bending of the 1000 × 40 × 10 mm steel bar (field-reference §7.1).
+// Euler–Bernoulli weak-direction bending of the 1000 × 40 × 10 mm steel bar (docs/methods.md#free-free-beam).
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
-// The simulator's damping of the bar's elastic modes (packages/sim STEEL_BAR_DEFAULT_ZETA, 0.5 %).
-const SIMULATED_ZETA_PERCENT = 0.5;
+// The simulator's damping of the bar's first four weak-direction bending modes (packages/sim STEEL_BAR_ZETA,
+// invented: 0.42, 0.27, 0.35, 0.61 %; docs/methods.md#demo-bar).
+const SIMULATED_ZETA_PERCENT = STEEL_BAR_ZETA.weak.slice(0, 4).map((z) => 100 * z);
 
 describe('modal fit of the demo bar', () => {
   let fitId: string;
@@ -76,11 +77,12 @@ describe('modal fit of the demo bar', () => {
     const bar = steelBar();
     table.forEach((m, i) => {
       expect(Math.abs(m.fHz / HANDBOOK_HZ[i]! - 1), `mode ${i + 1} frequency ${m.fHz} Hz`).toBeLessThan(0.005);
-      // The window added damping; the corrected value is back near the simulated 0.5 %.
+      // The window added damping; the corrected value is back near the simulated one of this mode.
       expect(m.estimated.zetaPercent).toBeGreaterThan(m.zetaPercent);
-      expect(Math.abs(m.zetaPercent / SIMULATED_ZETA_PERCENT - 1), `mode ${i + 1} damping ${m.zetaPercent} %`).toBeLessThan(0.1);
-      // Analytic shape: the simulator's mass-normalised Euler–Bernoulli mode at the 21 points.
-      const elastic = bar.model.modes.filter((x) => Object.keys(x.shape).some((k) => k.endsWith(':+Z')));
+      expect(Math.abs(m.zetaPercent / SIMULATED_ZETA_PERCENT[i]! - 1), `mode ${i + 1} damping ${m.zetaPercent} %`).toBeLessThan(0.1);
+      // Analytic shape: the simulator's mass-normalised Euler–Bernoulli mode at the 21 points (bending modes
+      // only; the rigid-body modes on the supports sit below 3 Hz, under the fit band).
+      const elastic = bar.model.modes.filter((x) => x.fnHz > 10 && Object.keys(x.shape).some((k) => k.endsWith(':+Z')));
       const analytic = m.shape.map((s) => elastic[i]!.shape[s.dof] ?? 0);
       const measured = m.shape.map((s) => s.real);
       expect(mac(measured, analytic), `MAC of mode ${i + 1}`).toBeGreaterThanOrEqual(0.98);

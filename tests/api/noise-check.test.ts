@@ -82,11 +82,15 @@ describe('background-noise checks', () => {
     const audits = await db.select().from(auditEvent).where(and(eq(auditEvent.campaignId, rig.campaignId), eq(auditEvent.entity, 'noise-check')));
     expect(audits.map((a) => a.entityId)).toEqual([check.id]);
 
-    // A repeated key answers the stored check, nothing new is stored.
-    const again = await engineer.agent.post(`/api/campaigns/${rig.campaignId}/noise-checks/simulate`).send({ durationS: 10, seed: 99, idempotencyKey: 'noise-sim-0001' });
+    // A retry (same request, same key) answers the stored check, nothing new is stored.
+    const again = await engineer.agent.post(`/api/campaigns/${rig.campaignId}/noise-checks/simulate`).send({ durationS: 10, seed: 11, idempotencyKey: 'noise-sim-0001' });
     expect(again.status).toBe(200);
     expect(again.body.replayed).toBe(true);
     expect(again.body.check.id).toBe(check.id);
+    // The same key with another request (another seed) is refused, not answered with the first check.
+    const reused = await engineer.agent.post(`/api/campaigns/${rig.campaignId}/noise-checks/simulate`).send({ durationS: 10, seed: 99, idempotencyKey: 'noise-sim-0001' });
+    expect(reused.status).toBe(422);
+    expect(reused.body.error.code).toBe('idempotency-key-reused');
     expect(await db.select().from(noiseCheck).where(eq(noiseCheck.campaignId, rig.campaignId))).toHaveLength(1);
   });
 

@@ -1,6 +1,6 @@
 // Versioned acquisition settings: defaults before the first save, a new version per change with
 // the fields it changed, optimistic concurrency, rule checks, roles and the audit trail
-// (design.md "Kit"; field-reference §10 "lock it during a test … and log any change").
+// (design.md "Kit"; docs/methods.md#traceability).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { defaultAcquisitionSettings } from '@resonote/contracts';

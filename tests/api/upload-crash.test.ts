@@ -45,6 +45,7 @@ async function startServer(): Promise<Server> {
       SMTP_CAPTURE_PORT: '0',
       LOG_REQUESTS: 'false',
       AUTH_RATE_LIMIT_MAX: '1000',
+      AUTH_SECRET: app.config.authSecret,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });

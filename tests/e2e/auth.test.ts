@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { startTestApp, type TestApp } from '../support/app.ts';
-import { launchBrowser, screenshot, viewports, watchConsole } from '../support/browser.ts';
+import { launchBrowser, screenshot, settled, viewports, watchConsole } from '../support/browser.ts';
 
 let app: TestApp & { baseUrl: string };
 let browser: Browser;
@@ -80,7 +80,7 @@ describe('signing in and out in the browser', () => {
     await screenshot(page, 'campaigns-empty-768');
     await page.getByRole('button', { name: /Switch to the dark theme/ }).click();
     expect(await page.evaluate(() => document.documentElement.dataset.theme)).toBe('dark');
-    await page.waitForTimeout(400); // let the colour transitions finish before the picture
+    await settled(page); // the colour transitions finish before the picture
     await screenshot(page, 'campaigns-empty-768-dark');
     await context.close();
   });

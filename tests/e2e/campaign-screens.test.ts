@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { startTestApp, type TestApp } from '../support/app.ts';
-import { screenshot, viewports, watchConsole } from '../support/browser.ts';
+import { screenshot, settled, viewports, watchConsole } from '../support/browser.ts';
 import { PASSWORD } from '../support/accounts.ts';
 import { makeCrew, type CampaignCrew } from '../support/campaign.ts';
 import { launchBrowserWithWebgl, seedCampaign } from './campaign-fixtures.ts';
@@ -38,7 +38,7 @@ async function signedIn(email: string, viewport: { width: number; height: number
 /** Waits for the 3D view to be drawn (plotly adds its WebGL canvas) or for its WebGL notice. */
 async function waitForGeometry(page: Page) {
   await page.locator('.js-plotly-plot canvas, [data-testid="geometry-empty"]').first().waitFor({ timeout: 20_000 });
-  await page.waitForTimeout(600);
+  await settled(page);
 }
 
 describe('the plan of a campaign in the browser', () => {

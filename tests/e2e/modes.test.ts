@@ -94,7 +94,7 @@ describe('the Modes screen', () => {
     await rows.nth(3).waitFor({ timeout: 30_000 });
     expect(await rows.count()).toBe(4);
     const f1 = Number(await rows.first().getAttribute('data-fhz'));
-    // Euler–Bernoulli first weak-direction bending mode, 53.17 Hz; 0.5 % per field-reference §7.1.
+    // Euler–Bernoulli first weak-direction bending mode, 53.17 Hz, within 0.5 % (docs/methods.md#free-free-beam).
     expect(Math.abs(f1 / 53.17 - 1)).toBeLessThan(0.005);
     expect(await page.getByTestId('damping-correction').textContent()).toMatch(/exponential window/);
     await page.locator('.mac-heatmap .heatmaplayer, .mac-heatmap .hm').first().waitFor({ state: 'attached' });

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startDemo, type DemoRun } from '../support/demo.ts';
-import { screenshot, viewports } from '../support/browser.ts';
+import { screenshot, settled, viewports } from '../support/browser.ts';
 
 let demo: DemoRun;
 let barId: string;
@@ -23,7 +23,7 @@ const signIn = (email: string, viewport: { width: number; height: number } = vie
 const drawCount = (page: Page) => page.evaluate(() => window.__resonoteOverlayTimings?.length ?? 0);
 async function waitForRedraw(page: Page, before: number) {
   await page.waitForFunction((n) => (window.__resonoteOverlayTimings?.length ?? 0) > n, before, { timeout: 30_000 });
-  await page.waitForTimeout(300);
+  await settled(page);
 }
 const yTitles = (page: Page) => page.locator('[data-testid="overlay-plot"] .g-ytitle, [data-testid="overlay-plot"] .g-y2title').allTextContents();
 
@@ -47,7 +47,7 @@ describe('Review in the browser', () => {
     expect(await page.locator('[data-testid="overlay-plot"] .scatterlayer, [data-testid="overlay-plot"] canvas').count()).toBeGreaterThan(0);
     expect((await yTitles(page)).join(' | ')).toContain('|H| (dB re 1 (m/s²)/N)');
     expect((await yTitles(page)).join(' | ')).toContain('Phase (°)');
-    await page.waitForTimeout(500);
+    await settled(page);
     await screenshot(page, 'review-1366');
 
     // Zoom: a drag across the magnitude plot. The curves are decimated again over the visible band,
@@ -78,7 +78,7 @@ describe('Review in the browser', () => {
     const inBand = (x: number[]) => x.filter((v) => v >= lo && v <= hi).length;
     expect(inBand(zoomed.x)).toBeGreaterThan(2 * inBand(whole.x));
     await page.mouse.move(5, 5); // no hover label over the picture
-    await page.waitForTimeout(300);
+    await settled(page);
     await screenshot(page, 'review-zoomed-1366');
     // A double-click returns to the whole axis and its decimated curves.
     await page.mouse.dblclick(drag.x + drag.width / 2, drag.y + drag.height / 2);
@@ -118,7 +118,7 @@ describe('Review in the browser', () => {
     await page.getByRole('button', { name: 'Show hit 1' }).click();
     await page.locator('[data-testid="hit-plots"] .js-plotly-plot').nth(1).waitFor({ timeout: 20_000 });
     await noActionControls(page);
-    await page.waitForTimeout(600);
+    await settled(page);
     await screenshot(page, 'review-dof-1366');
 
     await page.getByRole('tab', { name: 'Reciprocity and linearity' }).click();
@@ -135,7 +135,7 @@ describe('Review in the browser', () => {
     await page.getByTestId('pick-all-done').click();
     await page.locator('[data-testid="overlay-plot"][data-overlay-count="21"]').waitFor({ timeout: 30_000 });
     await page.waitForFunction(() => (window.__resonoteOverlayTimings?.length ?? 0) > 0, undefined, { timeout: 30_000 });
-    await page.waitForTimeout(600);
+    await settled(page);
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(768);
     await noActionControls(page);
     await screenshot(page, 'review-768');

@@ -40,7 +40,7 @@ def transient_fixture(out_dir):
         x = rng.standard_normal(n)
         X = np.fft.rfft(x) / fs
         cases.append({"n": n, "x": arr(x), "re": arr(X.real), "im": arr(X.imag)})
-    # Half-sine of field-reference §1.2: A = 100 N, T = 1 ms, fs = 51.2 kHz, N = 8192.
+    # Half-sine of docs/methods.md#pulse-spectra: A = 100 N, T = 1 ms, fs = 51.2 kHz, N = 8192.
     fs_h, n_h, a_h, t_h = 51200.0, 8192, 100.0, 1e-3
     t = np.arange(n_h) / fs_h
     half = np.where(t <= t_h, a_h * np.sin(np.pi * t / t_h), 0.0)
@@ -96,7 +96,7 @@ def sdof_fixture(out_dir):
 
     Acceleration from scipy.integrate.solve_ivp (DOP853, rtol 1e-12) of m x'' + c x' + k x = f(t),
     integrated in two pieces (during and after the pulse) so the kink at t = T is resolved; the
-    closed-form accelerance A = -w^2 / (k - m w^2 + j c w) is field-reference §5.1.
+    closed-form accelerance A = -w^2 / (k - m w^2 + j c w) is docs/methods.md#frf-kinds.
     """
     m, fn, zeta = 1.0, 100.0, 0.02
     wn = 2 * np.pi * fn

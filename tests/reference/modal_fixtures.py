@@ -69,14 +69,14 @@ def system_case(M, K, C, f):
 
 
 def systems(out_dir):
-    # field-reference §6.2/§6.3: M = I, K = 400*[[2000,-1000],[-1000,2000]], zeta 1 % and 2 % (Rayleigh)
+    # docs/methods.md#chain-2dof-lscf: M = I, K = 400*[[2000,-1000],[-1000,2000]], zeta 1 % and 2 % (Rayleigh)
     M = np.eye(2)
     K = 400.0 * np.array([[2000.0, -1000.0], [-1000.0, 2000.0]])
     w = np.sqrt(linalg.eigvalsh(K, M))
     a, b = rayleigh(0.01, w[0], 0.02, w[1])
     two = system_case(M, K, a * M + b * K, np.array([50.0, 80.0, 100.0, 100.625, 130.0, 174.375, 200.0]))
     two["rayleigh"] = [a, b]
-    # field-reference §7.3(d): 3-DOF fixed-fixed, m = 1 kg, k = 1000 N/m; modal damping 1 %, 1.5 %, 2 %
+    # docs/methods.md#chain-3dof: 3-DOF fixed-fixed, m = 1 kg, k = 1000 N/m; modal damping 1 %, 1.5 %, 2 %
     M3 = np.eye(3)
     K3 = 1000.0 * np.array([[2.0, -1.0, 0.0], [-1.0, 2.0, -1.0], [0.0, -1.0, 2.0]])
     w2, phi = linalg.eigh(K3, M3)

@@ -1,9 +1,11 @@
 // Starts the real API (createApp) on a fresh database for one test file.
+import { randomBytes } from 'node:crypto';
 import net from 'node:net';
 import type { Server } from 'node:http';
 import request from 'supertest';
 import { createApp, type AppHandle } from '@resonote/api/app';
 import { loadConfig, type Config } from '@resonote/api/config';
+import { listen } from '@resonote/api/listen';
 import { freshDatabase } from './db.ts';
 
 export interface TestApp {
@@ -29,26 +31,26 @@ export async function freePort(): Promise<number> {
 export async function startTestApp(
   template: string,
   env: Record<string, string> = {},
-  options: { listen?: boolean } = {},
+  options: { listen?: boolean; /** The URL the app connects with (e.g. through a TCP relay) instead of the database's own. */ databaseUrl?: (direct: string) => string } = {},
 ): Promise<TestApp & { server?: Server; baseUrl: string }> {
   const database = await freshDatabase(template);
   const port = options.listen ? await freePort() : 3999;
   const config = loadConfig({
     NODE_ENV: 'test',
     PORT: String(port),
-    DATABASE_URL: database.url,
+    DATABASE_URL: options.databaseUrl ? options.databaseUrl(database.url) : database.url,
     SMTP_CAPTURE_PORT: '0',
     LOG_REQUESTS: 'false',
     AUTH_RATE_LIMIT_MAX: '1000',
+    // Its own secret, so no test writes the generated one into the checkout's .run folder.
+    AUTH_SECRET: randomBytes(32).toString('hex'),
     ...env,
   });
   const handle = await createApp({ config, log: () => undefined });
   let server: Server | undefined;
   if (options.listen) {
-    server = await new Promise<Server>((resolve) => {
-      const s = handle.app.listen(port, '127.0.0.1', () => resolve(s));
-      s.keepAliveTimeout = 65_000; // as in apps/api/src/server.ts
-    });
+    // The same HTTP server (timeouts included) as apps/api/src/server.ts.
+    server = await listen(handle.app, config, port, '127.0.0.1');
   }
   return {
     handle,

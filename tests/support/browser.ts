@@ -29,6 +29,23 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   return file;
 }
 
+/**
+ * Waits until the page has stopped moving: web fonts loaded, no CSS transition or animation
+ * running, then two animation frames so plotly has painted what it drew.
+ * Tests call it before a screenshot instead of sleeping for a guessed time.
+ */
+export async function settled(page: Page): Promise<void> {
+  await page.waitForFunction(
+    async () => {
+      await document.fonts.ready;
+      return document.getAnimations().every((a) => a.playState !== 'running' || a.effect?.getComputedTiming().iterations === Infinity);
+    },
+    undefined,
+    { timeout: 15_000 },
+  );
+  await page.evaluate(() => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))));
+}
+
 /** Collects errors the page logs, so a test can assert there were none. */
 export function watchConsole(page: Page): string[] {
   const errors: string[] = [];

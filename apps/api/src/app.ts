@@ -12,6 +12,8 @@ import { authHandler } from './auth-handler.ts';
 import { resolveUser } from './context.ts';
 import { resolveApiToken, TokenFailureLimiter } from './http/api-token.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
+import { DatabaseStatus } from './db-health.ts';
+import { noStore, sameOriginWrites } from './http/same-origin.ts';
 import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
@@ -35,6 +37,8 @@ export interface AppHandle {
   auth: Auth;
   mailer: Mailer;
   database: DbHandle;
+  /** Whether the database is reachable now, and since when it is not. */
+  databaseStatus: DatabaseStatus;
   config: Config;
   /** Background modal fits. */
   fits: FitQueue;
@@ -51,9 +55,11 @@ export interface AppOptions {
 const defaultWebDist = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../web/dist');
 
 export async function createApp({ config, log = (m) => console.log(m) }: AppOptions): Promise<AppHandle> {
-  const database = openDb(config.databaseUrl);
+  const databaseStatus = new DatabaseStatus(log);
+  // A connection lost under the pool is noted, never thrown: the next checkout opens a new one.
+  const database = openDb(config.databaseUrl, { onConnectionError: (err) => databaseStatus.noteFailure(err), onConnect: () => databaseStatus.noteSuccess() });
   const mailer = await createMailer({ db: database.db, smtpUrl: config.smtpUrl, capturePort: config.smtpCapturePort, from: config.mailFrom });
-  const auth = createAuth(database.db, config, mailer);
+  const auth = createAuth(database.db, config, mailer, databaseStatus);
 
   const app = express();
   app.disable('x-powered-by');
@@ -84,11 +90,16 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     });
   }
 
+  // Every /api answer is per caller: never cached. Every cookie-carrying write must come from this
+  // Resonote's own pages (Origin check), before the auth handler and any body parser or upload.
+  app.use('/api', noStore);
+  app.use('/api', sameOriginWrites({ allowedOrigins: config.allowedOrigins }));
+
   // better-auth reads the raw body itself, so it is mounted before express.json().
-  app.all('/api/auth/*splat', authHandler(auth));
+  app.all('/api/auth/*splat', authHandler(auth, config.authRateLimit, databaseStatus));
 
   const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
-  const deps = { routes, db: database.db, config, mailer };
+  const deps = { routes, db: database.db, config, mailer, databaseStatus };
   registerSystemRoutes(deps);
   registerCampaignRoutes(deps);
   registerGeometryRoutes(deps);
@@ -123,13 +134,14 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   }
 
   // Unexpected errors always reach the console (and fail a test through its console.error guard).
-  app.use(errorHandler((message) => console.error(message)));
+  app.use(errorHandler((message) => console.error(message), databaseStatus));
 
   return {
     app,
     auth,
     mailer,
     database,
+    databaseStatus,
     config,
     fits,
     routes: routes.registry,

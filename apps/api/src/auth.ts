@@ -7,6 +7,7 @@ import type { Db } from '@resonote/db/client';
 import * as schema from '@resonote/db/schema';
 import type { Config } from './config.ts';
 import type { Mailer } from './mail.ts';
+import { isDatabaseUnavailable, type DatabaseStatus } from './db-health.ts';
 
 export const MIN_PASSWORD_LENGTH = 10;
 /** Header the API sets from the socket address (never from the client) for rate limiting. */
@@ -16,7 +17,7 @@ export const CLIENT_IP_HEADER = 'x-resonote-client-ip';
  * Fixed-window request counter kept by this app instance (two instances in one process, as in
  * the tests, never share counts). Check and increment happen in one step.
  */
-function windowCounter() {
+export function windowCounter() {
   const windows = new Map<string, { start: number; count: number }>();
   return {
     async consume(key: string, rule: { window: number; max: number }) {
@@ -34,14 +35,29 @@ function windowCounter() {
   };
 }
 
-export function createAuth(db: Db, config: Config, mailer: Mailer) {
+export function createAuth(db: Db, config: Config, mailer: Mailer, database: DatabaseStatus) {
   return betterAuth({
     appName: 'Resonote',
     baseURL: config.publicUrl,
     basePath: '/api/auth',
     secret: config.authSecret,
-    trustedOrigins: [config.publicUrl],
+    trustedOrigins: config.allowedOrigins,
     telemetry: { enabled: false },
+    // An error that is not one of better-auth's own answers (a failed query) leaves its handler
+    // and reaches the API's error handler: 503 for a lost database, a logged 500 otherwise.
+    onAPIError: { throw: true },
+    logger: {
+      // A query that failed because the database is unreachable is an outage (noted once and
+      // answered 503), not an error to print with its stack for every request.
+      log(level, message, ...args) {
+        const lost = args.find((a) => isDatabaseUnavailable(a));
+        if (lost) return database.noteFailure(lost);
+        const line = `[better-auth] ${message}`;
+        if (level === 'error') console.error(line, ...args);
+        else if (level === 'warn') console.warn(line, ...args);
+        else console.log(line, ...args);
+      },
+    },
     database: drizzleAdapter(db, {
       provider: 'pg',
       schema: { user: schema.user, session: schema.session, account: schema.account, verification: schema.verification },
@@ -92,12 +108,13 @@ export function createAuth(db: Db, config: Config, mailer: Mailer) {
       enabled: true,
       customStorage: windowCounter(),
       window: config.authRateLimit.windowS,
-      max: config.authRateLimit.max * 10,
+      max: config.authRateLimit.ipMax * 2,
+      // Per client IP; the stricter count per e-mail address is kept in auth-handler.ts.
       customRules: {
-        '/sign-in/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/sign-up/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/request-password-reset': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
-        '/reset-password': { window: config.authRateLimit.windowS, max: config.authRateLimit.max },
+        '/sign-in/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/sign-up/email': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/request-password-reset': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
+        '/reset-password': { window: config.authRateLimit.windowS, max: config.authRateLimit.ipMax },
         '/get-session': false,
       },
     },

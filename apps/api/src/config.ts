@@ -1,6 +1,13 @@
 // The API's whole configuration: one zod schema over the environment, with defaults so a local
 // run needs no settings. Nothing else in the API reads process.env.
+import { randomBytes } from 'node:crypto';
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
+
+/** The git-ignored folder of local state (`<repo>/.run`); DATA_DIR moves it. */
+const defaultDataDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../../.run');
 
 const bool = z
   .enum(['true', 'false', '1', '0'])
@@ -11,11 +18,16 @@ const envSchema = z.object({
   HOST: z.string().default('127.0.0.1'),
   PORT: z.coerce.number().int().min(0).max(65535).default(3000),
   PUBLIC_URL: z.url().optional(),
+  /** More origins whose cookie-carrying writes are accepted (comma-separated), e.g. the Vite dev server. */
+  TRUSTED_ORIGINS: z.string().optional(),
   DATABASE_URL: z.string().startsWith('postgres').default('postgres://postgres@127.0.0.1:54329/resonote'),
   AUTH_SECRET: z.string().min(32, 'AUTH_SECRET must be at least 32 characters').optional(),
+  DATA_DIR: z.string().min(1).optional(),
   REQUIRE_EMAIL_VERIFICATION: bool.default(false),
   AUTH_RATE_LIMIT_MAX: z.coerce.number().int().positive().default(10),
   AUTH_RATE_LIMIT_WINDOW_S: z.coerce.number().int().positive().default(60),
+  /** Per client IP (several people may share one address behind a NAT); default 5 × AUTH_RATE_LIMIT_MAX. */
+  AUTH_RATE_LIMIT_IP_MAX: z.coerce.number().int().positive().optional(),
   SMTP_URL: z.string().optional(),
   SMTP_CAPTURE_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   MAIL_FROM: z.string().default('Resonote <no-reply@resonote.local>'),
@@ -23,6 +35,13 @@ const envSchema = z.object({
   UPLOAD_LIMIT_MB: z.coerce.number().positive().default(64),
   EXPORT_JSON_RAW_MAX_VALUES: z.coerce.number().int().positive().default(8_000_000),
   LOG_REQUESTS: bool.default(true),
+  // Slow clients (issue 13): the whole header block within HTTP_HEADERS_TIMEOUT_S, the whole request
+  // (a 64 MB upload included) within HTTP_REQUEST_TIMEOUT_S, an idle keep-alive connection closed
+  // after HTTP_KEEP_ALIVE_TIMEOUT_S, a socket with no traffic either way during a request after HTTP_IDLE_TIMEOUT_S.
+  HTTP_HEADERS_TIMEOUT_S: z.coerce.number().positive().max(600).default(10),
+  HTTP_REQUEST_TIMEOUT_S: z.coerce.number().positive().max(3600).default(120),
+  HTTP_KEEP_ALIVE_TIMEOUT_S: z.coerce.number().positive().max(600).default(65),
+  HTTP_IDLE_TIMEOUT_S: z.coerce.number().positive().max(3600).default(60),
   WEB_DIST: z.string().optional(),
 });
 
@@ -31,10 +50,21 @@ export interface Config {
   host: string;
   port: number;
   publicUrl: string;
+  /**
+   * Origins whose cookie-carrying writes are accepted (apps/api/src/http/same-origin.ts and
+   * better-auth's trusted origins): the public URL's origin; outside production its
+   * 127.0.0.1/localhost twin too; then TRUSTED_ORIGINS.
+   */
+  allowedOrigins: string[];
   databaseUrl: string;
   authSecret: string;
+  /** Where the signing secret came from: the environment, or the file generated at first start. */
+  authSecretSource: 'environment' | { file: string; created: boolean };
+  /** Local state kept between restarts (the generated signing secret). */
+  dataDir: string;
   requireEmailVerification: boolean;
-  authRateLimit: { max: number; windowS: number };
+  /** Sign-in, sign-up and reset attempts per window: `max` per e-mail address, `ipMax` per client IP. */
+  authRateLimit: { max: number; windowS: number; ipMax: number };
   smtpUrl?: string;
   smtpCapturePort: number;
   mailFrom: string;
@@ -44,12 +74,76 @@ export interface Config {
   exportJsonRawMaxValues: number;
   logRequests: boolean;
   webDist?: string;
+  /** Timeouts of the HTTP server, ms (apps/api/src/http/listen.ts). */
+  http: { headersTimeoutMs: number; requestTimeoutMs: number; keepAliveTimeoutMs: number; idleTimeoutMs: number };
 }
 
-/** A fixed secret for local runs only; production must set AUTH_SECRET (checked below). */
-const DEV_SECRET = 'resonote-local-development-secret-not-for-production';
-
 export class ConfigError extends Error {}
+
+const SECRET_FILE = 'auth-secret';
+
+/**
+ * The signing secret of a run without AUTH_SECRET: read from `<dataDir>/auth-secret`, or made at
+ * first start (32 random bytes, hex) and written there with mode 0600, so a restart keeps
+ * sessions and report links valid and no two installations share a secret. The file appears
+ * whole or not at all (written aside, then hard-linked into place), so two processes starting
+ * at once agree on one secret.
+ */
+function storedSecret(dataDir: string): { secret: string; file: string; created: boolean } {
+  const file = path.join(dataDir, SECRET_FILE);
+  const read = () => {
+    const secret = fs.readFileSync(file, 'utf8').trim();
+    if (secret.length < 32) throw new ConfigError(`invalid configuration:\n  AUTH_SECRET: not set, and ${file} holds no usable secret (fewer than 32 characters); delete the file to make a new one, or set AUTH_SECRET`);
+    // Keep it private even when someone widened the mode.
+    if ((fs.statSync(file).mode & 0o077) !== 0) fs.chmodSync(file, 0o600);
+    return secret;
+  };
+  if (fs.existsSync(file)) return { secret: read(), file, created: false };
+  try {
+    fs.mkdirSync(dataDir, { recursive: true, mode: 0o700 });
+    const aside = `${file}.${process.pid}.${randomBytes(4).toString('hex')}`;
+    fs.writeFileSync(aside, `${randomBytes(32).toString('hex')}\n`, { mode: 0o600, flag: 'wx' });
+    try {
+      fs.linkSync(aside, file);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+      return { secret: read(), file, created: false };
+    } finally {
+      fs.rmSync(aside, { force: true });
+    }
+    return { secret: read(), file, created: true };
+  } catch (err) {
+    if (err instanceof ConfigError) throw err;
+    throw new ConfigError(`invalid configuration:\n  AUTH_SECRET: not set, and the generated secret cannot be kept in ${file} (${(err as Error).message}); set AUTH_SECRET or DATA_DIR`);
+  }
+}
+
+/**
+ * The public origin, and outside production its loopback twin: `npm start` serves
+ * http://127.0.0.1:PORT, and a browser pointed at http://localhost:PORT sends that Origin instead.
+ * Both names reach the same loopback listener only on this machine, so the twin opens nothing to
+ * other sites.
+ */
+function originsFor(publicUrl: string, env: string, extra: string | undefined): string[] {
+  const url = new URL(publicUrl);
+  const origins = [url.origin];
+  if (env !== 'production' && (url.hostname === '127.0.0.1' || url.hostname === 'localhost')) {
+    const twin = new URL(url.origin);
+    twin.hostname = url.hostname === 'localhost' ? '127.0.0.1' : 'localhost';
+    origins.push(twin.origin);
+  }
+  for (const raw of (extra ?? '').split(',').map((o) => o.trim()).filter(Boolean)) {
+    let origin: string;
+    try {
+      origin = new URL(raw).origin;
+    } catch {
+      throw new ConfigError(`invalid configuration:\n  TRUSTED_ORIGINS: "${raw}" is not an origin such as http://127.0.0.1:5173`);
+    }
+    if (origin === 'null') throw new ConfigError(`invalid configuration:\n  TRUSTED_ORIGINS: "${raw}" is not an http(s) origin`);
+    if (!origins.includes(origin)) origins.push(origin);
+  }
+  return origins;
+}
 
 export function loadConfig(env: Record<string, string | undefined>): Config {
   const parsed = envSchema.safeParse(env);
@@ -58,17 +152,24 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     throw new ConfigError(`invalid configuration:\n${lines.join('\n')}`);
   }
   const e = parsed.data;
-  if (e.NODE_ENV === 'production' && !e.AUTH_SECRET) throw new ConfigError('invalid configuration:\n  AUTH_SECRET: required in production');
+  if (e.NODE_ENV === 'production' && !e.AUTH_SECRET) throw new ConfigError('invalid configuration:\n  AUTH_SECRET: required in production (32+ random characters, e.g. `openssl rand -hex 32`)');
+  if (e.HTTP_HEADERS_TIMEOUT_S > e.HTTP_REQUEST_TIMEOUT_S) throw new ConfigError(`invalid configuration:\n  HTTP_HEADERS_TIMEOUT_S: ${e.HTTP_HEADERS_TIMEOUT_S} s is longer than HTTP_REQUEST_TIMEOUT_S (${e.HTTP_REQUEST_TIMEOUT_S} s); the headers are part of the request`);
   if (e.NODE_ENV === 'production' && !e.SMTP_URL) throw new ConfigError('invalid configuration:\n  SMTP_URL: required in production (the local SMTP fake is for development and test)');
+  const dataDir = path.resolve(e.DATA_DIR ?? defaultDataDir);
+  const stored = e.AUTH_SECRET ? null : storedSecret(dataDir);
+  const publicUrl = (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, '');
   return {
     env: e.NODE_ENV,
     host: e.HOST,
     port: e.PORT,
-    publicUrl: (e.PUBLIC_URL ?? `http://${e.HOST}:${e.PORT}`).replace(/\/$/, ''),
+    publicUrl,
+    allowedOrigins: originsFor(publicUrl, e.NODE_ENV, e.TRUSTED_ORIGINS),
     databaseUrl: e.DATABASE_URL,
-    authSecret: e.AUTH_SECRET ?? DEV_SECRET,
+    authSecret: e.AUTH_SECRET ?? stored!.secret,
+    authSecretSource: stored ? { file: stored.file, created: stored.created } : 'environment',
+    dataDir,
     requireEmailVerification: e.REQUIRE_EMAIL_VERIFICATION,
-    authRateLimit: { max: e.AUTH_RATE_LIMIT_MAX, windowS: e.AUTH_RATE_LIMIT_WINDOW_S },
+    authRateLimit: { max: e.AUTH_RATE_LIMIT_MAX, windowS: e.AUTH_RATE_LIMIT_WINDOW_S, ipMax: e.AUTH_RATE_LIMIT_IP_MAX ?? 5 * e.AUTH_RATE_LIMIT_MAX },
     smtpUrl: e.SMTP_URL,
     smtpCapturePort: e.SMTP_CAPTURE_PORT,
     mailFrom: e.MAIL_FROM,
@@ -77,5 +178,11 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     exportJsonRawMaxValues: e.EXPORT_JSON_RAW_MAX_VALUES,
     logRequests: e.LOG_REQUESTS,
     webDist: e.WEB_DIST,
+    http: {
+      headersTimeoutMs: Math.round(e.HTTP_HEADERS_TIMEOUT_S * 1000),
+      requestTimeoutMs: Math.round(e.HTTP_REQUEST_TIMEOUT_S * 1000),
+      keepAliveTimeoutMs: Math.round(e.HTTP_KEEP_ALIVE_TIMEOUT_S * 1000),
+      idleTimeoutMs: Math.round(e.HTTP_IDLE_TIMEOUT_S * 1000),
+    },
   };
 }

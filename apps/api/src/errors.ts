@@ -1,6 +1,7 @@
 // One error shape for every /api response: { error: { code, message, details? } }.
-import type { ErrorRequestHandler, RequestHandler } from 'express';
+import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
 import { ZodError } from 'zod';
+import { isDatabaseUnavailable, RETRY_AFTER_S, type DatabaseStatus } from './db-health.ts';
 
 export class HttpError extends Error {
   constructor(
@@ -39,10 +40,27 @@ export const unknownApiRoute: RequestHandler = (req, _res, next) => {
   next(new HttpError(404, 'not-found', `No API route ${req.method} ${req.originalUrl.split('?')[0]}.`));
 };
 
-/** The last middleware: known errors keep their status; anything else is a 500 without a stack. */
-export function errorHandler(log: (message: string) => void): ErrorRequestHandler {
+export const DATABASE_UNAVAILABLE_MESSAGE =
+  'The database cannot be reached at the moment (it may be restarting). Try again in a few seconds; an upload retried with the same Idempotency-Key is stored once.';
+
+/** The answer while the database is unreachable: 503, Retry-After, the one error shape. */
+export function sendDatabaseUnavailable(res: Response): void {
+  res.setHeader('retry-after', String(RETRY_AFTER_S));
+  res.status(503).json(errorBody('database-unavailable', DATABASE_UNAVAILABLE_MESSAGE));
+}
+
+/**
+ * The last middleware: known errors keep their status; a lost database connection is a 503 with
+ * Retry-After (noted in `database`); anything else is a 500 without a stack.
+ */
+export function errorHandler(log: (message: string) => void, database?: DatabaseStatus): ErrorRequestHandler {
   return (err, req, res, _next) => {
     if (res.headersSent) return;
+    if (isDatabaseUnavailable(err)) {
+      database?.noteFailure(err);
+      sendDatabaseUnavailable(res);
+      return;
+    }
     if (err instanceof HttpError) {
       res.status(err.status).json(errorBody(err.code, err.message, err.details));
       return;

@@ -57,7 +57,7 @@ function barSpec(): CampaignSpec {
     testType: 'roving-hammer',
     referenceDofs: ['B21:+Z'],
     simulator: 'steel-bar',
-    notes: 'Free–free bar as a check of the whole chain: the weak-direction bending modes should come out at 53.17, 146.55, 287.30 and 474.93 Hz (Euler–Bernoulli, field-reference §7.1).',
+    notes: 'Free–free bar as a check of the whole chain: the weak-direction bending modes should come out at 53.17, 146.55, 287.30 and 474.93 Hz (Euler–Bernoulli; Blevins 1979, Table 8-1).',
     points: bar.points,
     directions: ['+Z'],
     lines: bar.lines,

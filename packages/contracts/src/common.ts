@@ -13,7 +13,7 @@ export const pointLabelSchema = z
   .max(32, 'a point label has at most 32 characters')
   .regex(/^[A-Za-z0-9][A-Za-z0-9._-]*$/, 'a point label uses letters, digits, ".", "_" or "-" and starts with a letter or digit');
 
-/** A DOF: node label, a colon, a signed axis — `12:+Z` (field-reference §9). */
+/** A DOF: node label, a colon, a signed axis — `12:+Z` (docs/methods.md#dof-signs). */
 export const dofLabelSchema = z
   .string()
   .trim()
@@ -31,3 +31,12 @@ export const versionSchema = z.number({ error: 'version is required (the version
 
 /** Millimetres, finite, within ±100 m. */
 export const coordinateSchema = z.number({ error: 'a coordinate must be a number (mm)' }).finite().min(-100_000).max(100_000);
+
+/**
+ * An Idempotency-Key (header or field of an upload, field of a simulated take): 8–200 characters
+ * of letters, digits and . _ : ~ - — a UUID fits. Compared exactly; one key names one recording.
+ */
+export const IDEMPOTENCY_KEY_RULE = '8–200 characters of letters, digits and . _ : ~ - (a UUID fits)';
+export const idempotencyKeySchema = z
+  .string()
+  .regex(/^[A-Za-z0-9._:~-]{8,200}$/, `an Idempotency-Key is ${IDEMPOTENCY_KEY_RULE}`);

@@ -2,9 +2,9 @@
 import { z } from 'zod';
 import { dofLabelSchema, uuidSchema, versionSchema } from './common.ts';
 
-/** Standard acceleration of gravity, exact by definition (ISO 80000-3; field-reference §9). */
+/** Standard acceleration of gravity, exact by definition (ISO 80000-3; docs/methods.md#units). */
 export const STANDARD_GRAVITY = 9.80665;
-/** One pound-force in newtons, exact (field-reference §9). */
+/** One pound-force in newtons, exact (docs/methods.md#units). */
 export const NEWTONS_PER_LBF = 4.4482216152605;
 
 export const hammerUnits = ['mV/N', 'mV/lbf'] as const;
@@ -13,7 +13,7 @@ export type SensitivityUnit = (typeof hammerUnits)[number] | (typeof acceleromet
 
 /**
  * Converts a sensitivity to Resonote's base units: mV/N for force, mV/(m/s²) for acceleration.
- * 100 mV/g → 10.1972 mV/(m/s²); 10 mV/lbf → 2.2481 mV/N (field-reference §9).
+ * 100 mV/g → 10.1972 mV/(m/s²); 10 mV/lbf → 2.2481 mV/N (docs/methods.md#units).
  */
 export function toBaseSensitivity(value: number, unit: SensitivityUnit): number {
   switch (unit) {

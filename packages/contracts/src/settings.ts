@@ -62,8 +62,8 @@ export type AcquisitionSettings = z.output<typeof acquisitionSettingsSchema>;
 
 /**
  * Defaults a lead starts from: 12.8 kHz, 1.28 s records (16 384 samples, Δf = 0.78 Hz), 5 hits,
- * H1 (field-reference §2.2: the usual choice for impact tests), exponential window to 1 % at the
- * end of the record (Fladung 1997), checks as in field-reference §4 (common practice).
+ * H1 (docs/methods.md#h1-h2-coherence: the usual choice for impact tests), exponential window to 1 % at the
+ * end of the record (Fladung 1997), checks as in docs/methods.md#hit-checks (common practice).
  */
 export const defaultAcquisitionSettings: AcquisitionSettings = {
   sampleRateHz: 12_800,

@@ -43,7 +43,7 @@ function assurance(a: Vector, b: Vector, names: [string, string]): number {
  * Real or complex shape vectors of equal length (dimensionless result; insensitive to any complex
  * scale factor; not an orthogonality check, no mass weighting). 0 if either vector is all zeros.
  * Source: Allemang & Brown, "A correlation coefficient for modal vector analysis", IMAC 1 (1982),
- * pp. 110–116 (field-reference §6.7).
+ * pp. 110–116 (docs/methods.md#mac).
  */
 export function mac(a: Vector, b: Vector): number {
   return assurance(a, b, ['a', 'b']);
@@ -52,7 +52,7 @@ export function mac(a: Vector, b: Vector): number {
 /**
  * Frequency Response Assurance Criterion over the given lines,
  * FRAC = |Σ Ha*·Hb|² / (Σ|Ha|²·Σ|Hb|²), between 0 and 1. Blind to a constant complex factor, so pair
- * it with a level check. Source: Heylen & Lammens 1996, listed in Allemang 2003 (field-reference §6.7).
+ * it with a level check. Source: Heylen & Lammens 1996, listed in Allemang 2003 (docs/methods.md#mac).
  */
 export function frac(ha: Complex, hb: Complex): number {
   return assurance(ha, hb, ['ha', 'hb']);

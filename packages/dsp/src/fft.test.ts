@@ -58,7 +58,7 @@ describe('realFftPlan', () => {
       for (let k = 0; k < bins; k++) {
         const a = X.re[k];
         const b = X.im[k];
-        // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa): the force-conjugated cross sum (field-reference §0)
+        // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa): the force-conjugated cross sum (docs/methods.md#conventions)
         expect(auto[k], `n=${n} k=${k}`).toBe(0.25 + (a * a + b * b));
         expect(crossRe[k], `n=${n} k=${k}`).toBe(-1 + (r.re[k] * a + r.im[k] * b));
         expect(crossIm[k], `n=${n} k=${k}`).toBe(2 + (r.re[k] * b - r.im[k] * a));

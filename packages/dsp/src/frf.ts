@@ -40,10 +40,10 @@ export interface AveragedFrf {
 }
 
 /**
- * Averages impact hits into FRF estimates, one per response channel (field-reference §2).
+ * Averages impact hits into FRF estimates, one per response channel (docs/methods.md#frf-averaging).
  *
  * For each hit i the windows are applied (force window on the force only, exponential window on the
- * force and on every response, §3.1–§3.2), F_i and X_i are the transient spectra Δt·DFT, and
+ * force and on every response, docs/methods.md#force-window, #exp-window), F_i and X_i are the transient spectra Δt·DFT, and
  *   G_ff = (2/n_d)Σ|F_i|², G_xx = (2/n_d)Σ|X_i|², G_fx = (2/n_d)Σ conj(F_i)·X_i (force conjugated),
  *   H1 = G_fx/G_ff, H2 = G_xx/G_xf with G_xf = conj(G_fx), γ² = |G_fx|²/(G_ff·G_xx),
  *   Hv = [G_xx − G_ff + √((G_xx − G_ff)² + 4|G_fx|²)]/(2·G_xf) (optional; depends on the units of the
@@ -194,7 +194,7 @@ const ORDER: Record<FrfKind, number> = { receptance: 0, mobility: 1, accelerance
 /**
  * Converts an FRF between receptance (m/N), mobility ((m/s)/N) and accelerance ((m/s²)/N) by
  * multiplying by jω once per step up (receptance → mobility → accelerance) or dividing by jω once per
- * step down, ω = 2πf (field-reference §5.1: Y = jω·α, A = −ω²·α; time dependence e^{+jωt}).
+ * step down, ω = 2πf (docs/methods.md#frf-kinds: Y = jω·α, A = −ω²·α; time dependence e^{+jωt}).
  *
  * In: h (complex, per line), f (Hz, same length). Out: a new complex array.
  * At f = 0 a division has no finite value (a free structure's receptance is unbounded there): that

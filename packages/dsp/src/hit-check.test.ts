@@ -17,7 +17,7 @@ function quietResponse(): Float64Array {
   return x;
 }
 
-describe('checkHit double-hit detection (field-reference §4.1)', () => {
+describe('checkHit double-hit detection (docs/methods.md#double-hit)', () => {
   const delaysMs = [1, 2, 3, 5, 8, 12, 20];
   const ratios = [0.05, 0.1, 0.2, 0.4, 0.8];
   const widthsMs = [0.5, 1];
@@ -73,7 +73,7 @@ describe('checkHit double-hit detection (field-reference §4.1)', () => {
     // closed form: A·sin(πt/T) crosses 5 % at t = T·asin(0.05)/π, so the width is T(1 − 2·asin(0.05)/π)
     expect(res.pulseWidthS! / (1e-3 * (1 - (2 * Math.asin(0.05)) / Math.PI))).toBeCloseTo(1, 3);
     expect(res.peakForceN).toBeCloseTo(100, 1);
-    // field-reference §1.2: X(0) = 2AT/π = 0.0636620 N·s (sampled: within 0.05 %)
+    // docs/methods.md#pulse-spectra: X(0) = 2AT/π = 0.0636620 N·s (sampled: within 0.05 %)
     expect(res.impulseNs / 0.063662 - 1).toBeLessThan(5e-4);
     expect(res.pulseStartS).toBeCloseTo(t0, 4);
   });
@@ -84,9 +84,9 @@ describe('checkHit double-hit detection (field-reference §4.1)', () => {
     const X1 = transientSpectrum(one, fs);
     const X2 = transientSpectrum(two, fs);
     const mag = (X: { re: Float64Array; im: Float64Array }, hz: number) => Math.hypot(X.re[hz / 6.25], X.im[hz / 6.25]);
-    // field-reference §4.1 [calc]: 0 at 100, 300 and 500 Hz
+    // docs/methods.md#double-hit [calc]: 0 at 100, 300 and 500 Hz
     for (const hz of [100, 300, 500]) expect(mag(X2, hz)).toBeLessThan(1e-15);
-    // field-reference §4.1 [calc]: single hit 0.061305 N·s at 200 Hz, the double hit exactly twice (0.12261)
+    // docs/methods.md#double-hit [calc]: single hit 0.061305 N·s at 200 Hz, the double hit exactly twice (0.12261)
     expect(mag(X1, 200)).toBeCloseTo(0.061305, 6);
     expect(mag(X2, 200) / mag(X1, 200)).toBeCloseTo(2, 12);
     expect(mag(X2, 200)).toBeCloseTo(0.12261, 5);
@@ -108,7 +108,7 @@ describe('checkHit overload, weak hit, roll-off and responses', () => {
   it('flags a flat top of three or more equal samples when the range is unknown', () => {
     const force = halfSine(n, fs, 130, 1e-3, t0).map((v) => Math.min(v, 100));
     const res = checkHit(force, [quietResponse()], fs, { bandHz: [0, 200] });
-    // common practice (§4.2): runs of ≥ 3 equal samples at an extreme
+    // common practice (docs/methods.md#overload): runs of ≥ 3 equal samples at an extreme
     expect(res.reasons.map((r) => r.code)).toContain('overload');
     expect(res.forceFlatRun).toBeGreaterThanOrEqual(3);
     expect(res.reasons.find((r) => r.code === 'overload')?.message).toMatch(/equal samples in a row at 100 N/);
@@ -126,13 +126,13 @@ describe('checkHit overload, weak hit, roll-off and responses', () => {
 
   it('finds the −10 and −20 dB frequencies of a 1 ms half-sine and rejects it for a 2 kHz band', () => {
     const res = checkHit(halfSine(n, fs, 100, 1e-3, t0), [quietResponse()], fs, { bandHz: [0, 2000] });
-    // field-reference §1.2 [calc]: −10 dB at 1.019/T, −20 dB at 1.303/T (interpolated on 6.25 Hz lines)
+    // docs/methods.md#pulse-spectra [calc]: −10 dB at 1.019/T, −20 dB at 1.303/T (interpolated on 6.25 Hz lines)
     expect(res.rollOff10dBHz! / 1019 - 1).toBeLessThan(0.01);
     expect(Math.abs(res.rollOff20dBHz! / 1303 - 1)).toBeLessThan(0.01);
     expect(res.reasons).toHaveLength(1);
     expect(res.reasons[0].code).toBe('roll-off');
     expect(res.reasons[0].message).toMatch(/^force spectrum falls 20 dB by 13\d\d Hz, inside the 0–2000 Hz band: use a harder tip$/);
-    // field-reference §4.3 [calc]: T_c = 0.5 ms gives −10 dB at 2.04 kHz and −20 dB at 2.61 kHz
+    // docs/methods.md#roll-off [calc]: T_c = 0.5 ms gives −10 dB at 2.04 kHz and −20 dB at 2.61 kHz
     const soft = checkHit(halfSine(n, fs, 100, 0.5e-3, t0), [quietResponse()], fs, { bandHz: [0, 2000] });
     expect(Math.abs(soft.rollOff10dBHz! / 2040 - 1)).toBeLessThan(0.01);
     expect(Math.abs(soft.rollOff20dBHz! / 2610 - 1)).toBeLessThan(0.01);
@@ -140,10 +140,10 @@ describe('checkHit overload, weak hit, roll-off and responses', () => {
   });
 
   it('uses 0 … fs/2.56 as the band and 20 dB as the limit by default', () => {
-    // common practice §4.5: f_max = fs/2.56; §4.3: 10–20 dB
+    // common practice docs/methods.md#decay-check: f_max = fs/2.56; docs/methods.md#roll-off: 10–20 dB
     expect(defaultHitLimits.rollOffDb).toBe(20);
     const res = checkHit(halfSine(n, fs, 100, 0.1e-3, t0), [quietResponse()], fs);
-    // field-reference §1.2: a 0.1 ms half-sine is 20 dB down at 1.303/T = 13 kHz, inside 0–20 kHz
+    // docs/methods.md#pulse-spectra: a 0.1 ms half-sine is 20 dB down at 1.303/T = 13 kHz, inside 0–20 kHz
     expect(res.reasons.map((r) => r.code)).toEqual(['roll-off']);
     expect(res.reasons[0].message).toContain('inside the 0–20000 Hz band');
   });

@@ -1,4 +1,4 @@
-// Per-hit quality checks for impact testing (field-reference §4). Every threshold is common practice,
+// Per-hit quality checks for impact testing (docs/methods.md#hit-checks). Every threshold is common practice,
 // not a standard, and is configurable through `HitLimits`.
 import { realFftPlan } from './fft.ts';
 import type { ExponentialWindowOptions } from './types.ts';
@@ -18,38 +18,38 @@ export interface HitLimits {
   forceRangeN: number | null;
   /** Full-scale range of each response channel in its own unit: one number for all, one per channel, or null. */
   responseRange: number | readonly number[] | null;
-  /** A sample at or above this fraction of the range counts as overload. Common practice: 0.99 (§4.2). */
+  /** A sample at or above this fraction of the range counts as overload. Common practice: 0.99 (docs/methods.md#overload). */
   overloadFraction: number;
-  /** This many equal samples in a row at the record's largest magnitude count as clipping. Common practice: 3 (§4.2). */
+  /** This many equal samples in a row at the record's largest magnitude count as clipping. Common practice: 3 (docs/methods.md#overload). */
   flatRunLength: number;
   /**
    * A second pulse (or a second local maximum rising at least this fraction of the main peak above the
    * dip before it) marks a double hit. Default 0.04: below 5 %, so a second hit of 5 % of the first is
-   * caught; §4.1 quotes 10–20 % as an example. Common practice.
+   * caught; docs/methods.md#double-hit quotes 10–20 % as an example. Common practice.
    */
   doubleHitRatio: number;
-  /** Pulse start and end are where the force crosses this fraction of the peak. Common practice: 0.05 (§4.1). */
+  /** Pulse start and end are where the force crosses this fraction of the peak. Common practice: 0.05 (docs/methods.md#double-hit). */
   pulseEdgeFraction: number;
   /**
    * Thresholds are never set below this many times the noise rms (estimated from the samples before the
    * pulse, or the last 10 % of the record). Common practice: 6 (Gaussian false-alarm odds ~2e-9 per sample).
    */
   noiseFactor: number;
-  /** Weakest acceptable peak force, N; null = 10 % of forceRangeN (§4.2 under-range), skipped when both are null. Common practice. */
+  /** Weakest acceptable peak force, N; null = 10 % of forceRangeN (docs/methods.md#weak-hit under-range), skipped when both are null. Common practice. */
   minPeakN: number | null;
-  /** Band of interest [lo, hi] in Hz; null = [0, fs/2.56] (analyser convention, §4.5). Common practice. */
+  /** Band of interest [lo, hi] in Hz; null = [0, fs/2.56] (analyser convention, docs/methods.md#decay-check). Common practice. */
   bandHz: readonly [number, number] | null;
-  /** Reject when the force spectrum falls this many dB below its DC level inside the band. Common practice: 10–20 dB (§4.3); default 20. */
+  /** Reject when the force spectrum falls this many dB below its DC level inside the band. Common practice: 10–20 dB (docs/methods.md#roll-off); default 20. */
   rollOffDb: number;
-  /** Fraction of the record, at its end, used for the decay check. Common practice: 0.05 (§4.5). */
+  /** Fraction of the record, at its end, used for the decay check. Common practice: 0.05 (docs/methods.md#decay-check). */
   tailFraction: number;
-  /** Reject when the response rms in the tail exceeds this fraction of its peak. Common practice: 0.01 after the exponential window (§4.5). */
+  /** Reject when the response rms in the tail exceeds this fraction of its peak. Common practice: 0.01 after the exponential window (docs/methods.md#decay-check). */
   notDecayedRatio: number;
   /** Exponential window applied to the responses before the decay check (as it will be in the FRF), or null. */
   exponentialWindow: ExponentialWindowOptions | null;
 }
 
-/** Default limits; each one is common practice (field-reference §4), not a standard. */
+/** Default limits; each one is common practice (docs/methods.md#hit-checks), not a standard. */
 export const defaultHitLimits: Readonly<HitLimits> = Object.freeze({
   forceRangeN: null,
   responseRange: null,
@@ -243,25 +243,25 @@ function resolveLimits(limits: Partial<HitLimits> | undefined, channels: number)
 }
 
 /**
- * Checks one impact record and returns a verdict with reasons in plain words (field-reference §4).
+ * Checks one impact record and returns a verdict with reasons in plain words (docs/methods.md#hit-checks).
  *
  * In: force (N, raw, offset not yet removed), responses (each in its own unit, same length), fs (Hz),
  * and `limits` (any subset of `HitLimits`; the rest from `defaultHitLimits`). Checks:
- * - `weak`: no pulse above the noise, or peak below minPeakN (§4.2 under-range);
+ * - `weak`: no pulse above the noise, or peak below minPeakN (docs/methods.md#weak-hit under-range);
  * - `double-hit`: the force, offset-removed and turned to the main pulse's polarity, has another
  *   peak that rises at least max(doubleHitRatio·peak, noiseFactor·noise) above the dip before it
  *   and reaches that level — a second pulse after (or before) the main one, or a second local
- *   maximum inside it (time-domain method of §4.1); a lobe within 4 pulse widths that is mirrored
+ *   maximum inside it (time-domain method of docs/methods.md#double-hit); a lobe within 4 pulse widths that is mirrored
  *   at half its height or more on the other side of the main peak is anti-alias filter ringing
- *   (§4.4) and not counted;
+ *   (docs/methods.md#trigger) and not counted;
  * - `overload`: force samples at ≥ overloadFraction × forceRangeN, or ≥ flatRunLength equal samples
- *   at the largest magnitude (§4.2);
+ *   at the largest magnitude (docs/methods.md#overload);
  * - `roll-off`: |F(f)|² of the offset-removed pulse (gated to ±4 pulse widths, as a force window
- *   would) first falls rollOffDb below |F(0)|² inside bandHz (§4.3; the 10 and 20 dB frequencies
+ *   would) first falls rollOffDb below |F(0)|² inside bandHz (docs/methods.md#roll-off; the 10 and 20 dB frequencies
  *   are always reported);
  * - `response-overload`: as overload, per response channel, against responseRange;
  * - `not-decayed`: rms of the last tailFraction of a response (after the exponential window if set)
- *   above notDecayedRatio × its peak (§4.5).
+ *   above notDecayedRatio × its peak (docs/methods.md#decay-check).
  * The offset and noise rms come from the samples before the pulse (≥ 16 of them), else from the last
  * 10 % of the record. A hardware overload flag, when the front end has one, should be checked as well.
  */
@@ -370,7 +370,7 @@ export function checkHit(
     for (const q of prominentPeaks(s, thr)) {
       if (q === p || s[q] < thr) continue;
       // A linear-phase anti-alias filter rings symmetrically around a pulse it band-limits
-      // (field-reference §4.4: "early ringing from linear-phase anti-alias filters"): a lobe
+      // (docs/methods.md#trigger: "early ringing from linear-phase anti-alias filters"): a lobe
       // mirrored on the other side of the main peak at the same level is that ringing, not a
       // second impact, which has no mirror image before the first.
       const mirror = 2 * p - q;
@@ -396,7 +396,7 @@ export function checkHit(
     const re = new Float64Array(plan.bins);
     const im = new Float64Array(plan.bins);
     // The spectrum of the pulse alone: samples further than 4 pulse widths from it are noise and
-    // after-ringing, which a force window removes before any FRF (§3.1), so they are gated out here
+    // after-ringing, which a force window removes before any FRF (docs/methods.md#force-window), so they are gated out here
     // too; over a long record their integrated offset error would otherwise dominate |F(0)|.
     const width = b - a + 1;
     const gateFrom = Math.max(0, a - 4 * width - 8);

@@ -3,20 +3,20 @@ import { add, halfSine, loadFixture, maxAbs, maxAbsDiff, gaussian, noise } from 
 import { autopowerSpectrum, energySpectralDensity, linearSpectrum, transientSpectrum } from './spectra.ts';
 
 describe('transientSpectrum', () => {
-  it('gives the field-reference check values for a sampled 100 N, 1 ms half-sine', () => {
+  it('gives the check values of docs/methods.md#pulse-spectra for a sampled 100 N, 1 ms half-sine', () => {
     const fs = 51200;
     const x = halfSine(8192, fs, 100, 1e-3);
     const X = transientSpectrum(x, fs);
     expect(X.f.length).toBe(4097);
-    // field-reference §1.2 [calc]: sampled estimate X(0) = 0.063652 N·s (analytic 0.0636620, −0.016 %)
+    // docs/methods.md#pulse-spectra [calc]: sampled estimate X(0) = 0.063652 N·s (analytic 0.0636620, −0.016 %)
     expect(X.re[0]).toBeCloseTo(0.063652, 6);
     expect(X.im[0]).toBe(0);
-    // field-reference §1.2 [calc]: |X(500 Hz)| = 0.0499999 (500 Hz is line 80 at Δf = 6.25 Hz)
+    // docs/methods.md#pulse-spectra [calc]: |X(500 Hz)| = 0.0499999 (500 Hz is line 80 at Δf = 6.25 Hz)
     expect(X.f[80]).toBe(500);
     expect(Math.hypot(X.re[80], X.im[80])).toBeCloseTo(0.0499999, 7);
-    // field-reference §1.2: analytic |X(1 kHz)| = 0.0212207 = X(0)/3; sampling moves it by < 0.05 %
+    // docs/methods.md#pulse-spectra: analytic |X(1 kHz)| = 0.0212207 = X(0)/3; sampling moves it by < 0.05 %
     expect(Math.hypot(X.re[160], X.im[160]) / 0.0212207 - 1).toBeLessThan(5e-4);
-    // field-reference §1.2: X(f) = (2AT/π)cos(πfT)/(1 − 4f²T²)·e^{−jπfT}; phase at 500 Hz is −π/2
+    // docs/methods.md#pulse-spectra: X(f) = (2AT/π)cos(πfT)/(1 − 4f²T²)·e^{−jπfT}; phase at 500 Hz is −π/2
     expect(Math.atan2(X.im[80], X.re[80])).toBeCloseTo(-Math.PI / 2, 2);
   });
 
@@ -30,7 +30,7 @@ describe('transientSpectrum', () => {
       expect(maxAbsDiff(X.re, c.re) / scale).toBeLessThan(1e-12);
       expect(maxAbsDiff(X.im, c.im) / scale).toBeLessThan(1e-12);
     }
-    // numpy value for the §1.2 half-sine, stored in the fixture
+    // numpy value for the docs/methods.md#pulse-spectra half-sine, stored in the fixture
     const h = fx.halfSine;
     const X = transientSpectrum(halfSine(h.n, h.fs, h.amplitude, h.durationS), h.fs);
     expect(X.re[0]).toBeCloseTo(h.x0, 14);
@@ -43,16 +43,16 @@ describe('transientSpectrum', () => {
     const x = new Float64Array(n);
     x.fill(2, 0, m);
     const X = transientSpectrum(x, fs);
-    // field-reference §1.2: X(0) = A·T = 0.02 N·s
+    // docs/methods.md#pulse-spectra: X(0) = A·T = 0.02 N·s
     expect(X.re[0]).toBeCloseTo(0.02, 15);
     for (let k = 1; k < X.f.length; k++) {
-      // field-reference §1.1 [calc, exact]: n samples of value 1 give Δt·|sin(πkn/N)/sin(πk/N)|
+      // docs/methods.md#transient-spectrum [calc, exact]: n samples of value 1 give Δt·|sin(πkn/N)/sin(πk/N)|
       const exact = (2 / fs) * Math.abs(Math.sin((Math.PI * k * m) / n) / Math.sin((Math.PI * k) / n));
       expect(Math.abs(Math.hypot(X.re[k], X.im[k]) - exact)).toBeLessThan(1e-15);
     }
-    // field-reference §1.2: zeros at f = k/T = 100, 200 … Hz (lines 20, 40 … at Δf = 5 Hz)
+    // docs/methods.md#pulse-spectra: zeros at f = k/T = 100, 200 … Hz (lines 20, 40 … at Δf = 5 Hz)
     for (const k of [20, 40, 60]) expect(Math.hypot(X.re[k], X.im[k])).toBeLessThan(1e-15);
-    // field-reference §1.2: |X(1/2T)| = 2AT/π at 50 Hz, sampled within 0.1 %
+    // docs/methods.md#pulse-spectra: |X(1/2T)| = 2AT/π at 50 Hz, sampled within 0.1 %
     expect(Math.hypot(X.re[10], X.im[10]) / ((2 * 2 * 0.01) / Math.PI) - 1).toBeLessThan(1e-3);
   });
 
@@ -63,7 +63,7 @@ describe('transientSpectrum', () => {
     const x = new Float64Array(n);
     for (let i = 0; i < n; i++) x[i] = Math.exp((-a * i) / fs);
     const X = transientSpectrum(x, fs);
-    // field-reference §1.1 pitfall [calc]: the rectangle rule gives 0.0100098 instead of 0.0100000
+    // docs/methods.md#transient-spectrum pitfall [calc]: the rectangle rule gives 0.0100098 instead of 0.0100000
     expect(X.re[0]).toBeCloseTo(0.0100098, 7);
     const q = Math.exp(-a / fs);
     for (let k = 0; k < 200; k++) {
@@ -75,7 +75,7 @@ describe('transientSpectrum', () => {
       const er = (num * dr) / (dr * dr + di * di);
       const ei = (-num * di) / (dr * dr + di * di);
       expect(Math.hypot(X.re[k] - er, X.im[k] - ei)).toBeLessThan(1e-15);
-      // field-reference §1.2: X(f) = A/(a + j2πf); rectangle-rule bias ≈ x(0)Δt/2 ≈ 1e-5 N·s
+      // docs/methods.md#pulse-spectra: X(f) = A/(a + j2πf); rectangle-rule bias ≈ x(0)Δt/2 ≈ 1e-5 N·s
       const w = 2 * Math.PI * X.f[k];
       const cr = a / (a * a + w * w);
       const ci = -w / (a * a + w * w);
@@ -90,7 +90,7 @@ describe('transientSpectrum', () => {
       padded.set(x);
       const X = transientSpectrum(x, 100);
       const P = transientSpectrum(padded, 100);
-      // field-reference §1.1 [calc, exact]: zero padding identity
+      // docs/methods.md#transient-spectrum [calc, exact]: zero padding identity
       for (let k = 0; k < X.re.length; k++) {
         expect(Math.abs(X.re[k] - P.re[2 * k])).toBeLessThan(1e-13);
         expect(Math.abs(X.im[k] - P.im[2 * k])).toBeLessThan(1e-13);
@@ -110,7 +110,7 @@ describe('energySpectralDensity', () => {
       for (const v of x) e += (v * v) / fs;
       let s = 0;
       for (const v of esd) s += v * (fs / n);
-      // field-reference §1.3: Δt·Σx² = Δf·ΣG_k (exact DFT identity)
+      // docs/methods.md#esd: Δt·Σx² = Δf·ΣG_k (exact DFT identity)
       expect(Math.abs(s - e) / e).toBeLessThan(1e-12);
     }
   });
@@ -121,10 +121,10 @@ describe('energySpectralDensity', () => {
     const { esd } = energySpectralDensity(x, fs);
     let s = 0;
     for (const v of esd) s += v * (fs / 8192);
-    // field-reference §1.3 [calc]: both sides give 4.99999 N²·s against 5.0 analytic
+    // docs/methods.md#esd [calc]: both sides give 4.99999 N²·s against 5.0 analytic
     expect(s).toBeCloseTo(4.99999, 5);
     const X = transientSpectrum(x, fs);
-    // field-reference §1.3: G(0) = |X(0)|², G(f) = 2|X(f)|²
+    // docs/methods.md#esd: G(0) = |X(0)|², G(f) = 2|X(f)|²
     expect(esd[0]).toBeCloseTo(X.re[0] ** 2, 15);
     expect(esd[10] / (2 * (X.re[10] ** 2 + X.im[10] ** 2))).toBeCloseTo(1, 12);
     expect(esd[4096] / (X.re[4096] ** 2 + X.im[4096] ** 2)).toBeCloseTo(1, 12);

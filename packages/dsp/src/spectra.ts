@@ -15,7 +15,7 @@ function toFloat64(x: ArrayLike<number>): Float64Array {
  * one-sided lines k = 0 … ⌊N/2⌋, NOT doubled (this is the Fourier transform, not a power
  * quantity), so X(0) = Δt·Σx ≈ ∫x dt (the impulse in N·s for a force).
  * Sign e^{−j2πft}, as numpy.fft. Any N ≥ 1 (Bluestein for non-powers of two).
- * Source: Lalanne, Mechanical Vibration and Shock Analysis Vol. II, Ch. 1 §1.4 (field-reference §1.1).
+ * Source: Lalanne, Mechanical Vibration and Shock Analysis Vol. II, Ch. 1 §1.4 (docs/methods.md#transient-spectrum).
  */
 export function transientSpectrum(x: ArrayLike<number>, fs: number): { f: Float64Array; re: Float64Array; im: Float64Array } {
   checkFs(fs);
@@ -39,7 +39,7 @@ export function transientSpectrum(x: ArrayLike<number>, fs: number): { f: Float6
  * In: x in [x], fs in Hz. Out: f (Hz) and esd in [x]²·s/Hz (N²·s/Hz for force), a density per
  * record (energy, not power). Parseval holds exactly: Σ esd·Δf = Σ x²·Δt with Δf = fs/N.
  * Source: Bendat & Piersol, Random Data, 4th ed. (2010), energy spectra of transients
- * (field-reference §1.3).
+ * (docs/methods.md#esd).
  */
 export function energySpectralDensity(x: ArrayLike<number>, fs: number): { f: Float64Array; esd: Float64Array } {
   checkFs(fs);

@@ -4,7 +4,7 @@
 // over records i, where R is the reference channel (the force, or x of a CSD) and X_c the other
 // channels. The public functions only scale these sums (after scipy.signal's _spectral_helper,
 // which is written the same way). Conjugation: the reference is conjugated, G_fx = E[F*·X]
-// (field-reference §0, §2.1; scipy.signal.csd(x, y) order).
+// (docs/methods.md#conventions, #frf-averaging; scipy.signal.csd(x, y) order).
 import { realFftPlan, type RealFftPlan } from './fft.ts';
 import { checkSamples } from './validate.ts';
 
@@ -132,7 +132,7 @@ export function pooledAverager(n: number, channels: number): SpectralAverager {
 
 /**
  * Multiplies raw sums by `factor` and doubles every line except DC and, for even n, Nyquist:
- * the one-sided fold of a real signal's two-sided spectrum (field-reference §0).
+ * the one-sided fold of a real signal's two-sided spectrum (docs/methods.md#conventions).
  */
 export function oneSided(values: Float64Array, n: number, factor: number): Float64Array {
   const out = new Float64Array(values.length);

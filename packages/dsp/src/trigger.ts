@@ -1,7 +1,7 @@
 import { checkFs, checkNonNegative, checkPositive, checkSamples } from './validate.ts';
 
 export interface TriggerOptions {
-  /** Trigger level (N, > 0); common practice: a few % of the expected peak (field-reference §4.4). */
+  /** Trigger level (N, > 0); common practice: a few % of the expected peak (docs/methods.md#trigger). */
   level: number;
   /** Pre-trigger length (s, ≥ 0) kept before the trigger sample. */
   preTriggerS: number;
@@ -24,8 +24,8 @@ export interface TriggerResult {
  * level-crossing on the magnitude, not a slope test). Returns null when the level is never reached.
  * The record then starts `preTriggerS` earlier: startIndex = max(0, index − round(preTriggerS·fs));
  * when the stream holds fewer samples before the trigger, startIndex is 0 and `clamped` is true
- * (a hit that starts that early should be treated with suspicion, field-reference §4.4).
- * In: force (N, remove any DC offset first), fs (Hz). Source: field-reference §4.4 (common practice).
+ * (a hit that starts that early should be treated with suspicion, docs/methods.md#trigger).
+ * In: force (N, remove any DC offset first), fs (Hz). Source: docs/methods.md#trigger (common practice).
  */
 export function findTrigger(force: ArrayLike<number>, fs: number, options: TriggerOptions): TriggerResult | null {
   checkFs(fs);

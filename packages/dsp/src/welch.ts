@@ -66,7 +66,7 @@ export function welchPsd(
 
 /**
  * Cross spectral density by Welch's method, G_xy = E[conj(X)·Y] (x conjugated: the order of
- * scipy.signal.csd(x, y) and of G_fx = E[F*·X], field-reference §0), single-sided density as
+ * scipy.signal.csd(x, y) and of G_fx = E[F*·X], docs/methods.md#conventions), single-sided density as
  * `welchPsd` (the one-sided doubling applied to the complex value, as scipy).
  *
  * In: x in [x], y in [y], equal lengths, fs in Hz. Out: f (Hz), re/im in [x]·[y]/Hz.
@@ -95,7 +95,7 @@ export function welchCsd(
 /**
  * Magnitude-squared coherence by Welch's method, γ² = |G_xy|²/(G_xx·G_yy), dimensionless in [0, 1].
  * Lines where G_xx·G_yy = 0 (no signal at all) are returned as 0, never NaN.
- * With one segment γ² ≡ 1 (field-reference §2.2). Equals scipy.signal.coherence(x, y, fs, window,
+ * With one segment γ² ≡ 1 (docs/methods.md#h1-h2-coherence). Equals scipy.signal.coherence(x, y, fs, window,
  * nperseg, noverlap, detrend=False). Source: Bendat & Piersol 2010; Carter, Knapp & Nuttall 1973.
  */
 export function welchCoherence(

@@ -8,7 +8,7 @@ describe('forceWindow', () => {
   const w = forceWindow(100, fs, { startS: 0.01, lengthS: 0.02, taperS: 0.01 });
 
   it('is 1 from the first sample (pre-trigger included) to startS + lengthS, then tapers by a half cosine to 0', () => {
-    // definition, field-reference §3.1: unity from record start to t_e = 30 ms
+    // definition, docs/methods.md#force-window: unity from record start to t_e = 30 ms
     for (let i = 0; i <= 30; i++) expect(w[i]).toBe(1);
     // half-cosine: ½(1 + cos(π·(t − t_e)/taper)) is ½ halfway through the taper (35 ms)
     expect(w[35]).toBeCloseTo(0.5, 14);
@@ -25,7 +25,7 @@ describe('forceWindow', () => {
     const X = transientSpectrum(x, fs2);
     const Xok = transientSpectrum(x.map((v, i) => v * ok[i]), fs2);
     const Xcut = transientSpectrum(x.map((v, i) => v * cut[i]), fs2);
-    // field-reference §3.1 test: pulse wholly in the unity part → same F to machine precision
+    // docs/methods.md#force-window test: pulse wholly in the unity part → same F to machine precision
     for (let k = 0; k < X.re.length; k++) {
       expect(Xok.re[k]).toBe(X.re[k]);
       expect(Xok.im[k]).toBe(X.im[k]);
@@ -39,22 +39,22 @@ describe('exponentialWindow and its damping', () => {
   it('is 1 before startS and e^{−(t − t0)/τ} after', () => {
     const w = exponentialWindow(1000, 1000, { startS: 0.1, tauS: 0.2 });
     expect(w[99]).toBe(1);
-    // definition, field-reference §3.2
+    // definition, docs/methods.md#exp-window
     expect(w[100]).toBe(1);
     expect(w[300]).toBeCloseTo(Math.exp(-1), 15);
   });
 
-  it('reproduces the §3.2 worked example: τ = 0.21715 s, added damping 1.466 % at 50 Hz, 2.000 % → 0.5342 %', () => {
+  it('reproduces the docs/methods.md#exp-window worked example: τ = 0.21715 s, added damping 1.466 % at 50 Hz, 2.000 % → 0.5342 %', () => {
     const tau = tauFromEndLevel(1, 0, 0.01);
-    // field-reference §3.2 [calc]: T = 1 s, p = 1 % → τ = 0.21715 s, σ_w = 4.6052 s⁻¹
+    // docs/methods.md#exp-window [calc]: T = 1 s, p = 1 % → τ = 0.21715 s, σ_w = 4.6052 s⁻¹
     expect(tau).toBeCloseTo(0.21715, 5);
     expect(1 / tau).toBeCloseTo(4.6052, 4);
-    // field-reference §3.2 [calc]: added damping 1/(τω) = 7.33 % at 10 Hz, 1.466 % at 50 Hz, 0.0733 % at 1 kHz
+    // docs/methods.md#exp-window [calc]: added damping 1/(τω) = 7.33 % at 10 Hz, 1.466 % at 50 Hz, 0.0733 % at 1 kHz
     expect(1 / (tau * 2 * Math.PI * 10)).toBeCloseTo(0.0733, 4);
     expect(1 / (tau * 2 * Math.PI * 50)).toBeCloseTo(0.01466, 5);
     expect(1 / (tau * 2 * Math.PI * 1000)).toBeCloseTo(0.000733, 6);
     const c = correctExponentialDamping({ fnHz: 50, zeta: 0.02, tauS: tau });
-    // field-reference §3.2 [calc]: 2.000 % at 50 Hz corrects to 0.5342 % (exact)
+    // docs/methods.md#exp-window [calc]: 2.000 % at 50 Hz corrects to 0.5342 % (exact)
     expect(c.zeta * 100).toBeCloseTo(0.5342, 4);
     // the damped frequency is kept: ω_n,true ≈ ω_d,est, a little below 50 Hz
     expect(c.fnHz).toBeCloseTo(50 * Math.sqrt(1 - 0.0004) / Math.sqrt(1 - c.zeta ** 2), 9);
@@ -65,11 +65,11 @@ describe('exponentialWindow and its damping', () => {
     const wn = 2 * Math.PI * 50;
     const zeta = 0.005;
     const wd = wn * Math.sqrt(1 - zeta * zeta);
-    // field-reference §3.2: the window moves the pole left by 1/τ, ω_d unchanged
+    // docs/methods.md#exp-window: the window moves the pole left by 1/τ, ω_d unchanged
     const sig = zeta * wn + 1 / tau;
     const wnApp = Math.hypot(wd, sig);
     const zetaApp = sig / wnApp;
-    // field-reference §3.2 [calc]: appears at 1.9655 %, half-power bandwidth 0.50 Hz → 1.966 Hz
+    // docs/methods.md#exp-window [calc]: appears at 1.9655 %, half-power bandwidth 0.50 Hz → 1.966 Hz
     expect(zetaApp * 100).toBeCloseTo(1.9655, 4);
     expect(2 * zetaApp * (wnApp / (2 * Math.PI))).toBeCloseTo(1.966, 3);
     const back = correctExponentialDamping({ fnHz: wnApp / (2 * Math.PI), zeta: zetaApp, tauS: tau });

@@ -63,7 +63,7 @@ export function checkExponentialWindowOptions(o: ExponentialWindowOptions, name 
  * - w = 0 from t_e + taperS to the end of the record (taperS = 0 gives a hard cut).
  *
  * Dimensionless. Source: Fladung, "Windows used for impact testing", IMAC XV (1997), pp. 1662–1666
- * (field-reference §3.1); margin and taper lengths are common practice. Subtract the DC offset
+ * (docs/methods.md#force-window); margin and taper lengths are common practice. Subtract the DC offset
  * (mean of the pre-trigger) before applying it.
  */
 export function forceWindow(n: number, fs: number, options: ForceWindowOptions): Float64Array {
@@ -88,7 +88,7 @@ export function forceWindow(n: number, fs: number, options: ForceWindowOptions):
  *
  * Apply the same window to the force AND the responses: then H_w(s) = H(s + 1/τ), every pole moves
  * left by 1/τ (s⁻¹) and the added damping is removed with `correctExponentialDamping`.
- * Source: Fladung 1997 (field-reference §3.2).
+ * Source: Fladung 1997 (docs/methods.md#exp-window).
  */
 export function exponentialWindow(n: number, fs: number, options: ExponentialWindowOptions): Float64Array {
   checkInteger(n, 'n', 1);
@@ -107,7 +107,7 @@ export function exponentialWindow(n: number, fs: number, options: ExponentialWin
 /**
  * Time constant τ (s) of an exponential window that starts at `startS` (s) and has decayed to the
  * level p (0 < p < 1, e.g. 0.01 for 1 %) at the end of a record of `recordS` (s):
- * τ = −(T − t0)/ln p. Source: field-reference §3.2 (Fladung 1997 recommends p ≈ 1 %).
+ * τ = −(T − t0)/ln p. Source: docs/methods.md#exp-window (Fladung 1997 recommends p ≈ 1 %).
  * Check: T = 1 s, t0 = 0, p = 0.01 → τ = 0.21715 s.
  */
 export function tauFromEndLevel(recordS: number, startS: number, p: number): number {
@@ -121,7 +121,7 @@ export function tauFromEndLevel(recordS: number, startS: number, p: number): num
 
 /**
  * Removes the damping added by an exponential window (time constant tauS, s) from a pole estimated
- * on windowed data, exactly (field-reference §3.2):
+ * on windowed data, exactly (docs/methods.md#exp-window):
  * σ_est = ζ_est·ω_n,est, ω_d = ω_n,est·√(1 − ζ_est²) (unchanged by the window),
  * σ_true = σ_est − 1/τ, ω_n,true = √(ω_d² + σ_true²), ζ_true = σ_true/ω_n,true.
  *

@@ -47,7 +47,7 @@ export function noise(n: number, sigma: number, rnd: () => number): Float64Array
   return x;
 }
 
-/** Samples of A·sin(π(t − t0)/T) for t0 ≤ t ≤ t0 + T, else 0 (field-reference §1.2). */
+/** Samples of A·sin(π(t − t0)/T) for t0 ≤ t ≤ t0 + T, else 0 (docs/methods.md#pulse-spectra). */
 export function halfSine(n: number, fs: number, amplitude: number, durationS: number, startS = 0): Float64Array {
   const x = new Float64Array(n);
   for (let i = 0; i < n; i++) {

@@ -68,7 +68,7 @@ describe('transform properties', () => {
         const B = transientSpectrum(x, c * fs);
         const Ea = energySpectralDensity(x, fs);
         const Eb = energySpectralDensity(x, c * fs);
-        // X = Δt·DFT (field-reference §1.1): Δt scales by 1/c; frequencies by c
+        // X = Δt·DFT (docs/methods.md#transient-spectrum): Δt scales by 1/c; frequencies by c
         for (let k = 0; k < A.re.length; k++) {
           expect(B.re[k] * c).toBeCloseTo(A.re[k], 9);
           expect(B.im[k] * c).toBeCloseTo(A.im[k], 9);

@@ -11,13 +11,13 @@ import mpmath as mp
 
 np.set_printoptions(precision=12)
 
-# --- Free-free Euler-Bernoulli beam: roots of cos(x) cosh(x) = 1 (field-reference §7.1) ---
+# --- Free-free Euler-Bernoulli beam: roots of cos(x) cosh(x) = 1 (docs/methods.md#free-free-beam) ---
 g = lambda x: np.cos(x) - 1.0 / np.cosh(x)
 roots = [brentq(g, (n + 0.5) * np.pi - 0.5, (n + 0.5) * np.pi + 0.5, xtol=1e-15) for n in range(1, 31)]
 print("betaL 1..5:", ["%.9f" % r for r in roots[:5]])
 print("betaL 10, 20, 30:", ["%.12f" % roots[i] for i in (9, 19, 29)])
 
-# Bar of field-reference §7.1
+# Bar of docs/methods.md#free-free-beam
 L, b, h, E, rho = 1.0, 0.040, 0.010, 210e9, 7850.0
 rhoA = rho * b * h
 for name, I in (("weak", b * h**3 / 12), ("stiff", h * b**3 / 12)):
@@ -36,7 +36,7 @@ for n in (20, 30):
     print("mode", n, "unnormalised shape at x/L = 0.13, 0.5, 0.77, 1.0:",
           ["%.12f" % shape_mp(n, mp.mpf(x)) for x in ("0.13", "0.5", "0.77", "1.0")])
 
-# --- SDOF, m = 1 kg, fn = 100 Hz, zeta = 0.02 (field-reference §5.1) ---
+# --- SDOF, m = 1 kg, fn = 100 Hz, zeta = 0.02 (docs/methods.md#frf-kinds) ---
 m, fn, z = 1.0, 100.0, 0.02
 wn = 2 * np.pi * fn
 k, c = m * wn**2, 2 * z * m * wn
@@ -45,7 +45,7 @@ for f in (0.0, 50.0, 100.0, 150.0):
     a = 1 / (k - m * w**2 + 1j * c * w)
     print("SDOF f=%g: receptance %r mobility %r accelerance %r" % (f, a, 1j * w * a, -w**2 * a))
 
-# --- 2-DOF chain of field-reference §7.3(a), Rayleigh damping giving 2 % in both modes ---
+# --- 2-DOF chain of docs/methods.md#chain-2dof, Rayleigh damping giving 2 % in both modes ---
 M = np.eye(2); K = np.array([[2000.0, -1000.0], [-1000.0, 2000.0]])
 w1, w2 = np.sqrt(1000.0), np.sqrt(3000.0)
 bR = 2 * 0.02 / (w1 + w2); aR = 2 * 0.02 * w1 * w2 / (w1 + w2)
@@ -55,7 +55,7 @@ for f in (6.0, w1 / (2 * np.pi), w2 / (2 * np.pi), 2.0, 12.0):
     A = np.linalg.inv(K - w**2 * M + 1j * w * C)
     print("2DOF f=%.9f: a11 %r a12 %r" % (f, A[0, 0], A[0, 1]))
 
-# --- Half-sine spectra (field-reference §1.2, §4.1) sampled as the simulator samples them ---
+# --- Half-sine spectra (docs/methods.md#pulse-spectra, #double-hit) sampled as the simulator samples them ---
 fs, N, A0, T = 51200.0, 8192, 100.0, 1e-3
 t = np.arange(N) / fs
 x = np.where(t <= T, A0 * np.sin(np.pi * t / T), 0.0)

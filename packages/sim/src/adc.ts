@@ -11,7 +11,7 @@ export function quantisationStep(range: number, bits: number): number {
  * Digitises in place as a bipolar `bits`-bit converter over ±range: each value becomes
  * round(x/q)·q with q = 2·range/2^bits, and codes are limited to [−2^{bits−1}, 2^{bits−1} − 1],
  * so outputs lie in [−range, range − q] and never exceed the range. Returns true when any value
- * had to be limited (the front end's overload flag, field-reference §4.2).
+ * had to be limited (the front end's overload flag, docs/methods.md#overload).
  */
 export function digitiseInPlace(samples: Float64Array, range: number, bits: number): boolean {
   const q = quantisationStep(range, bits);

@@ -16,7 +16,7 @@ import { requireInteger } from './validate.ts';
  * *Discrete-Time Signal Processing*, §7.5): transition band 0.4·fs … 0.6·fs, 100 dB stop-band
  * attenuation, taps normalised to unit DC gain. The taps are symmetric and the output is taken
  * at the centre tap, so the filter adds no delay (its ringing shows symmetrically, a few samples
- * before and after the pulse — the reason for a pre-trigger, field-reference §4.4).
+ * before and after the pulse — the reason for a pre-trigger, docs/methods.md#trigger).
  */
 export function decimationFilter(oversample: number): Float64Array {
   requireInteger('oversample', oversample, 2, 64);

@@ -1,5 +1,5 @@
 /**
- * DOF labels: `<pointLabel>:<sign><axis>`, e.g. `12:+Z`, `P07:-Y` (shared/field-reference.md §9).
+ * DOF labels: `<pointLabel>:<sign><axis>`, e.g. `12:+Z`, `P07:-Y` (docs/methods.md#dof-signs).
  * The axis is X, Y or Z of the right-handed global frame; the sign is `+`, `-` or the Unicode minus
  * `−` (U+2212), which is accepted on input and written back as ASCII `-`.
  */

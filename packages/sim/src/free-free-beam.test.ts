@@ -2,13 +2,13 @@ import { describe, expect, it } from 'vitest';
 import { simpson } from '../test/helpers.ts';
 import { freeFreeBeamModes, freeFreeBeamRoots, freeFreeShape } from './free-free-beam.ts';
 
-// The bar of field-reference §7.1: L = 1.000 m, 40 × 10 mm, E = 210 GPa, ρ = 7850 kg/m³.
+// The bar of docs/methods.md#free-free-beam: L = 1.000 m, 40 × 10 mm, E = 210 GPa, ρ = 7850 kg/m³.
 const bar = { lengthM: 1, widthM: 0.04, thicknessM: 0.01, youngsPa: 210e9, densityKgM3: 7850 } as const;
 
 describe('freeFreeBeamRoots', () => {
-  it('solves cos βL cosh βL = 1 for the first five roots of field-reference §7.1', () => {
+  it('solves cos βL cosh βL = 1 for the first five roots of docs/methods.md#free-free-beam', () => {
     const roots = freeFreeBeamRoots(5);
-    // §7.1 [calc, brentq]: 4.730041, 7.853205, 10.995608, 14.137165, 17.278760 (6 decimals).
+    // docs/methods.md#free-free-beam [calc, brentq]: 4.730041, 7.853205, 10.995608, 14.137165, 17.278760 (6 decimals).
     const expected = [4.730041, 7.853205, 10.995608, 14.137165, 17.27876];
     expected.forEach((r, i) => expect(Math.abs(roots[i] - r)).toBeLessThan(5e-7));
   });
@@ -21,7 +21,7 @@ describe('freeFreeBeamRoots', () => {
     expect(Math.abs(roots[29] - 95.818575934489)).toBeLessThan(1e-11);
   });
 
-  it('approaches (2n + 1)π/2 for the higher roots (§7.1)', () => {
+  it('approaches (2n + 1)π/2 for the higher roots (docs/methods.md#free-free-beam)', () => {
     const roots = freeFreeBeamRoots(12);
     expect(Math.abs(roots[11] - (25 * Math.PI) / 2)).toBeLessThan(1e-9);
   });
@@ -33,22 +33,22 @@ describe('freeFreeBeamRoots', () => {
 });
 
 describe('freeFreeBeamModes for the steel bar', () => {
-  it('gives the weak-direction frequencies 53.17, 146.55, 287.30, 474.93, 709.46 Hz (§7.1)', () => {
+  it('gives the weak-direction frequencies 53.17, 146.55, 287.30, 474.93, 709.46 Hz (docs/methods.md#free-free-beam)', () => {
     const beam = freeFreeBeamModes({ ...bar, direction: 'weak', count: 5 });
-    const printed = [53.17, 146.55, 287.3, 474.93, 709.46]; // §7.1 table, Euler–Bernoulli column
+    const printed = [53.17, 146.55, 287.3, 474.93, 709.46]; // docs/methods.md#free-free-beam table, Euler–Bernoulli column
     beam.modes.forEach((m, i) => expect(Math.round(m.fnHz * 100) / 100).toBe(printed[i]));
     // reference/sim_reference.py (numpy): 53.166013, 146.554161, 287.304754, 474.929352, 709.462517 Hz
     const numpy = [53.166013, 146.554161, 287.304754, 474.929352, 709.462517];
     beam.modes.forEach((m, i) => expect(Math.abs(m.fnHz - numpy[i])).toBeLessThan(1e-6));
   });
 
-  it('gives the stiff-direction frequencies 212.66, 586.22, 1149.22, 1899.72 Hz (§7.1)', () => {
+  it('gives the stiff-direction frequencies 212.66, 586.22, 1149.22, 1899.72 Hz (docs/methods.md#free-free-beam)', () => {
     const beam = freeFreeBeamModes({ ...bar, direction: 'stiff', count: 4 });
-    const printed = [212.66, 586.22, 1149.22, 1899.72]; // §7.1 table
+    const printed = [212.66, 586.22, 1149.22, 1899.72]; // docs/methods.md#free-free-beam table
     beam.modes.forEach((m, i) => expect(Math.round(m.fnHz * 100) / 100).toBe(printed[i]));
   });
 
-  it('has ρA = 3.140 kg/m and EI = 700 N·m² (weak) and 11 200 N·m² (stiff) (§7.1)', () => {
+  it('has ρA = 3.140 kg/m and EI = 700 N·m² (weak) and 11 200 N·m² (stiff) (docs/methods.md#free-free-beam)', () => {
     const weak = freeFreeBeamModes({ ...bar, direction: 'weak', count: 1 });
     const stiff = freeFreeBeamModes({ ...bar, direction: 'stiff', count: 1 });
     expect(weak.massPerLengthKgM).toBeCloseTo(3.14, 12);
@@ -56,9 +56,9 @@ describe('freeFreeBeamModes for the steel bar', () => {
     expect(stiff.bendingStiffnessNm2).toBeCloseTo(11200, 8);
   });
 
-  it('puts the nodes of modes 1–4 at the x/L values of §7.1', () => {
+  it('puts the nodes of modes 1–4 at the x/L values of docs/methods.md#free-free-beam', () => {
     const beam = freeFreeBeamModes({ ...bar, direction: 'weak', count: 4 });
-    // §7.1 [calc], 4 decimals.
+    // docs/methods.md#free-free-beam [calc], 4 decimals.
     const expected = [
       [0.2242, 0.7758],
       [0.1321, 0.5, 0.8679],

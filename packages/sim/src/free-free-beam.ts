@@ -1,7 +1,7 @@
 import { requireFinite, requireInteger, requirePositive } from './validate.ts';
 
 /**
- * Free–free uniform Euler–Bernoulli beam (field-reference §7.1; Thomson & Dahleh, *Theory of
+ * Free–free uniform Euler–Bernoulli beam (docs/methods.md#free-free-beam; Thomson & Dahleh, *Theory of
  * Vibration with Applications*, App. D; Blevins, *Formulas for Natural Frequency and Mode Shape*,
  * Table 8-1).
  *
@@ -90,7 +90,7 @@ export interface FreeFreeBeamInput {
   densityKgM3: number;
   /**
    * `weak`: bending through the smaller side, I = big·small³/12; `stiff`: through the larger
-   * side, I = small·big³/12 (field-reference §7.1 "weak direction" / "stiff direction").
+   * side, I = small·big³/12 (docs/methods.md#free-free-beam "weak direction" / "stiff direction").
    */
   direction: BendingDirection;
   /** Number of elastic modes. */
@@ -124,7 +124,7 @@ export interface FreeFreeBeam {
 /**
  * Elastic bending modes of a free–free uniform rectangular bar (Euler–Bernoulli: no shear
  * deformation or rotary inertia, so stiff-direction modes from the 3rd on come out several %
- * high, field-reference §7.1).
+ * high, docs/methods.md#free-free-beam).
  */
 export function freeFreeBeamModes(input: FreeFreeBeamInput): FreeFreeBeam {
   const L = requirePositive('lengthM', input?.lengthM);

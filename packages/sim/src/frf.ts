@@ -9,15 +9,15 @@ export interface ComplexArray {
 }
 
 /**
- * Closed-form FRF of a modal model with proportional viscous damping (field-reference §5.5):
+ * Closed-form FRF of a modal model with proportional viscous damping (docs/methods.md#modal-model):
  *
  *   α_jk(ω) = Σ_r φ_jr·φ_kr / (ω_r² − ω² + 2j·ζ_r·ω_r·ω)          receptance, m/N
  *   Y_jk(ω) = jω·α_jk(ω)                                             mobility, (m/s)/N
  *   A_jk(ω) = −ω²·α_jk(ω)                                            accelerance, (m/s²)/N
  *
  * with j = response DOF and k = excitation DOF (H_jk = response j ÷ force k), time dependence
- * e^{+jωt} (field-reference §0), so a driving-point receptance has its phase in [−180°, 0°].
- * Signed DOFs follow H(i, −d) = −H(i, +d) (§9). Rigid-body modes (fnHz = 0) add −φφ/ω² to the
+ * e^{+jωt} (docs/methods.md#conventions), so a driving-point receptance has its phase in [−180°, 0°].
+ * Signed DOFs follow H(i, −d) = −H(i, +d) (docs/methods.md#dof-signs). Rigid-body modes (fnHz = 0) add −φφ/ω² to the
  * receptance, i.e. the constant φ_jφ_k to the accelerance (the mass line). No residual terms are
  * added for modes that are not in the model.
  *

@@ -3,14 +3,14 @@ import { cabs, dtft, halfSineAt, rk4Accelerations } from '../test/helpers.ts';
 import { halfSineForce, halfSineImpulse, halfSineSpectrum, sdofHalfSineResponse } from './half-sine.ts';
 
 describe('half-sine force pulse', () => {
-  it('has the impulse 2AT/π: 0.0636620 N·s for A = 100 N, T = 1 ms (§1.2)', () => {
-    expect(Math.abs(halfSineImpulse(100, 1e-3) - 0.063662)).toBeLessThan(5e-8); // §1.2 check value
+  it('has the impulse 2AT/π: 0.0636620 N·s for A = 100 N, T = 1 ms (docs/methods.md#pulse-spectra)', () => {
+    expect(Math.abs(halfSineImpulse(100, 1e-3) - 0.063662)).toBeLessThan(5e-8); // docs/methods.md#pulse-spectra check value
   });
 
-  it('sums to X(0) = 0.063652 N·s when sampled at 51.2 kHz with N = 8192 (§1.2)', () => {
+  it('sums to X(0) = 0.063652 N·s when sampled at 51.2 kHz with N = 8192 (docs/methods.md#pulse-spectra)', () => {
     const f = halfSineForce([{ startS: 0, amplitudeN: 100, widthS: 1e-3 }], 51200, 8192);
     const x0 = f.reduce((s, v) => s + v, 0) / 51200;
-    // §1.2: 0.063652 (−0.016 %); numpy in reference/sim_reference.py: 0.063651590
+    // docs/methods.md#pulse-spectra: 0.063652 (−0.016 %); numpy in reference/sim_reference.py: 0.063651590
     expect(Math.abs(x0 - 0.06365159)).toBeLessThan(1e-9);
   });
 
@@ -23,20 +23,20 @@ describe('half-sine force pulse', () => {
     expect(f[111]).toBe(0);
   });
 
-  it('has the analytic spectrum of §1.2: |X(500 Hz)| = 0.05 and |X(1 kHz)| = 0.0212207 N·s for 100 N, 1 ms', () => {
+  it('has the analytic spectrum of docs/methods.md#pulse-spectra: |X(500 Hz)| = 0.05 and |X(1 kHz)| = 0.0212207 N·s for 100 N, 1 ms', () => {
     const spec = halfSineSpectrum(100, 1e-3, [0, 500, 1000, 1500]);
-    expect(Math.abs(spec.re[0] - 0.063662)).toBeLessThan(5e-8); // §1.2 X(0)
-    expect(Math.abs(Math.hypot(spec.re[1], spec.im[1]) - 0.05)).toBeLessThan(1e-12); // §1.2, the removable 0/0
-    expect(Math.abs(Math.hypot(spec.re[2], spec.im[2]) - 0.0212207)).toBeLessThan(5e-8); // §1.2 = X(0)/3
-    expect(Math.hypot(spec.re[3], spec.im[3])).toBeLessThan(1e-15); // §1.2 first zero at 1.5/T
+    expect(Math.abs(spec.re[0] - 0.063662)).toBeLessThan(5e-8); // docs/methods.md#pulse-spectra X(0)
+    expect(Math.abs(Math.hypot(spec.re[1], spec.im[1]) - 0.05)).toBeLessThan(1e-12); // docs/methods.md#pulse-spectra, the removable 0/0
+    expect(Math.abs(Math.hypot(spec.re[2], spec.im[2]) - 0.0212207)).toBeLessThan(5e-8); // docs/methods.md#pulse-spectra = X(0)/3
+    expect(Math.hypot(spec.re[3], spec.im[3])).toBeLessThan(1e-15); // docs/methods.md#pulse-spectra first zero at 1.5/T
   });
 
-  it('samples to a spectrum that matches the analytic one at 51.2 kHz (|X(500 Hz)| = 0.0499999, §1.2)', () => {
+  it('samples to a spectrum that matches the analytic one at 51.2 kHz (|X(500 Hz)| = 0.0499999, docs/methods.md#pulse-spectra)', () => {
     const f = halfSineForce([{ startS: 0, amplitudeN: 100, widthS: 1e-3 }], 51200, 8192);
-    expect(Math.abs(cabs(dtft(f, 51200, 500)) - 0.0499999)).toBeLessThan(1e-7); // §1.2 sampled estimate
+    expect(Math.abs(cabs(dtft(f, 51200, 500)) - 0.0499999)).toBeLessThan(1e-7); // docs/methods.md#pulse-spectra sampled estimate
   });
 
-  it('shows the double-hit notches of §4.1: two 100 N, 1 ms pulses 5 ms apart', () => {
+  it('shows the double-hit notches of docs/methods.md#double-hit: two 100 N, 1 ms pulses 5 ms apart', () => {
     const f = halfSineForce(
       [
         { startS: 0, amplitudeN: 100, widthS: 1e-3 },
@@ -45,7 +45,7 @@ describe('half-sine force pulse', () => {
       51200,
       8192,
     );
-    // §4.1: zero at 100 and 300 Hz, and 0.12261 N·s (twice 0.061305) at 200 Hz.
+    // docs/methods.md#double-hit: zero at 100 and 300 Hz, and 0.12261 N·s (twice 0.061305) at 200 Hz.
     expect(cabs(dtft(f, 51200, 100))).toBeLessThan(1e-9);
     expect(cabs(dtft(f, 51200, 300))).toBeLessThan(1e-9);
     expect(Math.abs(cabs(dtft(f, 51200, 200)) - 0.12261)).toBeLessThan(5e-6);
@@ -58,7 +58,7 @@ describe('half-sine force pulse', () => {
 });
 
 describe('sdofHalfSineResponse', () => {
-  // SDOF of field-reference §5.1: m = 1 kg, f_n = 100 Hz, ζ = 0.02; a 100 N, 1 ms hammer pulse at t₀ = 2 ms.
+  // SDOF of docs/methods.md#frf-kinds: m = 1 kg, f_n = 100 Hz, ζ = 0.02; a 100 N, 1 ms hammer pulse at t₀ = 2 ms.
   const wn = 2 * Math.PI * 100;
   const k = wn * wn;
   const c = 2 * 0.02 * wn;
@@ -91,7 +91,7 @@ describe('sdofHalfSineResponse', () => {
     const fs = 20000;
     const x = sdofHalfSineResponse({ fnHz: 100, zeta: 0.02, pulse, fs, samples: 4000, derivative: 0 });
     for (let n = 0; n <= 40; n++) expect(x[n]).toBe(0); // before and at t₀ = 2 ms
-    // After the pulse x(t) = X e^{−σt} sin(ω_d t + ψ): one damped period later the value shrinks by e^{−σ T_d} (§5.2).
+    // After the pulse x(t) = X e^{−σt} sin(ω_d t + ψ): one damped period later the value shrinks by e^{−σ T_d} (docs/methods.md#impulse-response).
     const Td = 1 / (100 * Math.sqrt(1 - 0.02 ** 2));
     const sigma = 0.02 * wn;
     // x at τ = 50 ms, and at τ = 50 ms + 20 T_d (by moving the pulse start, so both land on a sample).
@@ -103,7 +103,7 @@ describe('sdofHalfSineResponse', () => {
     expect(Number.isFinite(x[3999])).toBe(true);
   });
 
-  it('tends to impulse × h(t) (§5.2) for a very short pulse', () => {
+  it('tends to impulse × h(t) (docs/methods.md#impulse-response) for a very short pulse', () => {
     const short = { startS: 0, amplitudeN: 1000, widthS: 1e-6 };
     const I = (2 * short.amplitudeN * short.widthS) / Math.PI;
     const fs = 5000;
@@ -111,7 +111,7 @@ describe('sdofHalfSineResponse', () => {
     const wd = wn * Math.sqrt(1 - 0.02 ** 2);
     for (let n = 1; n < 500; n++) {
       const t = n / fs - short.widthS / 2; // the pulse's centroid is at T/2
-      const h = (Math.exp(-0.02 * wn * t) * Math.sin(wd * t)) / wd; // §5.2, m = 1 kg
+      const h = (Math.exp(-0.02 * wn * t) * Math.sin(wd * t)) / wd; // docs/methods.md#impulse-response, m = 1 kg
       expect(Math.abs(x[n] - I * h)).toBeLessThan(1e-6 * (I / wd));
     }
   });

@@ -1,7 +1,7 @@
 import { requireFinite, requireInteger, requireNonNegative, requirePositive } from './validate.ts';
 
 /**
- * One half-sine force pulse, the usual model of a hammer contact (field-reference §1.2):
+ * One half-sine force pulse, the usual model of a hammer contact (docs/methods.md#pulse-spectra):
  * f(t) = A·sin(π(t − t₀)/T) for t₀ ≤ t ≤ t₀ + T, else 0.
  * Its impulse is 2AT/π (N·s) and its spectrum (2AT/π)·cos(πfT)/(1 − 4f²T²)·e^{−jπfT}·e^{−j2πft₀}.
  */
@@ -20,7 +20,7 @@ function checkPulse(pulse: HalfSinePulse, name = 'pulse'): void {
   requirePositive(`${name}.widthS`, pulse.widthS);
 }
 
-/** Impulse of a half-sine pulse, ∫f dt = 2AT/π, N·s (field-reference §1.2). */
+/** Impulse of a half-sine pulse, ∫f dt = 2AT/π, N·s (docs/methods.md#pulse-spectra). */
 export function halfSineImpulse(amplitudeN: number, widthS: number): number {
   requireFinite('amplitudeN', amplitudeN);
   requirePositive('widthS', widthS);
@@ -28,8 +28,8 @@ export function halfSineImpulse(amplitudeN: number, widthS: number): number {
 }
 
 /**
- * Analytic continuous spectrum of a half-sine pulse starting at t = 0 (field-reference §1.2):
- * X(f) = (2AT/π)·cos(πfT)/(1 − 4f²T²)·e^{−jπfT}, N·s, forward transform e^{−j2πft} (§0).
+ * Analytic continuous spectrum of a half-sine pulse starting at t = 0 (docs/methods.md#pulse-spectra):
+ * X(f) = (2AT/π)·cos(πfT)/(1 − 4f²T²)·e^{−jπfT}, N·s, forward transform e^{−j2πft} (docs/methods.md#conventions).
  * The removable 0/0 at f = 1/(2T) is evaluated by its limit, |X| = AT/2.
  */
 export function halfSineSpectrum(amplitudeN: number, widthS: number, fHz: ArrayLike<number>): { re: Float64Array; im: Float64Array } {
@@ -78,7 +78,7 @@ export function halfSineForce(pulses: HalfSinePulse[], fs: number, samples: numb
  *
  * Derivation (Duhamel integral in closed form). With σ = ζω_n, ω_d = ω_n√(1 − ζ²),
  * λ = −σ + jω_d, the impulse response is h(t) = e^{−σt} sin(ω_d t)/ω_d = 2Re[c·e^{λt}],
- * c = 1/(2jω_d) (field-reference §5.2). Write the pulse as A(e^{s₊τ} − e^{s₋τ})/(2j) with
+ * c = 1/(2jω_d) (docs/methods.md#impulse-response). Write the pulse as A(e^{s₊τ} − e^{s₋τ})/(2j) with
  * s± = ±jπ/T. Since ∫₀ᵘ e^{λ(τ−v)} e^{sv} dv = e^{λτ}(e^{(s−λ)u} − 1)/(s − λ):
  *   0 ≤ τ ≤ T:  q(τ) = 2Re[ Σ± K± (e^{s±τ} − e^{λτ}) ],
  *   τ > T:      q(τ) = 2Re[ Σ± K± (e^{(s±−λ)T} − 1) e^{λτ} ],

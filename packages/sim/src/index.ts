@@ -12,8 +12,9 @@ export {
   type FreeFreeBeam,
 } from './free-free-beam.ts';
 export type { GeometryPoint, DemoStructure } from './geometry.ts';
-export { steelBar, steelBarModel, STEEL_BAR, STEEL_BAR_DEFAULT_ZETA, type SteelBarModelInput } from './steel-bar.ts';
+export { steelBar, steelBarModel, STEEL_BAR, STEEL_BAR_SUSPENSION, STEEL_BAR_ZETA, type SteelBarModelInput, type SteelBarSuspension } from './steel-bar.ts';
 export { pumpSkidBaseplate, PUMP_SKID_PLATE, type PumpSkidOptions } from './pump-skid.ts';
+export { simplySupportedPlate, SS_PLATE, type SsPlateOptions } from './ss-plate.ts';
 export {
   halfSineForce,
   halfSineImpulse,

@@ -15,7 +15,7 @@ describe('DOF labels', () => {
     expect(parseDof('P07:-Y')).toMatchObject({ point: 'P07', axis: 'Y', sign: -1, label: 'P07:-Y', positive: 'P07:+Y' });
   });
 
-  it('accepts the Unicode minus used in field-reference §9 and writes it back as ASCII', () => {
+  it('accepts the Unicode minus used in docs/methods.md#dof-signs and writes it back as ASCII', () => {
     expect(parseDof('12:\u2212X').label).toBe('12:-X');
   });
 
@@ -33,7 +33,7 @@ describe('DOF labels', () => {
 });
 
 describe('mode shapes at signed DOFs', () => {
-  it('flips the sign for a negative direction (field-reference §9: H(i, −d) = −H(i, +d))', () => {
+  it('flips the sign for a negative direction (docs/methods.md#dof-signs: H(i, −d) = −H(i, +d))', () => {
     const mode = model.modes[0];
     expect(modeShapeValue(mode, '1:+Z')).toBe(0.5);
     expect(modeShapeValue(mode, '1:-Z')).toBe(-0.5);

@@ -16,7 +16,7 @@ export interface Mode {
   shape: Record<string, number>;
 }
 
-/** A modal model: mass-normalised real modes (field-reference §5.5). */
+/** A modal model: mass-normalised real modes (docs/methods.md#modal-model). */
 export interface ModalModel {
   modes: Mode[];
 }
@@ -83,7 +83,7 @@ export function compileModel(model: ModalModel): CompiledModel {
 }
 
 /**
- * Shape values of every mode at a signed DOF: φ(i, −d) = −φ(i, +d) (field-reference §9 sign rule).
+ * Shape values of every mode at a signed DOF: φ(i, −d) = −φ(i, +d) (docs/methods.md#dof-signs sign rule).
  * Throws RangeError when the DOF's point does not occur in the model.
  */
 export function shapeVector(compiled: CompiledModel, dof: string): Float64Array {
@@ -99,7 +99,7 @@ export function shapeVector(compiled: CompiledModel, dof: string): Float64Array 
 
 /**
  * The value of one mode's shape at a signed DOF, in 1/√kg. A negative direction flips the sign
- * (field-reference §9: H(i, −d) = −H(i, +d)); a direction the mode does not list is 0.
+ * (docs/methods.md#dof-signs: H(i, −d) = −H(i, +d)); a direction the mode does not list is 0.
  */
 export function modeShapeValue(mode: Mode, dof: string): number {
   const parsed = parseDof(dof);

@@ -14,7 +14,7 @@ import {
 
 /** Settings of one simulated hammer hit. Units: N, m/s², s, Hz. */
 export interface HitOptions {
-  /** DOF the hammer strikes, in the direction of travel into the surface (field-reference §9). */
+  /** DOF the hammer strikes, in the direction of travel into the surface (docs/methods.md#dof-signs). */
   excitationDof: string;
   /** DOFs of the accelerometer channels (their positive sensing axes). */
   responseDofs: string[];
@@ -26,7 +26,7 @@ export interface HitOptions {
   preTriggerS: number;
   /** Peak force A of the half-sine pulse, N. */
   peakForceN: number;
-  /** Contact time T_c, s (harder tip → shorter contact → wider force spectrum, §4.3). */
+  /** Contact time T_c, s (harder tip → shorter contact → wider force spectrum, docs/methods.md#roll-off). */
   pulseWidthS: number;
   /** A second contact `delayS` after the start of the first (start to start), `ratio` × A high, same width. */
   doubleHit?: { delayS: number; ratio: number };
@@ -97,8 +97,8 @@ function perChannel(name: string, value: number | number[] | undefined, channels
 /**
  * Simulates one hammer hit on a modal model.
  *
- * - Force: a half-sine A·sin(π(t − t₀)/T) from t₀ = preTriggerS (field-reference §1.2), plus an
- *   optional second pulse for a double hit (§4.1).
+ * - Force: a half-sine A·sin(π(t − t₀)/T) from t₀ = preTriggerS (docs/methods.md#pulse-spectra), plus an
+ *   optional second pulse for a double hit (docs/methods.md#double-hit).
  * - Response: acceleration a_i(t) = Σ_r φ_ir·φ_kr·q̈_r(t), with q̈_r the EXACT response of mode r
  *   (unit modal mass) to the force, from the closed-form Duhamel integral of a half-sine
  *   (half-sine.ts) — no time stepping.
@@ -108,7 +108,7 @@ function perChannel(name: string, value: number | number[] | undefined, channels
  *   modelFrf to ~1e-4 across the band below 0.4·fs.
  * - Then, per channel: + DC offset + white gaussian noise (rms as given), then a `adcBits`
  *   converter over ±range (quantisation step 2·range/2^bits; values beyond the range are limited
- *   and set the overload flag, §4.2).
+ *   and set the overload flag, docs/methods.md#overload).
  *
  * Random numbers are drawn from `rng` in a fixed order (force noise, then each response channel),
  * so the same seed and options reproduce the record exactly.

@@ -3,15 +3,15 @@ import { digitise, quantisationStep } from './adc.ts';
 import { fromVolts, toVolts } from './volts.ts';
 
 describe('toVolts and fromVolts', () => {
-  it('converts 5 g = 49.033 m/s² at 100 mV/g to 0.5 V (field-reference §9)', () => {
-    const mvPerMs2 = 100 / 9.80665; // 100 mV/g = 10.1972 mV/(m/s²), §9
+  it('converts 5 g = 49.033 m/s² at 100 mV/g to 0.5 V (docs/methods.md#units)', () => {
+    const mvPerMs2 = 100 / 9.80665; // 100 mV/g = 10.1972 mV/(m/s²), docs/methods.md#units
     expect(Math.abs(mvPerMs2 - 10.1972)).toBeLessThan(5e-5);
     expect(toVolts([5 * 9.80665], mvPerMs2)[0]).toBeCloseTo(0.5, 12);
-    expect(Math.abs(fromVolts([0.5], mvPerMs2)[0] - 49.033)).toBeLessThan(5e-4); // §9 check: 49.033 m/s²
+    expect(Math.abs(fromVolts([0.5], mvPerMs2)[0] - 49.033)).toBeLessThan(5e-4); // docs/methods.md#units check: 49.033 m/s²
   });
 
-  it('converts force at 2.2481 mV/N (10 mV/lbf, §9) and back without loss', () => {
-    const s = 10 / 4.4482216152605; // §9: 1 lbf = 4.4482216152605 N exactly
+  it('converts force at 2.2481 mV/N (10 mV/lbf, docs/methods.md#units) and back without loss', () => {
+    const s = 10 / 4.4482216152605; // docs/methods.md#units: 1 lbf = 4.4482216152605 N exactly
     expect(Math.abs(s - 2.2481)).toBeLessThan(5e-5);
     const x = [0, 100, -250.5];
     const back = fromVolts(toVolts(x, s), s);

@@ -2,7 +2,7 @@ import { requirePositive } from './validate.ts';
 
 /**
  * Sensor output in volts for samples in engineering units: V = x · S / 1000, with S the
- * sensitivity in mV per unit (force: mV/N; acceleration: mV/(m/s²)) — field-reference §9:
+ * sensitivity in mV per unit (force: mV/N; acceleration: mV/(m/s²)) — docs/methods.md#units:
  * engineering units = volts ÷ sensitivity. Use it to make "raw volts" recordings of simulated hits.
  */
 export function toVolts(samples: ArrayLike<number>, sensitivityMvPerUnit: number): Float64Array {

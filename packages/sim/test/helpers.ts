@@ -2,7 +2,7 @@
 
 /**
  * Transient spectrum at an arbitrary frequency: X(f) = Δt·Σ x_n e^{−j2πf nΔt}
- * (field-reference §1.1, the DFT evaluated off the bin grid; forward sign e^{−j2πft}, §0).
+ * (docs/methods.md#transient-spectrum, the DFT evaluated off the bin grid; forward sign e^{−j2πft}, docs/methods.md#conventions).
  */
 export function dtft(x: ArrayLike<number>, fs: number, f: number): { re: number; im: number } {
   const dt = 1 / fs;

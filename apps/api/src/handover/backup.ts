@@ -6,15 +6,23 @@
 //   samples/<hitId>.f32  the stored float32 little-endian samples of each hit, byte for byte
 // A restore makes a NEW campaign with new ids everywhere, in one transaction, after checking every
 // sample blob against its SHA-256 in the manifest; raw samples are written back byte-identical.
+// A backup is a file its holder can edit, so a restore grants no role from it: the restorer leads
+// the new campaign, and (when asked) the backup's other members are sent invitations, which each
+// person accepts or not. Nothing in the answer depends on whether an address has an account here.
 import { createHash, randomUUID } from 'node:crypto';
 import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, noiseCheck, originalRecording, point, scheduleEntry, user } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
+import { INVITATION_DAYS, mailInvitation, newInvitationToken } from '../invitations.ts';
+import type { Mailer } from '../mail.ts';
+
+/** Most invitations one restore sends (a backup is editable; a real campaign has far fewer members). */
+export const RESTORE_MAX_INVITATIONS = 100;
 
 export const BACKUP_FORMAT = 'resonote-campaign-backup';
 export const BACKUP_VERSION = 1;
@@ -186,16 +194,55 @@ function isDbInputError(err: unknown): string | null {
   return null;
 }
 
+/** A timestamp of a backup row (ISO text); anything that is no time is refused, not left for the driver to throw on. */
+function timestampOf(v: unknown, table: string, key: string): Date {
+  const d = typeof v === 'string' || typeof v === 'number' ? new Date(v) : null;
+  if (!d || Number.isNaN(d.getTime())) throw corrupt(`tables/${table}.json has a ${key} that is not a timestamp (${JSON.stringify(v)?.slice(0, 40) ?? String(v)})`);
+  return d;
+}
+
 export interface RestoreResult {
   campaignId: string;
   name: string;
   counts: Record<string, number>;
-  membersCopied: number;
-  membersSkipped: string[];
+  /** The backup's members (other than the restorer) who were sent an invitation, with the backup's role. */
+  invited: { email: string; role: CampaignRole }[];
+  /** Members not invited, and why (a malformed address, a mail that could not be sent): never because of an account. */
+  notInvited: { email: string; reason: string }[];
   sourceCampaignId: string;
 }
 
-export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string; email: string }, options: { members: boolean }): Promise<RestoreResult> {
+export interface Restorer {
+  id: string;
+  email: string;
+  name: string;
+  role: 'admin' | 'member';
+}
+
+/**
+ * The accounts whose ids a restore may write into user columns (recorded by, created by, actor):
+ * the restorer and the people who share a campaign with them — whose addresses the restorer sees
+ * anyway — or everyone for an admin. Any other address in the backup's users.json is recorded as
+ * nobody, so the restored campaign cannot show whether an address has an account here.
+ */
+async function knownAccounts(db: Db, restorer: Restorer, emails: string[]): Promise<Map<string, string>> {
+  if (!emails.length) return new Map();
+  const rows =
+    restorer.role === 'admin'
+      ? await db.select({ id: user.id, email: user.email }).from(user).where(inArray(sql`lower(${user.email})`, emails))
+      : await db
+          .selectDistinct({ id: user.id, email: user.email })
+          .from(user)
+          .where(
+            and(
+              inArray(sql`lower(${user.email})`, emails),
+              sql`(${user.id} = ${restorer.id} OR ${user.id} IN (SELECT theirs.user_id FROM ${campaignMember} theirs JOIN ${campaignMember} mine ON mine.campaign_id = theirs.campaign_id WHERE mine.user_id = ${restorer.id}))`,
+            ),
+          );
+  return new Map(rows.map((u) => [u.email.toLowerCase(), u.id]));
+}
+
+export async function restoreBackup(db: Db, file: Buffer, restorer: Restorer, options: { members: boolean; mailer: Mailer; publicUrl: string }): Promise<RestoreResult> {
   let entries: Record<string, Uint8Array>;
   try {
     entries = unzipSync(new Uint8Array(file.buffer, file.byteOffset, file.byteLength));
@@ -248,12 +295,26 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
     blobs.set(id, Buffer.from(bytes));
   }
 
-  // New ids everywhere; user references matched by e-mail on this instance, else null.
+  // The backup's other members become invitations (checked before anything is written).
+  const invitations: { email: string; role: CampaignRole }[] = [];
+  const notInvited: { email: string; reason: string }[] = [];
+  if (options.members) {
+    const seen = new Set<string>([restorer.email.toLowerCase()]);
+    for (const m of members.data) {
+      const email = m.email.trim().toLowerCase();
+      if (seen.has(email)) continue;
+      seen.add(email);
+      if (!z.email().safeParse(email).success) notInvited.push({ email: m.email.slice(0, 200), reason: 'not a valid e-mail address' });
+      else invitations.push({ email, role: m.role });
+    }
+    if (invitations.length > RESTORE_MAX_INVITATIONS) throw new HttpError(400, 'too-many-members', `The backup lists ${invitations.length} members to invite; a restore invites at most ${RESTORE_MAX_INVITATIONS}. Restore without members and invite people from the restored campaign. Nothing was restored.`);
+  }
+
+  // New ids everywhere; user references matched by e-mail among the accounts the restorer knows, else null.
   const ids = new Map<string, string>();
   for (const spec of TABLES) if (spec.hasUuidId) for (const row of tables[spec.name]!) ids.set(row.id as string, randomUUID());
   const emails = [...new Set(users.data.map((u) => u.email.toLowerCase()))];
-  const local = emails.length ? await db.select({ id: user.id, email: user.email }).from(user).where(inArray(sql`lower(${user.email})`, emails)) : [];
-  const localByEmail = new Map(local.map((u) => [u.email.toLowerCase(), u.id]));
+  const localByEmail = await knownAccounts(db, restorer, emails);
   const userMap = new Map<string, string>();
   for (const u of users.data) {
     const mine = localByEmail.get(u.email.toLowerCase());
@@ -274,7 +335,7 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
         const v = row[key];
         if (spec.userCols.includes(key)) out[key] = typeof v === 'string' ? (userMap.get(v) ?? null) : null;
         else if (spec.name === 'hit' && key === 'samples') out[key] = blobs.get(row.id as string)!;
-        else if (type === 'PgTimestamp') out[key] = v === null || v === undefined ? v : new Date(v as string);
+        else if (type === 'PgTimestamp') out[key] = v === null || v === undefined ? v : timestampOf(v, spec.name, key);
         else if (type === 'PgCustomColumn') out[key] = typeof v === 'string' ? Buffer.from(v, 'base64') : v;
         else out[key] = remap(v, ids);
       }
@@ -290,8 +351,8 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
   }
 
   const counts: Record<string, number> = {};
-  const membersSkipped: string[] = [];
-  let membersCopied = 0;
+  const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86_400_000);
+  let pending: { id: string; email: string; role: CampaignRole; token: string }[] = [];
   try {
     await db.transaction(async (tx) => {
       for (const spec of TABLES) {
@@ -302,17 +363,12 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
         for (let i = 0; i < rows.length; i += chunk) await tx.insert(spec.table).values(rows.slice(i, i + chunk) as never);
       }
       await tx.insert(campaignMember).values({ campaignId: newCampaignId, userId: restorer.id, role: 'lead' });
-      if (options.members) {
-        for (const m of members.data) {
-          const localId = localByEmail.get(m.email.toLowerCase());
-          if (!localId) {
-            membersSkipped.push(m.email);
-            continue;
-          }
-          if (localId === restorer.id) continue;
-          await tx.insert(campaignMember).values({ campaignId: newCampaignId, userId: localId, role: m.role }).onConflictDoNothing();
-          membersCopied++;
-        }
+      pending = [];
+      for (const inv of invitations) {
+        const { token, tokenHash } = newInvitationToken();
+        const [row] = await tx.insert(campaignInvitation).values({ campaignId: newCampaignId, email: inv.email, role: inv.role, tokenHash, invitedBy: restorer.id, expiresAt }).returning({ id: campaignInvitation.id });
+        await audit(tx, { campaignId: newCampaignId, actorId: restorer.id, entity: 'invitation', entityId: row!.id, action: 'create', after: { email: inv.email, role: inv.role, expiresAt, via: 'restore' } });
+        pending.push({ id: row!.id, email: inv.email, role: inv.role, token });
       }
       await audit(tx, {
         campaignId: newCampaignId,
@@ -320,7 +376,7 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
         entity: 'campaign',
         entityId: newCampaignId,
         action: 'restore',
-        after: { from: { campaignId: manifest.campaign.id, name: manifest.campaign.name, sourceUrl: manifest.sourceUrl, exportedAt: manifest.exportedAt }, counts, members: options.members ? { copied: membersCopied, skipped: membersSkipped } : 'not copied' },
+        after: { from: { campaignId: manifest.campaign.id, name: manifest.campaign.name, sourceUrl: manifest.sourceUrl, exportedAt: manifest.exportedAt }, counts, members: options.members ? { invited: invitations, notInvited } : 'not copied' },
       });
     });
   } catch (err) {
@@ -329,7 +385,27 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: { id: string
     if (why) throw corrupt(`its rows do not fit this instance's schema (${why})`);
     throw err;
   }
-  return { campaignId: newCampaignId, name: String(c.name), counts, membersCopied, membersSkipped, sourceCampaignId: manifest.campaign.id };
+
+  // Mailed after the commit, one by one, as POST …/invitations does; an invitation whose mail did
+  // not go out is withdrawn so no dead invitation stays open.
+  const invited: { email: string; role: CampaignRole }[] = [];
+  for (const p of pending) {
+    try {
+      await mailInvitation(options.mailer, options.publicUrl, {
+        to: p.email,
+        token: p.token,
+        role: p.role,
+        inviterName: restorer.name,
+        campaign: { name: String(c.name), structure: typeof c.structure === 'string' ? c.structure : null },
+        context: 'The campaign was restored from a backup that lists you as a member; you join it only if you accept.',
+      });
+      invited.push({ email: p.email, role: p.role });
+    } catch {
+      await db.update(campaignInvitation).set({ revokedAt: new Date() }).where(eq(campaignInvitation.id, p.id));
+      notInvited.push({ email: p.email, reason: 'the invitation mail could not be sent; invite this person from the campaign' });
+    }
+  }
+  return { campaignId: newCampaignId, name: String(c.name), counts, invited, notInvited, sourceCampaignId: manifest.campaign.id };
 }
 
 /** Whether the user may restore: an admin, or someone who leads at least one campaign (like creating one). */

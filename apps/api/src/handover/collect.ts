@@ -206,7 +206,7 @@ export async function checksOf(db: Db, campaignId: string, schedule: HandoverEnt
   return {
     reciprocity,
     linearity,
-    note: 'No normative pass/fail threshold exists for these checks (field-reference §6.8); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
+    note: 'No normative pass/fail threshold exists for these checks (reciprocity and linearity checks as in Ewins 2000, Modal Testing, ch. 3); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
   };
 }
 

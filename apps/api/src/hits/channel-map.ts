@@ -79,14 +79,32 @@ export interface UploadReading {
   fullScaleVolts: number;
 }
 
+/** The campaign's measurement ranges (acquisition settings): the hammer's in N, the accelerometers' in m/s². */
+export interface ChannelRanges {
+  forceRangeN: number;
+  responseRangeMs2: number;
+}
+
+/**
+ * A value more than this many times the channel's range cannot be a measurement (a front end clips
+ * at its range; a factor of 1000 leaves room for a wrong range setting without letting an
+ * overflowing value through). Common practice, not a standard.
+ */
+export const PHYSICAL_RANGE_FACTOR = 1000;
+/** Whatever the range setting says, no hammer force or acceleration beyond 1e9 N or m/s² is taken (keeps float32 storage and squared sums finite). */
+const ABSOLUTE_LIMIT = 1e9;
+
+const fmtValue = (v: number) => (Number.isFinite(v) ? Number(v.toPrecision(4)).toString() : String(v));
+
 /**
  * An uploaded file (hits or a background-noise recording) decoded and turned into engineering
  * units channel by channel: volts × 1000 ÷ sensitivity (mV per unit) × the channel's sign. The
- * file must have one column per channel of the map and the settings' sample rate; anything else is
- * refused with a 400 that says what was wrong and that nothing was stored.
+ * file must have one column per channel of the map and the settings' sample rate, and every value
+ * must stay within PHYSICAL_RANGE_FACTOR × the channel's range after the conversion; anything else
+ * is refused with a 400 that says what was wrong (channel, sample, value) and that nothing was stored.
  */
-export function uploadInEngineeringUnits(file: { originalname: string; mimetype: string; buffer: Buffer }, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number): Float64Array[] {
-  return decodedInEngineeringUnits(decodeUpload(file), map, reading, settingsRateHz);
+export function uploadInEngineeringUnits(file: { originalname: string; mimetype: string; buffer: Buffer }, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number, ranges: ChannelRanges): Float64Array[] {
+  return decodedInEngineeringUnits(decodeUpload(file), map, reading, settingsRateHz, ranges);
 }
 
 /** Decodes an uploaded file; a malformed one is a 400 that says nothing was stored. */
@@ -100,7 +118,7 @@ export function decodeUpload(file: { originalname: string; mimetype: string; buf
 }
 
 /** The checks and unit conversion of uploadInEngineeringUnits on a recording already decoded (and perhaps resampled). */
-export function decodedInEngineeringUnits(decoded: DecodedRecording, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number): Float64Array[] {
+export function decodedInEngineeringUnits(decoded: DecodedRecording, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number, ranges: ChannelRanges): Float64Array[] {
   if (decoded.channels.length !== map.length) {
     throw badRequest(`The file has ${decoded.channels.length} channel${decoded.channels.length === 1 ? '' : 's'}; the channel map has ${map.length} (${map.map((c) => `ch${c.channel} ${c.role === 'force' ? 'hammer' : c.dof}`).join(', ')}). Nothing was stored.`);
   }
@@ -110,9 +128,25 @@ export function decodedInEngineeringUnits(decoded: DecodedRecording, map: Channe
   const scale = decoded.fractionOfFullScale ? reading.fullScaleVolts : 1;
   return decoded.channels.map((ch, i) => {
     const c = map[i]!;
-    const factor = (reading.units === 'volts' ? (scale * 1000) / c.sensitivityBase : 1) * c.sign;
+    const volts = reading.units === 'volts';
+    const factor = (volts ? (scale * 1000) / c.sensitivityBase : 1) * c.sign;
+    const range = c.role === 'force' ? ranges.forceRangeN : ranges.responseRangeMs2;
+    const limit = Math.min(PHYSICAL_RANGE_FACTOR * range, ABSOLUTE_LIMIT);
     const out = new Float64Array(ch.length);
-    for (let k = 0; k < ch.length; k++) out[k] = ch[k]! * factor;
+    for (let k = 0; k < ch.length; k++) {
+      const v = ch[k]! * factor;
+      if (!(Math.abs(v) <= limit)) {
+        const what = `ch${c.channel} (${c.role === 'force' ? 'hammer' : `accelerometer at ${c.dof}`})`;
+        const given = volts ? `${fmtValue(ch[k]! * scale)} V, which is ${fmtValue(v)} ${c.unit} with the sensitivity of ${c.sensitivityBase} mV/${c.unit}` : `${fmtValue(v)} ${c.unit}`;
+        throw new HttpError(
+          400,
+          'value-out-of-range',
+          `Column ${i + 1} of the file, ${what}, sample ${k + 1}: ${given} — beyond ${limit < PHYSICAL_RANGE_FACTOR * range ? `${limit} ${c.unit}, more than any measurement` : `${PHYSICAL_RANGE_FACTOR} × the campaign's ${c.role === 'force' ? 'force' : 'response'} range of ${range} ${c.unit}, so it cannot be a measurement`}. Check the units field and the file. Nothing was stored.`,
+          { column: i + 1, channel: c.channel, sample: k + 1, value: Number.isFinite(ch[k]!) ? ch[k]! : String(ch[k]), limit, unit: c.unit },
+        );
+      }
+      out[k] = v;
+    }
     return out;
   });
 }

@@ -1,5 +1,5 @@
-// Measurement validity checks (field-reference §6.8): reciprocity H_ij against H_ji, and
-// linearity — the same DOF pair at two force levels. Both report FRAC over the band (§6.7) and
+// Measurement validity checks (docs/methods.md#validity-checks): reciprocity H_ij against H_ji, and
+// linearity — the same DOF pair at two force levels. Both report FRAC over the band (docs/methods.md#frac) and
 // the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
 import { and, eq } from 'drizzle-orm';
 import { averageFrf, frac, type Complex } from '@resonote/dsp';
@@ -64,7 +64,7 @@ export function compareFrfs(ha: Complex, hb: Complex, f: Float64Array, band: { l
 }
 
 /**
- * Linearity of one schedule entry (field-reference §6.8): its accepted hits split into the
+ * Linearity of one schedule entry (docs/methods.md#validity-checks): its accepted hits split into the
  * lighter and the heavier half by peak force; when the medians differ by 1.5× or more, the two
  * halves are averaged separately and compared (heavier against lighter). Null when there are
  * fewer than 4 usable hits or the force levels are too close.

@@ -27,7 +27,7 @@ export function frfJson(result: EntryResult, kind: FrfKind, band: { low: number;
   return {
     kind,
     unit: frfUnits[kind],
-    estimators: 'H1 = Gfx/Gff, H2 = Gxx/Gxf; Gfx = mean(conj(F)·X) over accepted hits (field-reference §2)',
+    estimators: 'H1 = Gfx/Gff, H2 = Gxx/Gxf; Gfx = mean(conj(F)·X) over accepted hits (Bendat & Piersol 2010)',
     averages: result.averages,
     settingsVersion: result.settingsVersion,
     inputHash: result.inputHash,

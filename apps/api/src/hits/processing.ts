@@ -18,6 +18,7 @@ import {
 import { acquisitionSettingsSchema, defaultAcquisitionSettings, uuidSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, frfResult, hit, point, scheduleEntry } from '@resonote/db/schema';
 import { notFound } from '../errors.ts';
+import { isDatabaseUnavailable } from '../db-health.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
 
@@ -62,7 +63,13 @@ function scheduleWrite(db: Db, cache: Caches, entryId: string, write: () => Prom
   const run = () => {
     cache.scheduled.delete(entryId);
     const p: Promise<unknown> = write()
-      .catch((err: Error) => console.error(`[resonote] storing the result of entry ${entryId} failed: ${err.message}`))
+      .catch((err: Error) =>
+        // The result is recomputed from the hits on the next read, so a write lost to a database
+        // outage costs nothing; the message never carries the query's parameters (raw spectra).
+        isDatabaseUnavailable(err)
+          ? console.log(`[resonote] the stored copy of entry ${entryId}'s result was not written (database unreachable); it is recomputed on the next read`)
+          : console.error(`[resonote] storing the result of entry ${entryId} failed: ${((err as { cause?: Error }).cause ?? err).message}`),
+      )
       .finally(() => cache.pending.delete(p));
     cache.pending.add(p);
     return p.then(() => undefined);
@@ -119,12 +126,12 @@ export function recordSamples(s: AcquisitionSettings): number {
   return Math.round(s.recordLengthS * s.sampleRateHz);
 }
 
-/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (field-reference §3.1). */
+/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (docs/methods.md#force-window). */
 export function forceWindowOf(s: AcquisitionSettings): ForceWindowOptions {
   return { startS: 0, lengthS: s.forceWindow.lengthS, taperS: s.forceWindow.taperS };
 }
 
-/** Exponential window on every channel from the trigger point (field-reference §3.2), or null. */
+/** Exponential window on every channel from the trigger point (docs/methods.md#exp-window), or null. */
 export function exponentialWindowOf(s: AcquisitionSettings): (ExponentialWindowOptions & { endLevelPercent: number }) | null {
   const w = s.exponentialWindow;
   if (w.mode === 'none') return null;
@@ -161,7 +168,7 @@ export interface SplitRecords {
 /**
  * Cuts a continuous recording (force first, engineering units) into triggered records of the
  * settings' length: trigger on |force − offset| ≥ level, keep the pre-trigger before it
- * (field-reference §4.4). A hit too close to the start or cut short by the end of the file is
+ * (docs/methods.md#trigger). A hit too close to the start or cut short by the end of the file is
  * reported as skipped, not stored.
  */
 export function splitByTrigger(channels: Float64Array[], fs: number, s: AcquisitionSettings): SplitRecords {
@@ -225,7 +232,7 @@ export function unpackSamples(buf: Buffer, channelCount: number, n: number): Flo
   return Array.from({ length: channelCount }, (_, c) => all.subarray(c * n, (c + 1) * n));
 }
 
-/** Subtracts each channel's pre-trigger mean (offset removal before the windows, field-reference §3.1). */
+/** Subtracts each channel's pre-trigger mean (offset removal before the windows, docs/methods.md#force-window). */
 export function removeOffsets(channels: Float32Array[], preSamples: number): Float64Array[] {
   const m = Math.max(1, preSamples);
   return channels.map((ch) => {

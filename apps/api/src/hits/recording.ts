@@ -1,7 +1,8 @@
-// Decodes an uploaded recording — CSV, WAV (16/24-bit PCM, 32-bit float, multichannel) or JSON —
+// Decodes an uploaded recording — CSV, WAV (16/24/32-bit PCM, 32/64-bit float, extensible, multichannel) or JSON —
 // into one Float64Array per channel, in the units the uploader declared. Nothing here touches
 // the database; a malformed file throws RecordingError with a readable message.
 import Papa from 'papaparse';
+import { looksBinary, parseDecimal, quoteForMessage } from '../http/text-input.ts';
 
 export class RecordingError extends Error {}
 
@@ -22,9 +23,14 @@ function checkFinite(channels: Float64Array[]) {
   }
 }
 
+/** The WAV sample formats read here: integer PCM (format 1) of 16, 24 or 32 bits, IEEE float (format 3) of 32 or 64 bits. */
+const WAV_FORMATS = 'use 16-, 24- or 32-bit PCM, or 32- or 64-bit float';
+
 /**
- * RIFF/WAVE reader. PCM samples are scaled to ±1 at full scale (so a file from a ±fullScale V
- * front end is multiplied by fullScale afterwards); 32-bit float samples are taken as they are.
+ * RIFF/WAVE reader (also WAVE_FORMAT_EXTENSIBLE, whose sub-format names PCM or float). PCM
+ * samples are scaled to ±1 at full scale (so a file from a ±fullScale V front end is multiplied by
+ * fullScale afterwards); float samples are taken as they are. A chunk that announces more bytes
+ * than the file holds is refused with both numbers.
  */
 export function decodeWav(buf: Buffer): DecodedRecording {
   if (buf.length < 12 || buf.toString('ascii', 0, 4) !== 'RIFF' || buf.toString('ascii', 8, 12) !== 'WAVE') {
@@ -34,30 +40,42 @@ export function decodeWav(buf: Buffer): DecodedRecording {
   let fmt: { format: number; channels: number; rate: number; bits: number; blockAlign: number } | null = null;
   let data: { start: number; length: number } | null = null;
   while (offset + 8 <= buf.length) {
-    const id = buf.toString('ascii', offset, offset + 4);
+    const id = buf.toString('latin1', offset, offset + 4);
     const size = buf.readUInt32LE(offset + 4);
     const body = offset + 8;
+    const remain = buf.length - body;
     if (id === 'fmt ') {
-      if (size < 16 || body + 16 > buf.length) throw new RecordingError('The WAV file is truncated inside its format chunk.');
+      if (size < 16) throw new RecordingError(`The WAV file's fmt chunk announces ${size} bytes; a format chunk has at least 16.`);
+      if (size > remain) throw new RecordingError(`The WAV file's fmt chunk is truncated: it announces ${size} bytes but only ${remain} remain in the file.`);
       let format = buf.readUInt16LE(body);
-      if (format === 0xfffe && size >= 40) format = buf.readUInt16LE(body + 24); // WAVE_FORMAT_EXTENSIBLE sub-format
+      if (format === 0xfffe) {
+        // WAVE_FORMAT_EXTENSIBLE: cbSize 22, then valid bits, channel mask and the sub-format GUID, whose first two bytes are the format code.
+        if (size < 40) throw new RecordingError(`The WAV file's fmt chunk says WAVE_FORMAT_EXTENSIBLE but has ${size} bytes; that format needs 40.`);
+        format = buf.readUInt16LE(body + 24);
+      }
       fmt = { format, channels: buf.readUInt16LE(body + 2), rate: buf.readUInt32LE(body + 4), blockAlign: buf.readUInt16LE(body + 12), bits: buf.readUInt16LE(body + 14) };
     } else if (id === 'data') {
-      data = { start: body, length: Math.min(size, buf.length - body) };
-      if (size > buf.length - body) throw new RecordingError(`The WAV file is truncated: its data chunk announces ${size} bytes but only ${buf.length - body} are there.`);
+      if (size > remain) throw new RecordingError(`The WAV file is truncated: its data chunk announces ${size} bytes but only ${remain} are there.`);
+      data = { start: body, length: size };
       break;
+    } else if (size > remain) {
+      throw new RecordingError(`The WAV file's ${quoteForMessage(id)} chunk announces ${size} bytes but only ${remain} remain in the file${fmt ? '' : ' (before any fmt chunk)'}; no data chunk follows it.`);
     }
     offset = body + size + (size % 2);
   }
-  if (!fmt) throw new RecordingError('The WAV file has no format chunk.');
-  if (!data) throw new RecordingError('The WAV file has no data chunk.');
-  const { format, channels, rate, bits } = fmt;
-  const supported = (format === 1 && (bits === 16 || bits === 24)) || (format === 3 && bits === 32);
-  if (!supported) throw new RecordingError(`WAV format ${format} with ${bits} bits is not supported: use 16- or 24-bit PCM, or 32-bit float.`);
+  if (!fmt) throw new RecordingError('The WAV file has no format chunk before its samples.');
+  if (!data) {
+    if (offset < buf.length) throw new RecordingError(`The WAV file ends inside a chunk header (${buf.length - offset} bytes left at byte ${offset}); it has no data chunk.`);
+    throw new RecordingError('The WAV file has no data chunk.');
+  }
+  const { format, channels, rate, bits, blockAlign } = fmt;
+  const supported = (format === 1 && (bits === 16 || bits === 24 || bits === 32)) || (format === 3 && (bits === 32 || bits === 64));
+  if (!supported) throw new RecordingError(`WAV format ${format} with ${bits} bits is not supported: ${WAV_FORMATS}.`);
   if (channels < 1) throw new RecordingError('The WAV file declares no channels.');
   if (!(rate > 0)) throw new RecordingError('The WAV file declares a sample rate of 0 Hz.');
   const bytes = bits / 8;
   const frame = bytes * channels;
+  if (blockAlign !== frame) throw new RecordingError(`The WAV header contradicts itself: block align ${blockAlign} bytes, but ${channels} channel${channels === 1 ? '' : 's'} × ${bytes} bytes make ${frame}.`);
   const frames = Math.floor(data.length / frame);
   if (frames === 0) throw new RecordingError('The WAV file holds no samples.');
   const out = Array.from({ length: channels }, () => new Float64Array(frames));
@@ -65,9 +83,10 @@ export function decodeWav(buf: Buffer): DecodedRecording {
   for (let i = 0; i < frames; i++) {
     for (let c = 0; c < channels; c++) {
       let v: number;
-      if (format === 3) v = buf.readFloatLE(p);
+      if (format === 3) v = bits === 32 ? buf.readFloatLE(p) : buf.readDoubleLE(p);
       else if (bits === 16) v = buf.readInt16LE(p) / 32768;
-      else v = buf.readIntLE(p, 3) / 8388608;
+      else if (bits === 24) v = buf.readIntLE(p, 3) / 8388608;
+      else v = buf.readInt32LE(p) / 2147483648;
       out[c]![i] = v;
       p += bytes;
     }
@@ -78,13 +97,15 @@ export function decodeWav(buf: Buffer): DecodedRecording {
 
 const TIME_COLUMNS = new Set(['t', 'time', 'time_s', 'time (s)', 'seconds', 's']);
 
-/** CSV with a header; an optional first time column (s), then one column per channel. */
+/** CSV with a header; an optional first time column (s), then one column per channel. Every value a plain decimal number. */
 export function decodeCsv(text: string): DecodedRecording {
   const body = text.replace(/^\uFEFF/, '');
   if (!body.trim()) throw new RecordingError('The CSV file is empty.');
+  if (looksBinary(body)) throw new RecordingError('This is not a text CSV: the file holds binary bytes (a WAV or zip file named .csv?). Export the recording as CSV text, or upload the WAV as .wav.');
   const parsed = Papa.parse<string[]>(body, { skipEmptyLines: 'greedy', delimiter: '' });
   const rows = parsed.data;
-  const header = rows[0]!.map((h) => h.trim().toLowerCase());
+  const names = rows[0]!.map((h) => h.trim());
+  const header = names.map((h) => h.toLowerCase());
   const hasTime = TIME_COLUMNS.has(header[0] ?? '');
   const width = header.length;
   const channelCount = width - (hasTime ? 1 : 0);
@@ -97,11 +118,10 @@ export function decodeCsv(text: string): DecodedRecording {
     const row = rows[i + 1]!;
     if (row.length !== width) throw new RecordingError(`Line ${i + 2} has ${row.length} values; the header has ${width}.`);
     for (let j = 0; j < width; j++) {
-      const raw = row[j]!.trim();
-      const v = raw === '' ? NaN : Number(raw);
-      if (!Number.isFinite(v)) throw new RecordingError(`Line ${i + 2}, column "${rows[0]![j]!.trim()}": "${raw}" is not a number.`);
-      if (hasTime && j === 0) time![i] = v;
-      else channels[j - (hasTime ? 1 : 0)]![i] = v;
+      const cell = parseDecimal(row[j]!);
+      if (!cell.ok) throw new RecordingError(`Line ${i + 2}, column ${j + 1} (${quoteForMessage(names[j]!)}): the value ${cell.reason}.`);
+      if (hasTime && j === 0) time![i] = cell.value;
+      else channels[j - (hasTime ? 1 : 0)]![i] = cell.value;
     }
   }
   let sampleRateHz: number | null = null;
@@ -116,6 +136,15 @@ export function decodeCsv(text: string): DecodedRecording {
   return { sampleRateHz, channels };
 }
 
+/** What a JSON value is, for a message, without serialising it (it may be nested thousands deep). */
+function describeJsonValue(v: unknown): string {
+  if (typeof v === 'string') return `the text ${quoteForMessage(v)}`;
+  if (Array.isArray(v)) return 'an array';
+  if (v === null) return 'null';
+  if (typeof v === 'object') return 'an object';
+  return String(v);
+}
+
 /** JSON: { "sampleRateHz": 4096, "channels": [[…force…], [… response …], …] }. */
 export function decodeJson(text: string): DecodedRecording {
   let doc: unknown;
@@ -127,16 +156,17 @@ export function decodeJson(text: string): DecodedRecording {
   const o = doc as { sampleRateHz?: unknown; channels?: unknown };
   if (!o || typeof o !== 'object' || !Array.isArray(o.channels)) throw new RecordingError('The JSON needs "channels": an array with one array of samples per channel.');
   if (o.sampleRateHz !== undefined && !(typeof o.sampleRateHz === 'number' && o.sampleRateHz > 0)) throw new RecordingError('"sampleRateHz" must be a positive number.');
+  if (o.channels.length === 0) throw new RecordingError('The JSON has no channels: "channels" is an empty array.');
   const lengths = new Set((o.channels as unknown[]).map((c) => (Array.isArray(c) ? c.length : -1)));
   if (lengths.has(-1)) throw new RecordingError('Every entry of "channels" must be an array of numbers.');
   if (lengths.size !== 1) throw new RecordingError('All channels must hold the same number of samples.');
   const channels = (o.channels as unknown[][]).map((c, ci) =>
     Float64Array.from(c, (v, i) => {
-      if (typeof v !== 'number' || !Number.isFinite(v)) throw new RecordingError(`channel ${ci + 1}, sample ${i + 1} is not a finite number.`);
+      if (typeof v !== 'number' || !Number.isFinite(v)) throw new RecordingError(`channel ${ci + 1}, sample ${i + 1} is not a finite number (${describeJsonValue(v)}).`);
       return v;
     }),
   );
-  if (channels.length === 0 || channels[0]!.length < 2) throw new RecordingError('The JSON holds no samples.');
+  if (channels[0]!.length < 2) throw new RecordingError('The JSON holds fewer than two samples per channel.');
   return { sampleRateHz: (o.sampleRateHz as number | undefined) ?? null, channels };
 }
 
@@ -148,33 +178,55 @@ export function decodeRecording(name: string, mime: string, buf: Buffer): Decode
   throw new RecordingError(`"${name}" is neither CSV, WAV nor JSON (judged by its name and type).`);
 }
 
-/** Writes channels as a WAV file (32-bit float or 16/24-bit PCM scaled by 1/fullScale) — used by tests and the demo. */
-export function encodeWav(channels: ArrayLike<number>[], sampleRateHz: number, format: 'float32' | 'pcm16' | 'pcm24' = 'float32', fullScale = 1): Buffer {
+export type WavSampleFormat = 'float32' | 'float64' | 'pcm16' | 'pcm24' | 'pcm32';
+
+/**
+ * Writes channels as a WAV file (32/64-bit float, or 16/24/32-bit PCM scaled by 1/fullScale) — used
+ * by tests, the fuzz script and the demo. `extensible` writes a WAVE_FORMAT_EXTENSIBLE fmt chunk
+ * (40 bytes, the sub-format GUID naming PCM or float).
+ */
+export function encodeWav(channels: ArrayLike<number>[], sampleRateHz: number, format: WavSampleFormat = 'float32', fullScale = 1, options: { extensible?: boolean } = {}): Buffer {
   const n = channels[0]!.length;
-  const bits = format === 'float32' ? 32 : format === 'pcm16' ? 16 : 24;
+  const bits = { float32: 32, float64: 64, pcm16: 16, pcm24: 24, pcm32: 32 }[format];
+  const isFloat = format === 'float32' || format === 'float64';
   const bytes = bits / 8;
+  const fmtSize = options.extensible ? 40 : 16;
   const dataLength = n * channels.length * bytes;
-  const buf = Buffer.alloc(44 + dataLength);
+  const header = 12 + 8 + fmtSize + 8;
+  const buf = Buffer.alloc(header + dataLength);
   buf.write('RIFF', 0, 'ascii');
-  buf.writeUInt32LE(36 + dataLength, 4);
+  buf.writeUInt32LE(header - 8 + dataLength, 4);
   buf.write('WAVE', 8, 'ascii');
   buf.write('fmt ', 12, 'ascii');
-  buf.writeUInt32LE(16, 16);
-  buf.writeUInt16LE(format === 'float32' ? 3 : 1, 20);
+  buf.writeUInt32LE(fmtSize, 16);
+  buf.writeUInt16LE(options.extensible ? 0xfffe : isFloat ? 3 : 1, 20);
   buf.writeUInt16LE(channels.length, 22);
   buf.writeUInt32LE(Math.round(sampleRateHz), 24);
   buf.writeUInt32LE(Math.round(sampleRateHz) * channels.length * bytes, 28);
   buf.writeUInt16LE(channels.length * bytes, 32);
   buf.writeUInt16LE(bits, 34);
-  buf.write('data', 36, 'ascii');
-  buf.writeUInt32LE(dataLength, 40);
-  let p = 44;
+  if (options.extensible) {
+    buf.writeUInt16LE(22, 36); // cbSize
+    buf.writeUInt16LE(bits, 38); // valid bits per sample
+    buf.writeUInt32LE(0, 40); // channel mask: none assigned
+    // KSDATAFORMAT_SUBTYPE_PCM / _IEEE_FLOAT: {0000000X-0000-0010-8000-00AA00389B71}
+    Buffer.from([isFloat ? 3 : 1, 0, 0, 0, 0, 0, 0x10, 0, 0x80, 0, 0, 0xaa, 0, 0x38, 0x9b, 0x71]).copy(buf, 44);
+  }
+  buf.write('data', header - 8, 'ascii');
+  buf.writeUInt32LE(dataLength, header - 4);
+  let p = header;
+  const full = 2 ** (bits - 1);
   for (let i = 0; i < n; i++) {
     for (const ch of channels) {
       const v = ch[i]! / fullScale;
       if (format === 'float32') buf.writeFloatLE(ch[i]!, p);
-      else if (format === 'pcm16') buf.writeInt16LE(Math.max(-32768, Math.min(32767, Math.round(v * 32768))), p);
-      else buf.writeIntLE(Math.max(-8388608, Math.min(8388607, Math.round(v * 8388608))), p, 3);
+      else if (format === 'float64') buf.writeDoubleLE(ch[i]!, p);
+      else {
+        const q = Math.max(-full, Math.min(full - 1, Math.round(v * full)));
+        if (bits === 16) buf.writeInt16LE(q, p);
+        else if (bits === 24) buf.writeIntLE(q, p, 3);
+        else buf.writeInt32LE(q, p);
+      }
       p += bytes;
     }
   }

@@ -27,7 +27,7 @@ export function uploadAtCampaignRate(file: UploadFile, map: ChannelSnapshot[], r
   const fs = decoded.sampleRateHz ?? reading.sampleRateHz ?? null;
   const differs = fs !== null && Math.abs(fs - target) > 1e-3 * target;
   if (!differs || !settings.resampleUploads || decoded.channels.length !== map.length) {
-    return { channels: decodedInEngineeringUnits(decoded, map, reading, target), resampled: null };
+    return { channels: decodedInEngineeringUnits(decoded, map, reading, target, settings), resampled: null };
   }
   const from = Math.round(fs);
   if (Math.abs(from - fs) > 1e-6 * fs || !Number.isInteger(target)) throw badRequest(`The recording is sampled at ${+fs.toFixed(3)} Hz; resampling needs whole-number rates (the settings ask for ${target} Hz). Nothing was stored.`);
@@ -40,7 +40,7 @@ export function uploadAtCampaignRate(file: UploadFile, map: ChannelSnapshot[], r
   }
   const channels = decoded.channels.map((c) => resamplePoly(c, ratio.up, ratio.down));
   return {
-    channels: decodedInEngineeringUnits({ ...decoded, sampleRateHz: target, channels }, map, reading, target),
+    channels: decodedInEngineeringUnits({ ...decoded, sampleRateHz: target, channels }, map, reading, target, settings),
     resampled: { fromHz: from, toHz: target, up: ratio.up, down: ratio.down, method: 'polyphase windowed-sinc (Kaiser β = 5), the design of scipy.signal.resample_poly; all channels alike' },
   };
 }

@@ -28,7 +28,7 @@ export function rigModel(kind: 'steel-bar' | 'pump-skid' | 'generic', points: Ri
   });
 }
 
-/** Contact time of the hammer tips offered by the simulated rig (harder tip → shorter contact, §4.3). */
+/** Contact time of the hammer tips offered by the simulated rig (harder tip → shorter contact, docs/methods.md#roll-off). */
 export const rigTips = { soft: 2.0e-3, medium: 0.8e-3, hard: 0.3e-3 } as const;
 
 /** Noise floors of the rig's measurement chain, rms: invented for a plausible IEPE chain, not a datasheet value. */

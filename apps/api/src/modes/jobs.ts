@@ -62,7 +62,12 @@ export class FitQueue {
         const worker = this.getWorker();
         const onMessage = (m: FitMessage) => {
           if (m.type === 'progress') {
-            void this.db.update(modalFit).set({ progress: m.progress, message: m.message }).where(eq(modalFit.id, next.fitId));
+            // Progress is advisory: a write lost to a database outage is skipped, never thrown.
+            this.db
+              .update(modalFit)
+              .set({ progress: m.progress, message: m.message })
+              .where(eq(modalFit.id, next.fitId))
+              .catch(() => undefined);
             return;
           }
           worker.off('message', onMessage);

@@ -2,6 +2,7 @@
 // column such as "+Z -X") with papaparse, and reports every problem with its line number.
 import Papa from 'papaparse';
 import { directions as allDirections, MAX_IMPORT_ROWS, pointLabelSchema, type Direction } from '@resonote/contracts';
+import { looksBinary, parseDecimal, quoteForMessage } from '../http/text-input.ts';
 
 export interface CsvPoint {
   line: number;
@@ -26,7 +27,7 @@ function parseDirections(text: string): Direction[] | string {
   const out: Direction[] = [];
   for (const p of parts) {
     const d = (/^[XYZ]$/.test(p) ? `+${p}` : p) as Direction;
-    if (!allDirections.includes(d)) return `"${p}" is not a direction (use +X, -X, +Y, -Y, +Z or -Z)`;
+    if (!allDirections.includes(d)) return `${quoteForMessage(p)} is not a direction (use +X, -X, +Y, -Y, +Z or -Z)`;
     if (!out.includes(d)) out.push(d);
   }
   return out;
@@ -35,6 +36,7 @@ function parseDirections(text: string): Direction[] | string {
 export function parseGeometryCsv(text: string): CsvResult {
   const body = text.replace(/^\uFEFF/, '');
   if (!body.trim()) return { ok: false, message: 'The file is empty: it needs a header line `label,x,y,z` and one line per point.', problems: [] };
+  if (looksBinary(body)) return { ok: false, message: 'This is not a text CSV: the file holds binary bytes. Export the geometry as CSV text (`label,x,y,z`, mm).', problems: [] };
   const parsed = Papa.parse<string[]>(body, { skipEmptyLines: false, delimiter: '' });
   const rows = parsed.data;
   const header = (rows[0] ?? []).map((h) => h.trim().toLowerCase());
@@ -61,12 +63,12 @@ export function parseGeometryCsv(text: string): CsvResult {
     const label = (cells[col('label')] ?? '').trim();
     const labelCheck = pointLabelSchema.safeParse(label);
     if (!labelCheck.success) {
-      problems.push({ line, message: label ? `label "${label}": ${labelCheck.error.issues[0]!.message}` : 'the label is empty' });
+      problems.push({ line, message: label ? `label ${quoteForMessage(label)}: ${labelCheck.error.issues[0]!.message}` : 'the label is empty' });
       continue;
     }
     const key = label.toLowerCase();
     if (seen.has(key)) {
-      problems.push({ line, message: `label "${label}" already appears on line ${seen.get(key)}` });
+      problems.push({ line, message: `label ${quoteForMessage(label)} already appears on line ${seen.get(key)}` });
       continue;
     }
     seen.set(key, line);
@@ -74,14 +76,15 @@ export function parseGeometryCsv(text: string): CsvResult {
     let bad = false;
     for (const axis of ['x', 'y', 'z'] as const) {
       const raw = (cells[col(axis)] ?? '').trim();
-      const value = raw === '' ? NaN : Number(raw);
-      if (!Number.isFinite(value)) {
-        problems.push({ line, message: raw === '' ? `${axis} is empty` : `${axis} "${raw}" is not a number (mm)` });
+      const cell = parseDecimal(raw);
+      if (!cell.ok) {
+        problems.push({ line, message: `column ${col(axis) + 1} (${axis}, mm): the value ${cell.reason}` });
         bad = true;
         break;
       }
+      const value = cell.value;
       if (Math.abs(value) > 100_000) {
-        problems.push({ line, message: `${axis} = ${raw} mm is beyond ±100 000 mm` });
+        problems.push({ line, message: `column ${col(axis) + 1} (${axis}): ${raw} mm is beyond ±100 000 mm` });
         bad = true;
         break;
       }

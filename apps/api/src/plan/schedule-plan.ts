@@ -1,7 +1,7 @@
 // Which DOF pairs a campaign measures, from its test type (design.md, "Plan"):
 // roving hammer — the accelerometer(s) stay at the reference DOF(s) and the hammer visits every
 // DOF (one row of the FRF matrix per reference); roving response — the hammer stays at the
-// reference DOF(s) and the accelerometer visits every DOF (one column). Field-reference §9.
+// reference DOF(s) and the accelerometer visits every DOF (one column). docs/methods.md#dof-signs.
 import { directions as directionOrder, type Direction, type TestType } from '@resonote/contracts';
 import { labelCollator } from './geometry-csv.ts';
 

@@ -1,5 +1,4 @@
 // Campaigns, their members and invitations, and the audit trail (design.md, "Who uses it").
-import { createHash, randomBytes } from 'node:crypto';
 import { and, asc, count, desc, eq, gt, inArray, isNull, lt, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { campaignCreateSchema, campaignPatchSchema, invitationCreateSchema, memberPatchSchema } from '@resonote/contracts';
@@ -9,9 +8,7 @@ import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { intQuery } from '../http/route.ts';
 import { conflict, forbidden, HttpError, notFound } from '../errors.ts';
-
-const INVITATION_DAYS = 14;
-const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
+import { hashToken, INVITATION_DAYS, mailInvitation, newInvitationToken } from '../invitations.ts';
 
 export function registerCampaignRoutes({ routes, db, config, mailer }: Deps): void {
   async function loadCampaign(id: string) {
@@ -224,20 +221,15 @@ export function registerCampaignRoutes({ routes, db, config, mailer }: Deps): vo
         .innerJoin(user, eq(user.id, campaignMember.userId))
         .where(and(eq(campaignMember.campaignId, access.campaignId), sql`lower(${user.email}) = ${body.email}`));
       if (already?.n) throw conflict(`${body.email} is already a member of this campaign.`);
-      const token = randomBytes(24).toString('base64url');
+      const { token, tokenHash } = newInvitationToken();
       const expiresAt = new Date(Date.now() + INVITATION_DAYS * 86_400_000);
       const invitation = await db.transaction(async (tx) => {
-        const [row] = await tx.insert(campaignInvitation).values({ campaignId: access.campaignId, email: body.email, role: body.role, tokenHash: hashToken(token), invitedBy: me.id, expiresAt }).returning();
+        const [row] = await tx.insert(campaignInvitation).values({ campaignId: access.campaignId, email: body.email, role: body.role, tokenHash, invitedBy: me.id, expiresAt }).returning();
         await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'invitation', entityId: row!.id, action: 'create', after: { email: body.email, role: body.role, expiresAt } });
         return row!;
       });
-      const link = `${config.publicUrl}/invitations/${token}`;
       try {
-        await mailer.send({
-          to: body.email,
-          subject: `${me.name} invites you to the Resonote campaign “${target.name}”`,
-          text: `Hello,\n\n${me.name} invites you to the test campaign “${target.name}”${target.structure ? ` (${target.structure})` : ''} as ${body.role}.\n\nOpen this link to sign up or sign in and join. It is valid for ${INVITATION_DAYS} days:\n\n${link}\n`,
-        });
+        await mailInvitation(mailer, config.publicUrl, { to: body.email, token, role: body.role, inviterName: me.name, campaign: target });
       } catch (err) {
         await db.update(campaignInvitation).set({ revokedAt: new Date() }).where(eq(campaignInvitation.id, invitation.id));
         throw new HttpError(502, 'mail-failed', `The invitation mail could not be sent (${(err as Error).message}); nothing was kept. Try again.`);

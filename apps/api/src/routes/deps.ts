@@ -2,6 +2,7 @@ import type { Db } from '@resonote/db/client';
 import type { Config } from '../config.ts';
 import type { Mailer } from '../mail.ts';
 import type { ApiRoutes } from '../http/route.ts';
+import type { DatabaseStatus } from '../db-health.ts';
 
 /** What every route module gets. */
 export interface Deps {
@@ -9,4 +10,5 @@ export interface Deps {
   db: Db;
   config: Config;
   mailer: Mailer;
+  databaseStatus: DatabaseStatus;
 }

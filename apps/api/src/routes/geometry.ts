@@ -1,5 +1,4 @@
 // Geometry of a campaign: points (mm) with measured directions, lines, CSV import and export.
-import multer from 'multer';
 import { and, eq, inArray, or, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { geometryImportSchema, lineCreateSchema, MAX_IMPORT_BYTES, pointCreateSchema, pointPatchSchema, uuidSchema } from '@resonote/contracts';
@@ -8,19 +7,18 @@ import type { Deps } from './deps.ts';
 import { audit, type Tx } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { conflict, HttpError, notFound } from '../errors.ts';
+import { singleFileUpload } from '../http/multipart.ts';
 import { geometryToCsv, labelCollator, parseGeometryCsv } from '../plan/geometry-csv.ts';
 
 const uniqueViolation = (err: unknown) => (err as { code?: string; cause?: { code?: string } })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
 
+const parseCsvForm = singleFileUpload({ fileSize: MAX_IMPORT_BYTES, fields: 5, tooLarge: `The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB; nothing was imported.`, nothingDone: 'nothing was imported' });
+
 /** Multipart upload of the CSV as field `file`; the other fields (mode, directions) come as text. */
 const csvUpload: RequestHandler = (req, res, next) => {
   if (!req.is('multipart/form-data')) return next();
-  multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5 } }).single('file')(req, res, (err: unknown) => {
-    if (err) {
-      const e = err as { code?: string };
-      if (e.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'too-large', `The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB; nothing was imported.`));
-      return next(new HttpError(400, 'bad-upload', `The upload could not be read: ${(err as Error).message}`));
-    }
+  parseCsvForm(req, res, (err: unknown) => {
+    if (err) return next(err);
     if (!req.file) return next(new HttpError(400, 'invalid-input', 'Attach the CSV as the form field "file".'));
     const fields = (req.body ?? {}) as Record<string, string>;
     req.body = {

@@ -2,13 +2,13 @@
 // bundles, sharing by mail (an expiring signed report link, or a viewer invitation), and campaign
 // backup and restore. Only leads and admins export and share; a shared link opens that one report.
 import { createHash, randomBytes } from 'node:crypto';
-import multer from 'multer';
 import { eq, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
 import { campaign, campaignInvitation, campaignMember, hit, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
+import { singleFileUpload } from '../http/multipart.ts';
 import { forbidden, HttpError, notFound } from '../errors.ts';
 import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
@@ -246,14 +246,10 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
   });
 
   const limit = config.uploadLimitBytes * 4;
+  const parseBackupForm = singleFileUpload({ fileSize: limit, fields: 5, tooLarge: `The backup is larger than ${Math.round(limit / 1024 / 1024)} MB; nothing was restored.`, nothingDone: 'nothing was restored' });
   const upload: RequestHandler = (req, res, next) => {
     if (!req.is('multipart/form-data')) return next();
-    multer({ storage: multer.memoryStorage(), limits: { fileSize: limit, files: 1, fields: 5 } }).single('file')(req, res, (err: unknown) => {
-      if (!err) return next();
-      const e = err as { code?: string };
-      if (e.code === 'LIMIT_FILE_SIZE') return next(new HttpError(413, 'too-large', `The backup is larger than ${Math.round(limit / 1024 / 1024)} MB; nothing was restored.`));
-      next(new HttpError(400, 'bad-upload', `The upload could not be read: ${(err as Error).message}`));
-    });
+    parseBackupForm(req, res, next);
   };
 
   routes.add({
@@ -261,18 +257,18 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     path: '/campaigns/restore',
     tag: 'Hand-over',
     access: 'user',
-    summary: 'Restore a campaign backup (multipart field "file") as a new campaign with new ids; the restorer becomes lead; ?members=1 also adds the backup’s members who have an account here (matched by e-mail)',
+    summary: 'Restore a campaign backup (multipart field "file") as a new campaign with new ids; the restorer becomes lead; ?members=1 also sends each of the backup’s other members an invitation with their role in the backup (they join only by accepting it)',
     query: z.strictObject({ members: z.enum(['0', '1']).optional() }),
     before: [upload],
     status: 201,
-    returns: '{ campaign: { id, name }, counts, membersCopied, membersSkipped }',
+    returns: '{ campaign: { id, name }, counts, invited: [{ email, role }], notInvited: [{ email, reason }], sourceCampaignId }',
     handler: async ({ req, query, user: me }) => {
       if (!req.is('multipart/form-data')) throw new HttpError(415, 'unsupported-media-type', 'Send the backup as multipart/form-data with the file in the field "file".');
       const file = req.file;
       if (!file) throw new HttpError(400, 'invalid-input', 'Attach the backup file as the form field "file".');
       if (!(await mayRestore(db, me))) throw forbidden('Only admins and campaign leads can restore campaigns.');
-      const result = await restoreBackup(db, file.buffer, me, { members: query.members === '1' });
-      return { campaign: { id: result.campaignId, name: result.name }, counts: result.counts, membersCopied: result.membersCopied, membersSkipped: result.membersSkipped, sourceCampaignId: result.sourceCampaignId };
+      const result = await restoreBackup(db, file.buffer, me, { members: query.members === '1', mailer, publicUrl: config.publicUrl });
+      return { campaign: { id: result.campaignId, name: result.name }, counts: result.counts, invited: result.invited, notInvited: result.notInvited, sourceCampaignId: result.sourceCampaignId };
     },
   });
 }

@@ -6,8 +6,8 @@ import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
-import { uuidSchema } from '@resonote/contracts';
-import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { idempotencyKeySchema, uuidSchema } from '@resonote/contracts';
+import { campaign, hit, point, scheduleEntry, uploadKey, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
@@ -39,6 +39,7 @@ import {
 import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
 import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
+import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 
@@ -99,17 +100,18 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
 
   /**
    * Stores the triggered records of one recording (channels in channel-map order, engineering
-   * units) as hits with their verdicts, all in one transaction; a repeated idempotency key returns
-   * the hits stored the first time.
+   * units) as hits with their verdicts and the key's binding (hits/upload-keys.ts), all in one
+   * transaction; a retry of the same request with the same key returns the hits stored the first time.
    */
-  async function intake(args: { campaignId: string; entry: Entry; fileChannels: Float64Array[]; fs: number; source: string; key: string; userId: string; map: ChannelSnapshot[]; settings: CurrentSettings; kind: FrfKind }) {
+  async function intake(args: { campaignId: string; entry: Entry; fileChannels: Float64Array[]; fs: number; source: string; key: string; requestSha256: string; userId: string; map: ChannelSnapshot[]; settings: CurrentSettings; kind: FrfKind }) {
     const { campaignId, entry, settings, map } = args;
     const s = settings.settings;
+    const binding = { campaignId, key: args.key, purpose: 'hits' as const, scheduleEntryId: entry.id, requestSha256: args.requestSha256 };
     const replay = async () => {
-      const rows = await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.idempotencyKey, [args.key, `${args.key}#1`])));
-      if (!rows.length) return null;
-      const all = await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), sql`(${hit.idempotencyKey} = ${args.key} OR ${hit.idempotencyKey} LIKE ${args.key + '#%'})`)).orderBy(asc(hit.sequence));
-      return all;
+      const earlier = await earlierUse(db, binding);
+      if (!earlier) return null;
+      const rows = earlier.hitIds.length ? await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.id, earlier.hitIds))).orderBy(asc(hit.sequence)) : [];
+      return rows;
     };
     const earlier = await replay();
     if (earlier) return { replayed: true, stored: earlier, skipped: [] as { timeS: number; reason: string }[] };
@@ -152,6 +154,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
             })),
           )
           .returning();
+        await tx.insert(uploadKey).values({ ...binding, hitIds: rows.map((r) => r.id) });
         for (const r of rows) {
           await audit(tx, { campaignId, actorId: args.userId, entity: 'hit', entityId: r.id, action: 'record', after: { entry: `${entry.responseDof} / ${entry.excitationDof}`, sequence: r.sequence, verdict: r.verdict, reasons: r.reasons, source: r.source, settingsVersion: r.settingsVersion } });
         }
@@ -160,8 +163,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       stored.forEach((row, i) => rememberSamples(db, row.id, judged[i]!.record.channels));
       return { replayed: false, stored, skipped: split.skipped };
     } catch (err) {
-      const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
-      if (code === '23505') {
+      // A simultaneous request with the same key won the race: answer as its retry (or refuse).
+      if (isUniqueViolation(err)) {
         const again = await replay();
         if (again) return { replayed: true, stored: again, skipped: [] };
       }
@@ -208,7 +211,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     tag: 'Hits',
     access: 'engineer',
     summary:
-      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24-bit PCM or 32-bit float, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
+      'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24/32-bit PCM or 32/64-bit float, also extensible, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
     tokenAccess: true,
     before: [upload],
     status: 201,
@@ -220,9 +223,11 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
       const { channels: eu, resampled } = uploadAtCampaignRate(file, map, fields, s);
+      const { kind: _kind, idempotencyKey: _key, ...storing } = fields;
+      const hash = requestSha256('hits:upload', storing, file.buffer);
       // The file as made is kept before its hits are stored, so no hit exists without it.
       const originalId = resampled ? await keepOriginal(db, { campaignId: access.campaignId, key, file, note: resampled, userId: me.id }) : null;
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: resampledSource(file.originalname, resampled), key, userId: me.id, map, settings, kind: fields.kind });
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: resampledSource(file.originalname, resampled), key, requestSha256: hash, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
       const answered = await answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
       return resampled ? { ...answered, resampled: { ...resampled, originalRecordingId: originalId }, frf: answered.frf && { ...answered.frf, resampledFromHz: resampled.fromHz } } : answered;
@@ -242,7 +247,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       seed: z.number().int().min(0).max(2 ** 31).optional(),
       doubleHitProbability: z.number().min(0).max(1).default(0.1),
       overloadProbability: z.number().min(0).max(1).default(0.03),
-      idempotencyKey: z.string().min(8).max(200).optional(),
+      idempotencyKey: idempotencyKeySchema.optional(),
       kind: kindSchema,
     }),
     status: 201,
@@ -293,7 +298,9 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
         return out;
       });
       const key = body.idempotencyKey ?? randomUUID();
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels, fs: s.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:tip=${body.tip}`, key, userId: me.id, map, settings, kind: body.kind });
+      const { kind: _kind, idempotencyKey: _key, ...asked } = body;
+      const hash = requestSha256('hits:simulate', asked);
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels, fs: s.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:tip=${body.tip}`, key, requestSha256: hash, userId: me.id, map, settings, kind: body.kind });
       if (replayed) res.locals.status = 200;
       return answer(access.campaignId, entry, stored, replayed, skipped, settings, body.kind, 'hit');
     },
@@ -333,8 +340,8 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const step = Math.max(1, Math.ceil(h.samplesPerChannel / query.maxPoints));
       const t: number[] = [];
       for (let i = 0; i < h.samplesPerChannel; i += step) t.push(i / h.sampleRateHz);
-      // The force as the FRF sees it: offset removed and the force window applied (field-reference
-      // §3.1), so noise over the rest of the record does not swamp |F(0)|.
+      // The force as the FRF sees it: offset removed and the force window applied (docs/methods.md
+      // #force-window), so noise over the rest of the record does not swamp |F(0)|.
       const fw = forceWindow(h.samplesPerChannel, h.sampleRateHz, forceWindowOf(s));
       const windowed = centred[0]!.map((v, i) => v * fw[i]!);
       const spectrum = transientSpectrum(windowed, h.sampleRateHz);
@@ -397,13 +404,14 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     access: 'viewer',
     summary: 'Averaged FRFs of an entry (H1, H2 per response channel, coherence, force ESD) in the requested kind; only the band of interest unless band=all',
     query: z.strictObject({ kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
-    returns: '{ kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash } or 404 when no accepted hit exists',
+    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
     handler: async ({ params, query, campaign: access }) => {
       const entry = await loadEntry(access.campaignId, params.entryId!);
       const settings = await currentSettings(db, access.campaignId);
       const result = await entryResult(db, access.campaignId, entry.id, settings);
-      if (!result) throw new HttpError(404, 'no-result', `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.`);
-      return { entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint }, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
+      const about = { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint };
+      if (!result) return { status: 'no-accepted-hit' as const, entry: about, message: `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.` };
+      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
     },
   });
 
@@ -467,7 +475,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     path: '/campaigns/:campaignId/checks',
     tag: 'Results',
     access: 'viewer',
-    summary: 'Reciprocity (H_ij against H_ji) and linearity (the same DOF pair at two force levels) checks, with FRAC and dB/phase differences at the peaks (field-reference §6.7–§6.8)',
+    summary: 'Reciprocity (H_ij against H_ji) and linearity (the same DOF pair at two force levels) checks, with FRAC and dB/phase differences at the peaks (FRAC: Heylen & Lammens 1996; the checks: Ewins 2000)',
     handler: async ({ campaign: access }) => {
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
@@ -500,7 +508,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       return {
         reciprocity,
         linearity,
-        note: 'No normative pass/fail threshold exists for these checks (field-reference §6.8); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
+        note: 'No normative pass/fail threshold exists for these checks (reciprocity and linearity checks as in Ewins 2000, Modal Testing, ch. 3); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
       };
     },
   });

@@ -1,6 +1,6 @@
 // Kit: the campaign's hammers and accelerometers with their calibration records, and the channel
 // map that says which sensor (and which axis of it) is on which acquisition channel
-// (design.md, "Kit"; field-reference §9 units, §10 "Calibration and traceability").
+// (design.md, "Kit"; docs/methods.md#units, #traceability).
 import { and, asc, desc, eq, inArray, ne, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import {
@@ -26,7 +26,7 @@ type KitItemRow = typeof kitItem.$inferSelect;
 type ChannelRow = typeof channel.$inferSelect;
 type Kind = KitItemRow['kind'];
 
-/** Base units Resonote stores sensitivities in (field-reference §9). */
+/** Base units Resonote stores sensitivities in (docs/methods.md#units). */
 const BASE_UNIT: Record<Kind, 'mV/N' | 'mV/(m/s²)'> = { hammer: 'mV/N', accelerometer: 'mV/(m/s²)' };
 const UNITS: Record<Kind, readonly string[]> = { hammer: hammerUnits, accelerometer: accelerometerUnits };
 const KIND_NAME: Record<Kind, string> = { hammer: 'Hammer', accelerometer: 'Accelerometer' };

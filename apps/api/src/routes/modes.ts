@@ -205,7 +205,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       if (exp) {
         try {
           corrected = correctWindowDamping(corrected, exp.tauS);
-          correction = `exponential window τ = ${exp.tauS.toFixed(4)} s removed exactly (σ_true = σ_est − 1/τ, field-reference §3.2)`;
+          correction = `exponential window τ = ${exp.tauS.toFixed(4)} s removed exactly (σ_true = σ_est − 1/τ, Fladung 1997)`;
         } catch (err) {
           throw badRequest(`A chosen pole has less damping than the exponential window added (${(err as Error).message}); it is not a structural mode.`);
         }

@@ -8,8 +8,8 @@ import type { Response } from 'express';
 import { z } from 'zod';
 import { backgroundNoise } from '@resonote/dsp';
 import { createRng } from '@resonote/sim';
-import { uuidSchema, type NoiseChannelReading } from '@resonote/contracts';
-import { noiseCheck, scheduleEntry, user } from '@resonote/db/schema';
+import { idempotencyKeySchema, uuidSchema, type NoiseChannelReading } from '@resonote/contracts';
+import { noiseCheck, scheduleEntry, uploadKey, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { badRequest, notFound } from '../errors.ts';
@@ -17,6 +17,7 @@ import { channelMapFor, storageOrder, uploadInEngineeringUnits, type ChannelSnap
 import { currentSettings, loadScheduleEntry, packSamples, unpackSamples, type CurrentSettings } from '../hits/processing.ts';
 import { rigNoise } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
+import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
 
 /** Shortest and longest quiet recording taken, s: enough Welch segments for a steady floor; bounded storage. */
 const MIN_S = 1;
@@ -62,7 +63,7 @@ function readChannel(c: ChannelSnapshot, x: ArrayLike<number>, fs: number, s: Cu
 }
 
 /** A quiet recording to store: channels in channel-map order, engineering units. */
-type QuietRecording = { campaignId: string; userId: string; key: string; source: string; map: ChannelSnapshot[]; settings: CurrentSettings; fileChannels: Float64Array[] };
+type QuietRecording = { campaignId: string; userId: string; key: string; requestSha256: string; source: string; map: ChannelSnapshot[]; settings: CurrentSettings; fileChannels: Float64Array[] };
 
 export function registerNoiseRoutes({ routes, db, config }: Deps): void {
   /** The entry whose DOFs label the channels: the one asked for, else the next on the schedule, else none. */
@@ -80,7 +81,8 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
 
   /**
    * Reads, stores (with its audit line, in one transaction) and answers a quiet recording: 201 with
-   * the check and its spectra; a repeated key answers the stored check with 200.
+   * the check and its spectra; a retry of the same request with the same key answers the stored
+   * check with 200 (hits/upload-keys.ts).
    */
   async function record(res: Response, args: QuietRecording) {
     const stored = await store(args);
@@ -91,7 +93,14 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
   async function store(args: QuietRecording): Promise<{ replayed: boolean; row: typeof noiseCheck.$inferSelect; psd?: { f: Float64Array; psd: Float64Array }[] }> {
     const { campaignId, settings, map } = args;
     const s = settings.settings;
-    const [earlier] = await db.select().from(noiseCheck).where(and(eq(noiseCheck.campaignId, campaignId), eq(noiseCheck.idempotencyKey, args.key)));
+    const binding = { campaignId, key: args.key, purpose: 'noise-check' as const, scheduleEntryId: null, requestSha256: args.requestSha256 };
+    const replay = async () => {
+      const earlier = await earlierUse(db, binding);
+      if (!earlier?.noiseCheckId) return null;
+      const [row] = await db.select().from(noiseCheck).where(and(eq(noiseCheck.campaignId, campaignId), eq(noiseCheck.id, earlier.noiseCheckId)));
+      return row ?? null;
+    };
+    const earlier = await replay();
     if (earlier) return { replayed: true, row: earlier };
     const n = args.fileChannels[0]!.length;
     const seconds = n / s.sampleRateHz;
@@ -120,14 +129,14 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
             recordedBy: args.userId,
           })
           .returning();
+        await tx.insert(uploadKey).values({ ...binding, noiseCheckId: stored!.id });
         await audit(tx, { campaignId, actorId: args.userId, entity: 'noise-check', entityId: stored!.id, action: 'record', after: { source: args.source, durationS: seconds, channels: results.channels.map((c) => ({ channel: c.channel, dof: c.dof, rmsInBand: c.rmsInBand, status: c.status })) } });
         return stored!;
       });
       return { replayed: false, row, psd: readings.map(({ f, psd }) => ({ f, psd })) };
     } catch (err) {
-      const code = (err as { code?: string; cause?: { code?: string } }).cause?.code ?? (err as { code?: string }).code;
-      if (code === '23505') {
-        const [again] = await db.select().from(noiseCheck).where(and(eq(noiseCheck.campaignId, campaignId), eq(noiseCheck.idempotencyKey, args.key)));
+      if (isUniqueViolation(err)) {
+        const again = await replay();
         if (again) return { replayed: true, row: again };
       }
       throw err;
@@ -190,8 +199,10 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       const { fields, key, file } = readUploadForm(req, z.strictObject({ ...uploadFields, entryId: uuidSchema.optional() }));
       const settings = await currentSettings(db, access.campaignId);
       const map = await channelMapFor(db, access.campaignId, await entryFor(access.campaignId, fields.entryId));
-      const fileChannels = uploadInEngineeringUnits(file, map, fields, settings.settings.sampleRateHz);
-      return record(res, { campaignId: access.campaignId, userId: me.id, key, source: `upload:${file.originalname.slice(0, 100)}`, map, settings, fileChannels });
+      const fileChannels = uploadInEngineeringUnits(file, map, fields, settings.settings.sampleRateHz, settings.settings);
+      const { idempotencyKey: _key, ...storing } = fields;
+      const hash = requestSha256('noise-check:upload', storing, file.buffer);
+      return record(res, { campaignId: access.campaignId, userId: me.id, key, requestSha256: hash, source: `upload:${file.originalname.slice(0, 100)}`, map, settings, fileChannels });
     },
   });
 
@@ -207,7 +218,7 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       humMs2: z.number().min(0).max(10).default(0.01),
       seed: z.number().int().min(0).max(2 ** 31).optional(),
       entryId: uuidSchema.optional(),
-      idempotencyKey: z.string().min(8).max(200).optional(),
+      idempotencyKey: idempotencyKeySchema.optional(),
     }),
     status: 201,
     returns,
@@ -230,7 +241,8 @@ export function registerNoiseRoutes({ routes, db, config }: Deps): void {
       });
       const key = body.idempotencyKey ?? randomUUID();
       const source = `simulated-rig:seed=${seed}${body.humHz ? `:hum=${body.humHz}Hz` : ''}`;
-      return record(res, { campaignId: access.campaignId, userId: me.id, key, source, map, settings, fileChannels });
+      const { idempotencyKey: _key, ...asked } = body;
+      return record(res, { campaignId: access.campaignId, userId: me.id, key, requestSha256: requestSha256('noise-check:simulate', asked), source, map, settings, fileChannels });
     },
   });
 

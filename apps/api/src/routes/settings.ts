@@ -1,6 +1,6 @@
 // Acquisition settings of a campaign, versioned: every change makes a new version with a reason,
 // hits record the version they were taken under, and the history lists what changed
-// (design.md, "Kit"; field-reference §10 "lock it during a test … and log any change").
+// (design.md, "Kit"; docs/methods.md#traceability).
 import { desc, eq } from 'drizzle-orm';
 import { defaultAcquisitionSettings, settingsUpdateSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, campaign, user } from '@resonote/db/schema';

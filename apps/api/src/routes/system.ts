@@ -5,22 +5,29 @@ import { capturedMail, campaignMember } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { MIN_PASSWORD_LENGTH } from '../auth.ts';
 import { apiReferenceHtml, openApiDocument } from '../http/openapi.ts';
+import { isDatabaseUnavailable, RETRY_AFTER_S } from '../db-health.ts';
 
-export function registerSystemRoutes({ routes, db, config }: Deps): void {
+export function registerSystemRoutes({ routes, db, config, databaseStatus }: Deps): void {
   routes.add({
     method: 'get',
     path: '/health',
     tag: 'System',
     access: 'public',
     summary: 'Health of the server and its database',
-    returns: '{ status, database: { status, latencyMs } }; 503 when the database is down',
+    returns: "{ status: 'ok', database: { status: 'up', latencyMs } }; while the database is unreachable 503 with Retry-After and { status: 'degraded', database: { status: 'unreachable', since } }",
     handler: async ({ res }) => {
       const started = Date.now();
       try {
         await db.execute(sql`SELECT 1`);
+        databaseStatus.noteSuccess();
         return { status: 'ok', database: { status: 'up', latencyMs: Date.now() - started } };
       } catch (err) {
-        res.status(503).json({ status: 'degraded', database: { status: 'down', message: (err as Error).message } });
+        if (!isDatabaseUnavailable(err)) throw err;
+        databaseStatus.noteFailure(err);
+        const state = databaseStatus.state();
+        res.setHeader('retry-after', String(RETRY_AFTER_S));
+        // The cause stays in the server's log: this route is public and need not name hosts or ports.
+        res.status(503).json({ status: 'degraded', database: { status: 'unreachable', since: state.since } });
       }
     },
   });

@@ -6,9 +6,18 @@ export class ApiError extends Error {
     readonly code: string,
     message: string,
     readonly details?: unknown,
+    /** Seconds the server asked to wait before a retry (its Retry-After header), when it said. */
+    readonly retryAfterS?: number,
   ) {
     super(message);
   }
+}
+
+/** A Retry-After header in seconds (the HTTP-date form is not used by this API); undefined when absent or unreadable. */
+export function retryAfterSeconds(header: string | null | undefined): number | undefined {
+  if (!header) return undefined;
+  const s = Number(header.trim());
+  return Number.isFinite(s) && s >= 0 ? s : undefined;
 }
 
 export async function api<T>(path: string, init: { method?: string; body?: unknown; signal?: AbortSignal } = {}): Promise<T> {
@@ -35,7 +44,7 @@ export async function api<T>(path: string, init: { method?: string; body?: unkno
   }
   if (!response.ok) {
     const err = (data as { error?: { code?: string; message?: string; details?: unknown } } | undefined)?.error;
-    throw new ApiError(response.status, err?.code ?? 'http-' + response.status, err?.message ?? `The server answered ${response.status}.`, err?.details);
+    throw new ApiError(response.status, err?.code ?? 'http-' + response.status, err?.message ?? `The server answered ${response.status}.`, err?.details, retryAfterSeconds(response.headers.get('retry-after')));
   }
   return data as T;
 }

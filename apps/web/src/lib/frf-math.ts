@@ -1,11 +1,11 @@
 // Complex FRF → the numbers plots show: magnitude (linear or dB re 1 unit), phase in degrees
-// wrapped to (−180°, 180°], real and imaginary parts. Field-reference §9: amplitude ratios use
+// wrapped to (−180°, 180°], real and imaginary parts. ISO 1683:2015 (reference values): amplitude ratios use
 // 20·log10, FRF plots print their reference ("dB re 1 (m/s²)/N"), phase is wrapped to (−180, 180].
 // Typed arrays throughout: an overlay of 100 FRFs × 8193 lines runs through here.
 
 export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
 
-/** SI unit of each FRF kind (field-reference §9, "FRF names and units"). */
+/** SI unit of each FRF kind (ISO 7626-1:2011 names). */
 export const frfUnit: Record<FrfKind, string> = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' };
 export const frfKindLabel: Record<FrfKind, string> = { receptance: 'Receptance', mobility: 'Mobility', accelerance: 'Accelerance' };
 

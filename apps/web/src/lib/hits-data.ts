@@ -3,7 +3,7 @@
 import { useEffect, useState } from 'react';
 import { useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { ScheduleStatus } from '@resonote/contracts';
-import { api, ApiError } from './api.ts';
+import { api, ApiError, retryAfterSeconds } from './api.ts';
 import type { FrfKind } from './frf-math.ts';
 import type { ScheduleEntry } from './campaign-data.ts';
 
@@ -71,6 +71,7 @@ export interface ComplexJson {
   im: number[];
 }
 export interface FrfAnswer {
+  status?: 'ready';
   entry?: { id: string; responseDof: string; excitationDof: string; drivingPoint: boolean };
   kind: FrfKind;
   unit: string;
@@ -152,12 +153,8 @@ export const useEntryFrf = (id: string, entryId: string | null | undefined, kind
   useQuery({
     queryKey: hitKeys.frf(id, entryId ?? '', kind),
     queryFn: async () => {
-      try {
-        return await api<FrfAnswer>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
-      } catch (err) {
-        if (err instanceof ApiError && err.status === 404 && err.code === 'no-result') return null;
-        throw err;
-      }
+      const answer = await api<FrfAnswer | { status: 'no-accepted-hit'; message: string }>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
+      return answer.status === 'no-accepted-hit' ? null : answer;
     },
     enabled: Boolean(entryId),
   });
@@ -256,7 +253,7 @@ export function uploadRecording<T = HitsAnswer>(path: string, form: FormData, ke
       }
       if (xhr.status >= 200 && xhr.status < 300) return resolve(data as T);
       const err = (data as { error?: { code?: string; message?: string } } | undefined)?.error;
-      reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`));
+      reject(new ApiError(xhr.status, err?.code ?? `http-${xhr.status}`, err?.message ?? `The server answered ${xhr.status}.`, undefined, retryAfterSeconds(xhr.getResponseHeader('retry-after'))));
     };
     xhr.send(form);
   });

@@ -1,5 +1,5 @@
 // Hits: the raw record of the test. Never deleted; a rejected hit keeps its reason.
-import { customType, index, integer, jsonb, pgTable, text, timestamp, uniqueIndex, uuid, doublePrecision } from 'drizzle-orm/pg-core';
+import { customType, index, integer, jsonb, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid, doublePrecision } from 'drizzle-orm/pg-core';
 import { user } from './auth.ts';
 import { campaign } from './campaign.ts';
 import { scheduleEntry } from './plan.ts';
@@ -99,4 +99,32 @@ export const noiseCheck = pgTable(
     recordedAt: timestamp('recorded_at', { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [uniqueIndex('noise_check_idempotency_uq').on(t.campaignId, t.idempotencyKey), index('noise_check_campaign_idx').on(t.campaignId, t.recordedAt)],
+);
+
+export const uploadKeyPurposes = ['hits', 'noise-check'] as const;
+
+/**
+ * One Idempotency-Key per campaign, matched exactly: what it stored (the hits of one recording, or
+ * one background-noise check), for which schedule entry, and the SHA-256 of the request that
+ * carried it. A retry with the same key and the same request replays the first answer; the same
+ * key with another recording or another entry is refused. `request_sha256` is null for keys
+ * stored before it was recorded (those replay by key and entry only).
+ */
+export const uploadKey = pgTable(
+  'upload_key',
+  {
+    campaignId: uuid('campaign_id')
+      .notNull()
+      .references(() => campaign.id, { onDelete: 'cascade' }),
+    key: text('key').notNull(),
+    purpose: text('purpose', { enum: uploadKeyPurposes }).notNull(),
+    scheduleEntryId: uuid('schedule_entry_id').references(() => scheduleEntry.id, { onDelete: 'cascade' }),
+    requestSha256: text('request_sha256'),
+    /** The hits the key stored, in sequence order (purpose hits). */
+    hitIds: uuid('hit_ids').array().notNull().default([]),
+    /** The check the key stored (purpose noise-check). */
+    noiseCheckId: uuid('noise_check_id').references(() => noiseCheck.id, { onDelete: 'cascade' }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ name: 'upload_key_pk', columns: [t.campaignId, t.key] })],
 );

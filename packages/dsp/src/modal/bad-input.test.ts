@@ -84,7 +84,7 @@ describe('bad input gives a RangeError naming the value', () => {
     expect(() => mpc([0, 0, 0])).toThrow('shape is all zeros: MPC is undefined');
     expect(() => macMatrix([[1, 2]], [[1, 2, 3]])).toThrow(/shapesA\[0\] against shapesB\[0\]: .*lengths must match/);
     expect(() => correctWindowDamping([{ fHz: 50, zeta: 0.02 }], 0)).toThrow('tauS=0 must be > 0 and finite');
-    // less damping than the window added (field-reference §3.2): no physical pole
+    // less damping than the window added (docs/methods.md#exp-window): no physical pole
     expect(() => correctWindowDamping([{ fHz: 50, zeta: 0.001 }], 0.21715)).toThrow(/poles\[0\]: zeta=0.001 at fnHz=50 is not above/);
   });
 });

@@ -1,4 +1,4 @@
-// The free–free steel bar of field-reference §7.1, measured at 21 points with the hammer at one end.
+// The free–free steel bar of docs/methods.md#free-free-beam, measured at 21 points with the hammer at one end.
 import { describe, expect, it } from 'vitest';
 import { mac } from '../assurance.ts';
 import { clusterStablePoles } from './clusters.ts';
@@ -10,17 +10,17 @@ import { correctWindowDamping } from './window-correction.ts';
 
 const bar = loadModalFixture('free-free-bar.json');
 const L = 1;
-const rhoA = 7850 * 4e-4; // field-reference §7.1: ρA = 3.140 kg/m
+const rhoA = 7850 * 4e-4; // docs/methods.md#free-free-beam: ρA = 3.140 kg/m
 const EI = (210e9 * 0.04 * 0.01 ** 3) / 12; // weak direction, 700 N·m²
 const ZETA = 0.005;
 const T = 2; // record length (s), Δf = 0.5 Hz
-const TAU = T / Math.log(100); // field-reference §3.2: τ = −T/ln p with p = 1 %
+const TAU = T / Math.log(100); // docs/methods.md#exp-window: τ = −T/ln p with p = 1 %
 
 /**
  * Receptances H(x_i, 0) of the bar at x = 0…1 m in 50 mm steps, hammer at x = 0, from the analytic
  * mass-normalised shapes: two rigid-body modes (φφ/s²) and 8 bending modes, ζ = 0.5 %, all evaluated at
  * s = jω + 1/τ — the exact effect of the same exponential window on force and response (H_w(s) = H(s + 1/τ),
- * field-reference §3.2) — plus 1 % relative complex gaussian noise (seeded).
+ * docs/methods.md#exp-window) — plus 1 % relative complex gaussian noise (seeded).
  */
 function barFrfs(): { set: FrfSet; x: number[]; roots: number[] } {
   const roots = [1, 2, 3, 4, 5, 6, 7, 8].map(freeFreeRoot);
@@ -63,34 +63,34 @@ function barFrfs(): { set: FrfSet; x: number[]; roots: number[] } {
   return { set: { f, frfs, kind: 'receptance' }, x, roots };
 }
 
-describe('free–free bar of field-reference §7.1', () => {
+describe('free–free bar of docs/methods.md#free-free-beam', () => {
   it('recovers the first four bending modes within 0.5 % in f, 10 % in ζ after window correction, MAC ≥ 0.98', () => {
     const { set, x, roots } = barFrfs();
     const orders = Array.from({ length: 20 }, (_, i) => 2 * i + 2);
     const d = stabilizationDiagram(set, { bandHz: [20, 560], orders });
     const poles = pickStablePoles(d);
     expect(poles).toHaveLength(4);
-    // windowed data: every mode carries the window's extra σ = 1/τ (field-reference §3.2), ζ_est ≈ ζ + 1/(τω_n)
+    // windowed data: every mode carries the window's extra σ = 1/τ (docs/methods.md#exp-window), ζ_est ≈ ζ + 1/(τω_n)
     poles.forEach((p) => expect(p.zeta).toBeGreaterThan(ZETA + 0.5 / (TAU * 2 * Math.PI * p.fHz)));
     const corrected = correctWindowDamping(poles, TAU);
     const model = estimateShapes(set, poles, { bandHz: [20, 560] });
-    // field-reference §7.1 weak direction (Euler–Bernoulli): 53.17, 146.55, 287.30, 474.93 Hz
+    // docs/methods.md#free-free-beam weak direction (Euler–Bernoulli): 53.17, 146.55, 287.30, 474.93 Hz
     const table = [53.17, 146.55, 287.3, 474.93];
     corrected.forEach((p, r) => {
       expect(Math.abs(p.fHz / table[r] - 1)).toBeLessThan(0.005);
       // scipy brentq frequencies (fixture free-free-bar.json), same tolerance
       expect(Math.abs(p.fHz / bar.fnHz[r] - 1)).toBeLessThan(0.005);
-      // ζ = 0.5 % as built, within 10 % after the exact correction of §3.2
+      // ζ = 0.5 % as built, within 10 % after the exact correction of docs/methods.md#exp-window
       expect(Math.abs(p.zeta / ZETA - 1)).toBeLessThan(0.1);
-      // analytic mass-normalised shapes φ_n(x) (field-reference §7.1)
+      // analytic mass-normalised shapes φ_n(x) (docs/methods.md#free-free-beam)
       const exact = x.map((xi) => freeFreeShape(roots[r], L, rhoA, xi));
       expect(mac(model.modes[r].shape, exact)).toBeGreaterThanOrEqual(0.98);
-      // a proportionally damped structure has real modes (field-reference §6.7): MPC close to 1
+      // a proportionally damped structure has real modes (docs/methods.md#mpc): MPC close to 1
       expect(model.modes[r].mpc).toBeGreaterThan(0.99);
     });
   });
 
-  it('suggests the same four modes by clustering the stable poles across orders (representatives within 0.5 % of §7.1)', () => {
+  it('suggests the same four modes by clustering the stable poles across orders (representatives within 0.5 % of docs/methods.md#free-free-beam)', () => {
     const { set } = barFrfs();
     const orders = Array.from({ length: 20 }, (_, i) => 2 * i + 2);
     const d = stabilizationDiagram(set, { bandHz: [20, 560], orders });
@@ -98,7 +98,7 @@ describe('free–free bar of field-reference §7.1', () => {
     expect(clusters).toHaveLength(4);
     const reps = clusters.map((c) => d.orders.find((o) => o.order === c.representative.order)!.poles[c.representative.index]!);
     const corrected = correctWindowDamping(reps, TAU);
-    // field-reference §7.1 weak direction (Euler–Bernoulli): 53.17, 146.55, 287.30, 474.93 Hz
+    // docs/methods.md#free-free-beam weak direction (Euler–Bernoulli): 53.17, 146.55, 287.30, 474.93 Hz
     [53.17, 146.55, 287.3, 474.93].forEach((fn, r) => {
       expect(Math.abs(corrected[r]!.fHz / fn - 1)).toBeLessThan(0.005);
       expect(Math.abs(corrected[r]!.zeta / ZETA - 1)).toBeLessThan(0.1);

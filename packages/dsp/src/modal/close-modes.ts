@@ -1,5 +1,5 @@
 // Test support: two modes 1 % apart (100 and 101 Hz, ζ = 0.5 %) with distinct shapes on 6 DOFs, built in
-// closed form (receptance modal sum of field-reference §5.5), optionally with relative gaussian noise.
+// closed form (receptance modal sum of docs/methods.md#modal-model), optionally with relative gaussian noise.
 import { axis, gaussian } from './test-support.ts';
 import type { FrfSet } from './types.ts';
 

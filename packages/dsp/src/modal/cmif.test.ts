@@ -12,7 +12,7 @@ function localMaxima(y: Float64Array, f: Float64Array, lo: number, hi: number): 
 }
 
 describe('cmif and sumFrf', () => {
-  it('equals √(Σ_j |H_j|²) with a single reference (field-reference §6.6, exact)', () => {
+  it('equals √(Σ_j |H_j|²) with a single reference (docs/methods.md#cmif, exact)', () => {
     const set = twoDof63(axis(0, 0.5, 801), [0]);
     const c = cmif(set);
     expect(c.values).toHaveLength(1);
@@ -40,7 +40,7 @@ describe('cmif and sumFrf', () => {
   it('shows two modes 1 % apart as a double peak with two references', () => {
     const m = closeModes([0, 4], 0);
     const c = cmif(m.set);
-    // the first curve peaks at both modes (100 and 101 Hz) — Shih et al. 1988, field-reference §6.6
+    // the first curve peaks at both modes (100 and 101 Hz) — Shih et al. 1988, docs/methods.md#cmif
     // (within 0.15 Hz: 1.5 lines of 0.1 Hz; the two modes pull each other's peak a little)
     const first = localMaxima(c.values[0], c.f, 95, 106);
     expect(first).toHaveLength(2);
@@ -63,7 +63,7 @@ describe('cmif and sumFrf', () => {
       const want = set.frfs.reduce((a, q) => a + Math.hypot(q.h.re[k], q.h.im[k]), 0);
       expect(s.values[0][k]).toBeCloseTo(want, 15);
     }
-    // field-reference §7.3 / §5.1: at 0 Hz the receptance is K⁻¹, Σ|K⁻¹_ij| = (2·2 + 2·1)/(3·400000) m/N
+    // docs/methods.md#check-systems, #frf-kinds: at 0 Hz the receptance is K⁻¹, Σ|K⁻¹_ij| = (2·2 + 2·1)/(3·400000) m/N
     expect(s.values[0][0]).toBeCloseTo(6 / 1.2e6, 15);
   });
 });

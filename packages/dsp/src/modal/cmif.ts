@@ -17,7 +17,7 @@ export interface IndicatorCurves {
  *
  * Computed as √eig(HᴴH) (or √eig(HHᴴ), the smaller) by Jacobi rotations of the real symmetric
  * embedding of the Hermitian matrix. With one reference the single value is √(Σ_j |H_j|²) exactly
- * (field-reference §6.6). Source: Shih, Tsuei, Allemang & Brown 1988, MSSP 2(4) (field-reference §6.6).
+ * (docs/methods.md#cmif). Source: Shih, Tsuei, Allemang & Brown 1988, MSSP 2(4) (docs/methods.md#cmif).
  */
 export function cmif(frfSet: FrfSet): IndicatorCurves {
   const g = toGrid(frfSet);
@@ -58,7 +58,7 @@ export function cmif(frfSet: FrfSet): IndicatorCurves {
 
 /**
  * Summation function Σ_{o,i} |H_oi(ω_k)| over all FRFs of the set, one curve (units of the FRFs).
- * A simple indicator to draw under a stabilization diagram (field-reference §6.6, "the summation function").
+ * A simple indicator to draw under a stabilization diagram (docs/methods.md#cmif, "the summation function").
  */
 export function sumFrf(frfSet: FrfSet): IndicatorCurves {
   const g = toGrid(frfSet);

@@ -14,7 +14,7 @@ export function kindPower(kind: ModalFrfKind, name = 'kind'): 0 | 1 | 2 {
 /**
  * The FRFs arranged as a grid: rows[o] and cols[i] are the DOF labels; re[o][i], im[o][i] the FRF of
  * (row o, column i). When the set has more references than responses (a roving-hammer test) the grid is
- * transposed by reciprocity, H_ij = H_ji (field-reference §5.5): rows are then the reference DOFs.
+ * transposed by reciprocity, H_ij = H_ji (docs/methods.md#modal-model): rows are then the reference DOFs.
  */
 export interface FrfGrid {
   f: Float64Array;

@@ -9,14 +9,14 @@ const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
 
 
 describe('stabilizationDiagram (poly-reference LSCF)', () => {
-  it('reproduces the field-reference §6.3 check: n = 4 on 50–200 Hz, Δf = 0.125 Hz, Δt = 1/1024 s', () => {
-    // axis 0…512 Hz, so the default Δt = 1/(2·512) s is the §6.3 setting
+  it('reproduces the docs/methods.md#lscf check: n = 4 on 50–200 Hz, Δf = 0.125 Hz, Δt = 1/1024 s', () => {
+    // axis 0…512 Hz; the published check uses Δt = 1/(2·512) s (the data's rate, timeBase 'data') and unit weights
     const set = twoDof63(axis(0, 0.125, 4097), [0]);
-    const d = stabilizationDiagram(set, { bandHz: [50, 200], orders: [4] });
+    const d = stabilizationDiagram(set, { bandHz: [50, 200], orders: [4], timeBase: 'data', weighting: 'unit' });
     expect(d.dtS).toBe(1 / 1024);
     const p = d.orders[0].poles;
     expect(p).toHaveLength(2);
-    // field-reference §6.3 [calc]; Guillaume et al. 2003: f = 100.65849 / 174.34415 Hz, ζ = 0.99972 % / 1.99933 %,
+    // docs/methods.md#lscf [calc]; Guillaume et al. 2003: f = 100.65849 / 174.34415 Hz, ζ = 0.99972 % / 1.99933 %,
     // suggested tolerances 1e-4 relative on f, 1e-3 relative on ζ
     expect(rel(p[0].fHz, 100.65849)).toBeLessThan(1e-4);
     expect(rel(p[1].fHz, 174.34415)).toBeLessThan(1e-4);
@@ -27,7 +27,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
     expect(p[1].fHz).toBeCloseTo(174.34415, 5);
   });
 
-  it('recovers the §6.2 2-DOF poles to 1e-4 in frequency and 1e-3 in damping at orders 6–20, all stable', () => {
+  it('recovers the docs/methods.md#chain-2dof-lscf 2-DOF poles to 1e-4 in frequency and 1e-3 in damping at orders 6–20, all stable', () => {
     const set = twoDof63(axis(0, 0.125, 4097), [0]);
     const d = stabilizationDiagram(set, { bandHz: [50, 200], orders: [6, 8, 10, 12, 16, 20] });
     for (const o of d.orders) {
@@ -36,20 +36,20 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
         // scipy.linalg.eig of the state matrix (fixture systems.json): f_n and ζ of each mode
         expect(p, `order ${o.order} mode ${r + 1}`).toBeDefined();
         expect(rel(p!.zeta, sys.twoDof63.zeta[r])).toBeLessThan(1e-3);
-        // field-reference §6.5: poles that agree across orders are stable in all three checks
+        // docs/methods.md#stabilization: poles that agree across orders are stable in all three checks
         if (o.order > 6) expect(p!.stable).toBe('all');
       }
     }
   });
 
-  it('recovers the §7.3(d) 3-DOF poles from receptance, mobility and accelerance alike', () => {
+  it('recovers the docs/methods.md#chain-3dof 3-DOF poles from receptance, mobility and accelerance alike', () => {
     const f = axis(0, 0.01, 2001); // 0…20 Hz
     for (const kind of ['receptance', 'mobility', 'accelerance'] as const) {
       const d = stabilizationDiagram(threeDof(f, kind), { bandHz: [1, 15], orders: [6, 8, 10, 12] });
       const top = pickStablePoles(d);
       expect(top, kind).toHaveLength(3);
       top.forEach((p, r) => {
-        // scipy.linalg.eig (fixture systems.json); field-reference §7.3(d) 3.85203, 7.11763, 9.29963 Hz
+        // scipy.linalg.eig (fixture systems.json); docs/methods.md#chain-3dof 3.85203, 7.11763, 9.29963 Hz
         expect(rel(p.fHz, sys.threeDof73d.fn[r])).toBeLessThan(1e-4);
         expect(rel(p.zeta, sys.threeDof73d.zeta[r])).toBeLessThan(1e-3);
       });
@@ -58,16 +58,16 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
 
   it('resolves two modes 1 % apart (100 and 101 Hz, ζ = 0.5 %) with two references at the lowest order', () => {
     const m = closeModes([0, 4], 0);
-    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6] });
+    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6], });
     // order 2 with 2 references has 4 poles, i.e. exactly the 2 modes
     for (const o of d.orders) {
       expect(o.poles.length).toBeGreaterThanOrEqual(2);
       for (let r = 0; r < 2; r++) {
-        // closed-form modal model of the test (m.fHz, m.zeta): noise-free, so 1e-4 / 1e-3 as field-reference §6.3
+        // closed-form modal model of the test (m.fHz, m.zeta): noise-free, so 1e-4 / 1e-3 as docs/methods.md#lscf
         const p = o.poles.find((q) => rel(q.fHz, m.fHz[r]) < 1e-4);
         expect(p, `order ${o.order}, ${m.fHz[r]} Hz`).toBeDefined();
         expect(rel(p!.zeta, m.zeta)).toBeLessThan(1e-3);
-        // reciprocity (field-reference §5.5): the participation factor is the shape at the references
+        // reciprocity (docs/methods.md#modal-model): the participation factor is the shape at the references
         const l = p!.participation;
         const exact = [m.psi[r][0], m.psi[r][4]];
         const dot = Math.hypot(l.re[0] * exact[0] + l.re[1] * exact[1], l.im[0] * exact[0] + l.im[1] * exact[1]);
@@ -80,7 +80,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
 
   it('keeps both close modes stable in all checks with 1 % noise and two references', () => {
     const m = closeModes([0, 4], 0.01);
-    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6, 8, 10] });
+    const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6, 8, 10], });
     for (const o of d.orders.slice(1)) {
       for (let r = 0; r < 2; r++) {
         const p = o.poles.find((q) => rel(q.fHz, m.fHz[r]) < 1e-3 && q.stable === 'all');
@@ -102,7 +102,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
         expect(p.zeta).toBeGreaterThan(0);
         expect(p.zeta).toBeLessThanOrEqual(0.05);
         if (r > 0) expect(p.fHz).toBeGreaterThan(o.poles[r - 1].fHz);
-        // definitions f = |λ|/2π and ζ = −Re λ/|λ| (field-reference §6.2)
+        // definitions f = |λ|/2π and ζ = −Re λ/|λ| (docs/methods.md#poles)
         expect(Math.hypot(p.lambda.re, p.lambda.im) / (2 * Math.PI)).toBeCloseTo(p.fHz, 9);
         expect(-p.lambda.re / Math.hypot(p.lambda.re, p.lambda.im)).toBeCloseTo(p.zeta, 12);
       }
@@ -120,7 +120,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
   });
 
   it('returns no stable pole in a band between the modes of a noise-free system', () => {
-    // §7.3(d) chain, 4.5–6.5 Hz lies between the 3.85 and 7.12 Hz modes
+    // docs/methods.md#chain-3dof chain, 4.5–6.5 Hz lies between the 3.85 and 7.12 Hz modes
     const d = stabilizationDiagram(threeDof(axis(0, 0.01, 2001)), { bandHz: [4.5, 6.5], orders: [2, 4, 6, 8] });
     expect(pickStablePoles(d)).toEqual([]);
   });
@@ -130,7 +130,7 @@ function shape(v: number[]): Complex {
   return { re: Float64Array.from(v), im: new Float64Array(v.length) };
 }
 
-describe('classifyPoles (field-reference §6.5, common practice)', () => {
+describe('classifyPoles (docs/methods.md#stabilization, common practice)', () => {
   const prev: PoleForStability[] = [
     { fHz: 50, zeta: 0.01, shape: shape([1, 0.5, -0.2]) },
     { fHz: 120, zeta: 0.02, shape: shape([0.3, -1, 0.4]) },

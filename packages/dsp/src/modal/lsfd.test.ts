@@ -19,16 +19,16 @@ describe('estimateShapes and synthesize', () => {
       [1, -1],
     ];
     model.modes.forEach((m, r) => {
-      // field-reference §6.2: modes [1, 1]/√2 and [1, −1]/√2 (scipy.linalg.eigh, fixture systems.json)
+      // docs/methods.md#chain-2dof-lscf: modes [1, 1]/√2 and [1, −1]/√2 (scipy.linalg.eigh, fixture systems.json)
       expect(mac(m.shape, exact[r])).toBeGreaterThanOrEqual(0.999);
       expect(mac(m.shape, sys.twoDof63.modes[r])).toBeGreaterThanOrEqual(0.999);
-      // field-reference §5.5: A_jk,r = φ_jrφ_kr/(2jω_dr) for proportional damping (φ mass-normalised, φ² = 1/2)
+      // docs/methods.md#modal-model: A_jk,r = φ_jrφ_kr/(2jω_dr) for proportional damping (φ mass-normalised, φ² = 1/2)
       const wd = sys.twoDof63.lambdaIm[r];
       for (let o = 0; o < 2; o++) {
         const exactIm = -(exact[r][o] * exact[r][0] * 0.5) / (2 * wd);
         expect(Math.hypot(m.residues[0].re[o], m.residues[0].im[o] - exactIm) / Math.abs(exactIm)).toBeLessThan(1e-3);
       }
-      // proportional damping gives real (collinear) shapes: MPC = 1 (field-reference §6.7)
+      // proportional damping gives real (collinear) shapes: MPC = 1 (docs/methods.md#mpc)
       expect(m.mpc).toBeGreaterThan(0.999999);
     });
     // synthesized FRF within 1 % of the measured one at every line of the band
@@ -40,7 +40,7 @@ describe('estimateShapes and synthesize', () => {
     }
   });
 
-  it('gives the §7.3(d) 3-DOF shapes from accelerance data, with residues in receptance form', () => {
+  it('gives the docs/methods.md#chain-3dof 3-DOF shapes from accelerance data, with residues in receptance form', () => {
     const f = axis(0, 0.01, 2001);
     const acc = threeDof(f, 'accelerance', [0]);
     const rec = threeDof(f, 'receptance', [0]);
@@ -48,7 +48,7 @@ describe('estimateShapes and synthesize', () => {
     const model = estimateShapes(acc, pickStablePoles(d), { bandHz: [1, 15] });
     expect(model.kind).toBe('accelerance');
     const s = Math.SQRT1_2;
-    // field-reference §7.3(d): modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
+    // docs/methods.md#chain-3dof: modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
     const exact = [
       [0.5, s, 0.5],
       [-s, 0, s],
@@ -58,7 +58,7 @@ describe('estimateShapes and synthesize', () => {
       expect(mac(m.shape, exact[r])).toBeGreaterThanOrEqual(0.999);
       const wd = sys.threeDof73d.lambdaIm[r];
       for (let o = 0; o < 3; o++) {
-        // field-reference §5.5: A_o1,r = φ_orφ_1r/(2jω_dr), independent of the FRF kind fitted
+        // docs/methods.md#modal-model: A_o1,r = φ_orφ_1r/(2jω_dr), independent of the FRF kind fitted
         const exactIm = -(exact[r][o] * exact[r][0]) / (2 * wd);
         expect(Math.hypot(m.residues[0].re[o], m.residues[0].im[o] - exactIm)).toBeLessThan(1e-3 * Math.abs(exact[r][0] / (2 * wd)));
       }
@@ -76,8 +76,8 @@ describe('estimateShapes and synthesize', () => {
   });
 
   it('needs its residual terms when modes lie outside the band', () => {
-    // only the 7.12 Hz mode of the §7.3(d) chain inside 6.5–7.8 Hz; the 3.85 and 9.30 Hz modes act as lower
-    // (mass-like) and upper (stiffness-like) residuals (field-reference §5.5)
+    // only the 7.12 Hz mode of the docs/methods.md#chain-3dof chain inside 6.5–7.8 Hz; the 3.85 and 9.30 Hz modes act as lower
+    // (mass-like) and upper (stiffness-like) residuals (docs/methods.md#modal-model)
     const f = axis(0, 0.01, 2001);
     const set = threeDof(f, 'receptance', [0]);
     const pole = { fHz: sys.threeDof73d.fn[1], zeta: sys.threeDof73d.zeta[1] };
@@ -94,13 +94,13 @@ describe('estimateShapes and synthesize', () => {
       expect(err(withRes, dof)).toBeLessThan(0.005);
       expect(err(without, dof)).toBeGreaterThan(0.01);
     }
-    // DOF 2 is a node of mode 2 (field-reference §7.3(d), [−√2/2, 0, √2/2]): its FRF is residual terms only
+    // DOF 2 is a node of mode 2 (docs/methods.md#chain-3dof, [−√2/2, 0, √2/2]): its FRF is residual terms only
     expect(err(withRes, '2')).toBeLessThan(0.1);
     expect(err(without, '2')).toBeGreaterThan(0.5);
-    // the residue of the in-band mode stays close to A_11 = φ₁²/(2jω_d) with φ₁ = −√2/2 (field-reference §5.5)
+    // the residue of the in-band mode stays close to A_11 = φ₁²/(2jω_d) with φ₁ = −√2/2 (docs/methods.md#modal-model)
     const A = withRes.modes[0].residues[0];
     expect(rel(A.im[0], -0.5 / (2 * sys.threeDof73d.lambdaIm[1]))).toBeLessThan(0.01);
-    // a mode below the band looks mass-like: positive 1/M_L at the driving point (field-reference §5.5 sign)
+    // a mode below the band looks mass-like: positive 1/M_L at the driving point (docs/methods.md#modal-model sign)
     expect(withRes.residuals!.lower[0][0]).toBeGreaterThan(0);
     // a mode above the band looks stiffness-like: positive 1/K_U at the driving point
     expect(withRes.residuals!.upper[0][0]).toBeGreaterThan(0);
@@ -115,7 +115,7 @@ describe('estimateShapes and synthesize', () => {
     expect(a.modes[0].residues[1].im[0]).toBeCloseTo(b.modes[0].residues[1].im[0], 12);
     const h12 = synthesize(a, set.f, '1', '2', 'mobility');
     const h21 = synthesize(a, set.f, '2', '1', 'mobility');
-    // reciprocity H_12 = H_21 (field-reference §5.5): the fitted residues agree to the fit's accuracy
+    // reciprocity H_12 = H_21 (docs/methods.md#modal-model): the fitted residues agree to the fit's accuracy
     expect(maxRelDiff(h12, h21, 400, 1601)).toBeLessThan(1e-6);
   });
 });

@@ -23,13 +23,13 @@ export interface ModelMode {
   lambda: ComplexValue;
   /**
    * Receptance residues A_r, in m/(N·s), of the pole–residue model; residues[i] runs over the model's
-   * `responses` for the reference `references[i]`. For proportional damping A_jk = φ_jφ_k/(2jω_d) (§5.5).
+   * `responses` for the reference `references[i]`. For proportional damping A_jk = φ_jφ_k/(2jω_d) (docs/methods.md#modal-model).
    */
   residues: Complex[];
   /** The residue vector of the reference with the largest residue norm for this mode (its label in `shapeReference`). */
   shape: Complex;
   shapeReference: string;
-  /** Modal phase collinearity of `shape` (uncentred variant, Pappa et al. 1993, field-reference §6.7). */
+  /** Modal phase collinearity of `shape` (uncentred variant, Pappa et al. 1993, docs/methods.md#mpc). */
   mpc: number;
   /** Real "normal mode" approximation of `shape` (rotated to the largest real part, largest entry +1). */
   realShape: Float64Array;
@@ -47,15 +47,15 @@ export interface ModalModel {
   modes: ModelMode[];
   /**
    * Residual terms in receptance form, H_res(ω) = upper − lower/ω², per reference over the responses:
-   * upper[i][o] = 1/K_U (m/N), lower[i][o] = 1/M_L (1/kg) (field-reference §5.5). Null if not fitted.
+   * upper[i][o] = 1/K_U (m/N), lower[i][o] = 1/M_L (1/kg) (docs/methods.md#modal-model). Null if not fitted.
    */
   residuals: { upper: Float64Array[]; lower: Float64Array[] } | null;
 }
 
 /**
  * Residues (mode shapes) of given poles by linear least squares in the frequency domain (the second step
- * of poly-reference LSCF, field-reference §6.3; Peeters et al. 2004), one FRF at a time with the pole–residue
- * model of field-reference §5.5 adapted to the FRF kind:
+ * of poly-reference LSCF, docs/methods.md#lscf; Peeters et al. 2004), one FRF at a time with the pole–residue
+ * model of docs/methods.md#modal-model adapted to the FRF kind:
  *   H(ω) = (jω)^p·{ Σ_r [A_r/(jω − λ_r) + conj(A_r)/(jω − λ_r*)] + U − L/ω² },
  * p = 0, 1, 2 for receptance, mobility, accelerance; A_r complex, U (upper, stiffness-like, 1/K_U in m/N) and
  * L (lower, mass-like, 1/M_L in 1/kg) real. So residues are in receptance form (m/(N·s)) for any kind.
@@ -247,10 +247,10 @@ function leastSquares(G: Float64Array, rows: number, np: number, B: Float64Array
 }
 
 /**
- * FRF synthesised from a modal model at the frequencies f (Hz): the pole–residue sum of field-reference §5.5
+ * FRF synthesised from a modal model at the frequencies f (Hz): the pole–residue sum of docs/methods.md#modal-model
  * plus the model's residual terms, H = (jω)^p·{Σ_r [A_r/(jω − λ_r) + conj(A_r)/(jω − λ_r*)] + U − L/ω²}, in the
  * requested kind (receptance m/N, mobility (m/s)/N, accelerance (m/s²)/N), whatever kind was fitted.
- * (response, reference) must be a pair of the model; the swapped pair is accepted by reciprocity (§5.5).
+ * (response, reference) must be a pair of the model; the swapped pair is accepted by reciprocity (docs/methods.md#modal-model).
  * The residual terms are only meaningful inside the fitted band; at 0 Hz the lower term is left out.
  */
 export function synthesize(model: ModalModel, f: ArrayLike<number>, response: string, reference: string, kind: ModalFrfKind): Complex {

@@ -8,7 +8,7 @@ export interface PoleValues {
 }
 
 /**
- * λ = −ζω_n + jω_n√(1 − ζ²) from (fHz, zeta), or f = |λ|/2π and ζ = −Re λ/|λ| from λ (field-reference §5.5).
+ * λ = −ζω_n + jω_n√(1 − ζ²) from (fHz, zeta), or f = |λ|/2π and ζ = −Re λ/|λ| from λ (docs/methods.md#modal-model).
  * Throws a RangeError naming the bad value unless 0 < ζ < 1 and f > 0 (Im λ > 0, Re λ < 0).
  */
 export function poleValues(p: PoleInput, name: string): PoleValues {

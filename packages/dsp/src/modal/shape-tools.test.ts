@@ -4,8 +4,8 @@ import { macMatrix, mpc, realShape } from './shape-tools.ts';
 
 const c = (re: number[], im: number[]) => ({ re: Float64Array.from(re), im: Float64Array.from(im) });
 
-describe('MAC, FRAC and MPC check values (field-reference §6.7)', () => {
-  it('gives the MAC check values of §6.7 [calc]; Allemang & Brown 1982', () => {
+describe('MAC, FRAC and MPC check values (docs/methods.md#mac)', () => {
+  it('gives the MAC check values of docs/methods.md#mac [calc]; Allemang & Brown 1982', () => {
     expect(mac([1, 1, 1], [1, 0, -1])).toBeCloseTo(0, 15);
     expect(mac([1, 0], [1, 1])).toBeCloseTo(0.5, 15);
     expect(mac([1, 2, 3], [1, 2, 3.5])).toBeCloseTo(0.994824, 6);
@@ -13,14 +13,14 @@ describe('MAC, FRAC and MPC check values (field-reference §6.7)', () => {
     const phi = c([0.3, -1, 0.7], [0.1, 0.2, -0.4]);
     const scaled = c([0, 1, 2].map((i) => 2 * phi.re[i] + phi.im[i]), [0, 1, 2].map((i) => 2 * phi.im[i] - phi.re[i]));
     expect(mac(phi, scaled)).toBeCloseTo(1, 14);
-    // the two 2-DOF modes of §7.3 → 0
+    // the two 2-DOF modes of docs/methods.md#chain-2dof → 0
     expect(mac([1, 1], [1, -1])).toBeCloseTo(0, 15);
   });
 
   it('builds a MAC table with the same values', () => {
     const t = macMatrix([[1, 1, 1], [1, 2, 3]], [[1, 0, -1], [1, 2, 3.5], [1, 1, 1]]);
     expect(t).toHaveLength(2);
-    // field-reference §6.7 [calc]
+    // docs/methods.md#mac [calc]
     expect(t[0][0]).toBeCloseTo(0, 15);
     expect(t[1][1]).toBeCloseTo(0.994824, 6);
     expect(t[0][2]).toBeCloseTo(1, 15);
@@ -28,14 +28,14 @@ describe('MAC, FRAC and MPC check values (field-reference §6.7)', () => {
     expect(t[1][2]).toBeCloseTo(6 / 7, 14);
   });
 
-  it('gives FRAC = 1 for FRFs that differ by a constant complex factor (§6.7)', () => {
+  it('gives FRAC = 1 for FRFs that differ by a constant complex factor (docs/methods.md#frac)', () => {
     const h = c([1, 2, -1, 0.5], [0.3, -0.2, 0.1, 1]);
     const g = c([0, 1, 2, 3].map((i) => 3 * h.re[i]), [0, 1, 2, 3].map((i) => 3 * h.im[i]));
     expect(frac(h, g)).toBeCloseTo(1, 14);
   });
 
   it('gives MPC 1 for a real shape, 0 for [1, j], and 1 for a real shape turned by any phase (Pappa et al. 1993)', () => {
-    // field-reference §6.7 [calc]
+    // docs/methods.md#mac [calc]
     expect(mpc([1, -0.5, 0.25])).toBe(1);
     expect(mpc(c([1, 0], [0, 1]))).toBeCloseTo(0, 15);
     const th = 0.7;

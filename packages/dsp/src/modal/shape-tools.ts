@@ -17,7 +17,7 @@ function parts(v: Shape, name: string): { re: ArrayLike<number>; im: ArrayLike<n
 /**
  * Table of MAC values between two lists of shapes (real or complex vectors, all of one length):
  * result[a][b] = MAC(shapesA[a], shapesB[b]) (dimensionless, 0…1), using `mac` of ../assurance.ts.
- * Source: Allemang & Brown, IMAC 1 (1982), pp. 110–116 (field-reference §6.7).
+ * Source: Allemang & Brown, IMAC 1 (1982), pp. 110–116 (docs/methods.md#mac).
  */
 export function macMatrix(shapesA: readonly Shape[], shapesB: readonly Shape[]): Float64Array[] {
   if (!Array.isArray(shapesA) || shapesA.length === 0) throw new RangeError('shapesA is empty: give at least one shape');
@@ -37,8 +37,8 @@ export function macMatrix(shapesA: readonly Shape[], shapesB: readonly Shape[]):
  * Modal phase collinearity of a complex shape ψ = x + jy (dimensionless, 0…1): with
  * a = xᵀx, b = xᵀy, c = yᵀy (the uncentred 2×2 matrix [[a, b], [b, c]] whose eigenvalues are λ₁ ≥ λ₂),
  * MPC = ((λ₁ − λ₂)/(λ₁ + λ₂))² = ((a − c)² + 4b²)/(a + c)². 1 for a shape whose entries share one phase
- * (up to sign), 0 for [1, j]. Variant: no centring of the data (field-reference §6.7).
- * Source: Pappa, Elliott & Schenk 1993 (field-reference §6.7). Throws for an all-zero shape.
+ * (up to sign), 0 for [1, j]. Variant: no centring of the data (docs/methods.md#mpc).
+ * Source: Pappa, Elliott & Schenk 1993 (docs/methods.md#mpc). Throws for an all-zero shape.
  */
 export function mpc(shape: Shape): number {
   const { re, im } = parts(shape, 'shape');

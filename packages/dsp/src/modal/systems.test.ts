@@ -1,5 +1,5 @@
 // The test systems themselves are checked first: the TypeScript builders against numpy/scipy fixtures
-// (tests/reference/modal_fixtures.py → tests/fixtures/modal/) and against field-reference check values.
+// (tests/reference/modal_fixtures.py → tests/fixtures/modal/) and against the check values of docs/methods.md#check-systems.
 import { describe, expect, it } from 'vitest';
 import { axis, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, twoDof63 } from './test-support.ts';
 
@@ -17,7 +17,7 @@ function gridAt(set: ReturnType<typeof twoDof63>, k: number, n: number, refs: nu
 }
 
 describe('test systems', () => {
-  it('builds the §6.2/§6.3 2-DOF receptances exactly as numpy.linalg.inv(K − ω²M + jωC)', () => {
+  it('builds the docs/methods.md#chain-2dof-lscf 2-DOF receptances exactly as numpy.linalg.inv(K − ω²M + jωC)', () => {
     const c = sys.twoDof63;
     const f = Float64Array.from(c.f as number[]);
     const set = twoDof63(f, [0, 1]);
@@ -35,12 +35,12 @@ describe('test systems', () => {
     // scipy.linalg.eig of the state matrix (fixture): Rayleigh damping gives exactly 1 % and 2 %
     expect(c.zeta[0]).toBeCloseTo(0.01, 12);
     expect(c.zeta[1]).toBeCloseTo(0.02, 12);
-    // field-reference §6.2: f = 100.6584 and 174.3455 Hz
+    // docs/methods.md#chain-2dof-lscf: f = 100.6584 and 174.3455 Hz
     expect(c.fn[0]).toBeCloseTo(100.6584, 4);
     expect(c.fn[1]).toBeCloseTo(174.3455, 4);
   });
 
-  it('builds the §7.3(d) 3-DOF receptances with modal damping exactly as numpy does', () => {
+  it('builds the docs/methods.md#chain-3dof 3-DOF receptances with modal damping exactly as numpy does', () => {
     const c = sys.threeDof73d;
     const f = Float64Array.from(c.f as number[]);
     const K = [
@@ -54,7 +54,7 @@ describe('test systems', () => {
       [0, 0, 1],
     ];
     const s = Math.SQRT1_2;
-    // field-reference §7.3(d): ω² = (2 − √2, 2, 2 + √2)·k/m, modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
+    // docs/methods.md#chain-3dof: ω² = (2 − √2, 2, 2 + √2)·k/m, modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
     const phi = [
       [0.5, -s, 0.5],
       [s, 0, -s],
@@ -73,14 +73,14 @@ describe('test systems', () => {
         }
       }
     }
-    // field-reference §7.3(d): 3.85203, 7.11763 and 9.29963 Hz (scipy.linalg.eigh, fixture)
+    // docs/methods.md#chain-3dof: 3.85203, 7.11763 and 9.29963 Hz (scipy.linalg.eigh, fixture)
     expect(c.undampedHz[0]).toBeCloseTo(3.85203, 5);
     expect(c.undampedHz[1]).toBeCloseTo(7.11763, 5);
     expect(c.undampedHz[2]).toBeCloseTo(9.29963, 5);
     expect(c.zeta).toEqual([expect.closeTo(0.01, 12), expect.closeTo(0.015, 12), expect.closeTo(0.02, 12)]);
   });
 
-  it('gives the damped §7.3(a) check values α₁₁(6 Hz) and α₁₂(ω₂)', () => {
+  it('gives the damped docs/methods.md#chain-2dof check values α₁₁(6 Hz) and α₁₂(ω₂)', () => {
     const M = [
       [1, 0],
       [0, 1],
@@ -89,7 +89,7 @@ describe('test systems', () => {
       [2000, -1000],
       [-1000, 2000],
     ];
-    // field-reference §7.3(a): a = 0.801921 s⁻¹, b = 4.62990e-4 s give ζ = 2 % in both modes
+    // docs/methods.md#chain-2dof: a = 0.801921 s⁻¹, b = 4.62990e-4 s give ζ = 2 % in both modes
     const { a, b } = rayleigh(0.02, Math.sqrt(1000), 0.02, Math.sqrt(3000));
     expect(a).toBeCloseTo(0.801921, 6);
     expect(b).toBeCloseTo(4.6299e-4, 9);
@@ -97,10 +97,10 @@ describe('test systems', () => {
     const set = systemFrfs(M, K, lin(a, M, b, K), f, [0]);
     const h11 = set.frfs[0].h;
     const h21 = set.frfs[1].h;
-    // field-reference §7.3(a): α₁₁(6 Hz) = −8.56163e-4 − 1.49203e-4·j m/N
+    // docs/methods.md#chain-2dof: α₁₁(6 Hz) = −8.56163e-4 − 1.49203e-4·j m/N
     expect(h11.re[0]).toBeCloseTo(-8.56163e-4, 9);
     expect(h11.im[0]).toBeCloseTo(-1.49203e-4, 9);
-    // field-reference §7.3(a): α₁₂(ω₂) = −2.49700e-4 + 4.15802e-3·j m/N
+    // docs/methods.md#chain-2dof: α₁₂(ω₂) = −2.49700e-4 + 4.15802e-3·j m/N
     expect(h21.re[1]).toBeCloseTo(-2.497e-4, 9);
     expect(h21.im[1]).toBeCloseTo(4.15802e-3, 8);
   });
@@ -113,11 +113,11 @@ describe('test systems', () => {
         expect(freeFreeShape(freeFreeRoot(n + 1), 1, 7850 * 4e-4, bar.x[i])).toBeCloseTo(bar.shapes[n][i], 8); // cosh − σ·sinh cancels: ~1e-9 is the formula's own rounding
       }
     }
-    // field-reference §7.1: βL = 4.730041, 7.853205, 10.995608, 14.137165
+    // docs/methods.md#free-free-beam: βL = 4.730041, 7.853205, 10.995608, 14.137165
     expect([1, 2, 3, 4].map(freeFreeRoot).map((v) => Number(v.toFixed(6)))).toEqual([4.730041, 7.853205, 10.995608, 14.137165]);
     const ei = (210e9 * 0.04 * 0.01 ** 3) / 12;
     const f = [1, 2, 3, 4].map((n) => freeFreeRoot(n) ** 2 / (2 * Math.PI) * Math.sqrt(ei / (7850 * 4e-4)));
-    // field-reference §7.1 table, weak direction: 53.17, 146.55, 287.30, 474.93 Hz
+    // docs/methods.md#free-free-beam table, weak direction: 53.17, 146.55, 287.30, 474.93 Hz
     expect(f.map((v) => Number(v.toFixed(2)))).toEqual([53.17, 146.55, 287.3, 474.93]);
     expect(axis(0, 0.5, 3)).toEqual(Float64Array.of(0, 0.5, 1));
   });

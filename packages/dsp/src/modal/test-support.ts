@@ -72,7 +72,7 @@ export function complexSolve(Ar: Float64Array, Ai: Float64Array, n: number, br: 
   return { re: xr, im: xi };
 }
 
-/** Multiplies a receptance by (jω)^p to give the FRF of the kind (field-reference §5.1). */
+/** Multiplies a receptance by (jω)^p to give the FRF of the kind (docs/methods.md#frf-kinds). */
 export function toKind(h: Complex, f: Float64Array, kind: ModalFrfKind): Complex {
   const p = kind === 'receptance' ? 0 : kind === 'mobility' ? 1 : 2;
   const re = Float64Array.from(h.re);
@@ -90,7 +90,7 @@ export function toKind(h: Complex, f: Float64Array, kind: ModalFrfKind): Complex
 
 /**
  * Exact FRFs of M·ẍ + C·ẋ + K·x = f by the direct inverse of (K − ω²M + jωC) at every line
- * (field-reference §5.5, §7.3). DOF labels are '1', '2', …; `references` are 0-based DOF indices.
+ * (docs/methods.md#modal-model, #check-systems). DOF labels are '1', '2', …; `references` are 0-based DOF indices.
  */
 export function systemFrfs(
   M: number[][],
@@ -140,7 +140,7 @@ export function lin(a: number, A: number[][], b: number, B: number[][]): number[
 
 /**
  * Modal viscous damping C = M·Φ·diag(2ζ_rω_r)·Φᵀ·M for mass-normalised real modes Φ (columns), which gives
- * exactly ζ_r in mode r (field-reference §5.5, proportional damping).
+ * exactly ζ_r in mode r (docs/methods.md#modal-model, proportional damping).
  */
 export function modalDamping(M: number[][], phi: number[][], w: number[], zeta: number[]): number[][] {
   const n = M.length;
@@ -157,7 +157,7 @@ export function modalDamping(M: number[][], phi: number[][], w: number[], zeta: 
   return C;
 }
 
-/** Roots β_nL of cos βL·cosh βL = 1 (free–free beam, field-reference §7.1), by bisection; n = 1, 2, … */
+/** Roots β_nL of cos βL·cosh βL = 1 (free–free beam, docs/methods.md#free-free-beam), by bisection; n = 1, 2, … */
 export function freeFreeRoot(n: number): number {
   const g = (x: number) => Math.cos(x) * Math.cosh(x) - 1;
   let a = (n + 0.5) * Math.PI - 0.5;
@@ -171,7 +171,7 @@ export function freeFreeRoot(n: number): number {
   return 0.5 * (a + b);
 }
 
-/** Mass-normalised free–free Euler–Bernoulli shape φ_n(x) (1/√kg) of field-reference §7.1 for the root βL. */
+/** Mass-normalised free–free Euler–Bernoulli shape φ_n(x) (1/√kg) of docs/methods.md#free-free-beam for the root βL. */
 export function freeFreeShape(betaL: number, L: number, rhoA: number, x: number): number {
   const b = betaL / L;
   const sigma = (Math.cosh(betaL) - Math.cos(betaL)) / (Math.sinh(betaL) - Math.sin(betaL));
@@ -207,7 +207,7 @@ export function maxRelDiff(a: Complex, b: Complex, k0 = 0, k1 = b.re.length): nu
   return m;
 }
 
-/** 2-DOF of field-reference §6.2/§6.3: M = I kg, K = 400·[[2000, −1000], [−1000, 2000]] N/m, ζ = 1 % and 2 %. */
+/** 2-DOF of docs/methods.md#chain-2dof-lscf: M = I kg, K = 400·[[2000, −1000], [−1000, 2000]] N/m, ζ = 1 % and 2 %. */
 export function twoDof63(f: Float64Array, references = [0], kind: ModalFrfKind = 'receptance'): FrfSet {
   const M = [
     [1, 0],
@@ -224,7 +224,7 @@ export function twoDof63(f: Float64Array, references = [0], kind: ModalFrfKind =
   return systemFrfs(M, K, lin(a, M, b, K), f, references, kind);
 }
 
-/** §7.3(d) 3-DOF fixed–fixed chain, m = 1 kg, k = 1000 N/m, modal damping 1 %, 1.5 %, 2 %. */
+/** docs/methods.md#chain-3dof 3-DOF fixed–fixed chain, m = 1 kg, k = 1000 N/m, modal damping 1 %, 1.5 %, 2 %. */
 export function threeDof(f: Float64Array, kind: ModalFrfKind = 'receptance', refs = [0]) {
   const M = [
     [1, 0, 0],

@@ -4,8 +4,8 @@ import type { Complex } from '../types.ts';
 export type ModalFrfKind = 'receptance' | 'mobility' | 'accelerance';
 
 /**
- * One measured FRF, H = response ÷ force (field-reference §0), on the frequency axis of its set.
- * `response` and `reference` are DOF labels (node plus signed direction, §9).
+ * One measured FRF, H = response ÷ force (docs/methods.md#conventions), on the frequency axis of its set.
+ * `response` and `reference` are DOF labels (node plus signed direction, docs/methods.md#dof-signs).
  */
 export interface ModalFrf {
   response: string;

@@ -6,10 +6,10 @@ import type { PoleInput } from './types.ts';
  * Removes the damping an exponential window (time constant tauS, s, the same window on force and response)
  * added to poles estimated from windowed FRFs. The window maps H(s) to H(s + 1/τ), so every pole moved
  * left by 1/τ; the exact correction is σ_true = σ_est − 1/τ with ω_d unchanged, ω_n = √(ω_d² + σ_true²),
- * ζ = σ_true/ω_n (field-reference §3.2; Fladung 1997). Uses `correctExponentialDamping` of ../windows.ts.
+ * ζ = σ_true/ω_n (docs/methods.md#exp-window; Fladung 1997). Uses `correctExponentialDamping` of ../windows.ts.
  *
  * In: poles as { fHz (Hz), zeta (ratio) } or { lambda (rad/s) }, other fields are kept. Out: the same
- * poles with corrected fHz, zeta and lambda. Residues and shapes are unchanged by the window (§3.2).
+ * poles with corrected fHz, zeta and lambda. Residues and shapes are unchanged by the window (docs/methods.md#exp-window).
  * Throws a RangeError when a pole holds less damping than the window added.
  */
 export function correctWindowDamping<T extends PoleInput>(poles: readonly T[], tauS: number): (T & PoleValues)[] {

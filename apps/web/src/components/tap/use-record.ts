@@ -5,6 +5,7 @@ import { useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from '../../lib/api.ts';
 import { hitKeys, invalidateTestData, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary, type Verdict } from '../../lib/hits-data.ts';
 import { useToast } from '../../lib/toast.tsx';
+import { sendUntilStored, type Waiting } from '../../lib/retry.ts';
 
 export type Tip = 'soft' | 'medium' | 'hard';
 export interface UploadFields {
@@ -14,7 +15,10 @@ export interface UploadFields {
   fullScaleVolts: string;
 }
 
-/** A retry (same request after a network or server failure) reuses the key, so nothing is stored twice. */
+/**
+ * A failure the engineer may retry by hand with the same key (the key is kept). No answer and
+ * 502/503/504 never get here: those are retried automatically (lib/retry.ts).
+ */
 function retryable(err: unknown) {
   return err instanceof ApiError && (err.status === 0 || err.status >= 500);
 }
@@ -32,6 +36,22 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
   const [progress, setProgress] = useState<number | null>(null);
   const pendingKey = useRef<{ what: string; key: string } | null>(null);
   const [failedUpload, setFailedUpload] = useState<UploadFields | null>(null);
+  // A hit waiting for the server (no answer, or 503 while its database restarts): said in words
+  // on the Tap screen, and sent again with the same key until it is stored.
+  const [waiting, setWaiting] = useState<Waiting | null>(null);
+  const wake = useRef<(() => void) | null>(null);
+  const sleep = (ms: number) =>
+    new Promise<void>((resolve) => {
+      const done = () => {
+        clearTimeout(timer);
+        wake.current = null;
+        resolve();
+      };
+      const timer = setTimeout(done, ms);
+      wake.current = done;
+    });
+  /** Sends the waiting hit now instead of at the end of the pause. */
+  const tryNow = () => wake.current?.();
 
   function keyFor(what: string) {
     if (pendingKey.current?.what === what) return pendingKey.current.key;
@@ -55,8 +75,9 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
   async function run(kind: 'strike' | 'upload', what: string, call: (key: string) => Promise<HitsAnswer>) {
     if (!entryId || busy) return;
     setBusy(kind);
+    const key = keyFor(what);
     try {
-      const answer = await call(keyFor(what));
+      const answer = await sendUntilStored(() => call(key), { onWaiting: setWaiting, sleep });
       pendingKey.current = null;
       setFailedUpload(null);
       apply(answer);
@@ -67,6 +88,7 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
       toast('error', `${err instanceof Error ? err.message : 'The hit could not be recorded.'}${retryable(err) ? ' Try again: the retry is safe.' : ''}`);
       throw err;
     } finally {
+      setWaiting(null);
       setBusy(null);
       setProgress(null);
     }
@@ -112,5 +134,5 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
     }
   }
 
-  return { busy, progress, strike, upload, override, failedUpload };
+  return { busy, progress, strike, upload, override, failedUpload, waiting, tryNow };
 }

@@ -20,6 +20,8 @@ import { SafetyNote } from '../../components/tap/safety-note.tsx';
 import { Kbd, StrikePanel } from '../../components/tap/strike-panel.tsx';
 import { useRecordHits, type Tip } from '../../components/tap/use-record.ts';
 import { VerdictPanel } from '../../components/tap/verdict-panel.tsx';
+import { ServerBanner } from '../../components/tap/server-banner.tsx';
+import { useServerHealth } from '../../lib/server-health.ts';
 import { useCampaignContext } from './campaign-context.ts';
 import { ArmControl } from '../../components/tap/arm-control.tsx';
 
@@ -48,6 +50,7 @@ export function TapPage() {
   const entryParam = params.get('entry');
   const toast = useToast();
   const live = useLiveCampaign(campaignId);
+  const health = useServerHealth();
 
   const schedule = useSchedule(campaignId);
   const geometry = useGeometry(campaignId);
@@ -170,6 +173,7 @@ export function TapPage() {
 
   return (
     <div className="space-y-4" data-testid="tap-page" data-entry={entry.id}>
+      <ServerBanner waiting={record.waiting} health={health} onTryNow={record.tryNow} />
       <section className="flex flex-wrap items-start justify-between gap-4 rounded-lg border border-accent/40 bg-[var(--panel)] p-4">
         <DofHeader entry={entry} accepted={accepted} required={required} index={index} total={entries.length} />
         <div className="flex flex-col items-end gap-1">

@@ -27,6 +27,18 @@ afterAll(async () => {
   await app?.close();
 });
 
+describe('an entry without accepted hits', () => {
+  it('answers its FRF request with the state in words, not an error', async () => {
+    const entry = rig.entries.at(-1)!;
+    const res = await engineer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry.id}/frf`);
+    expect(res.status).toBe(200);
+    expect(res.body.status).toBe('no-accepted-hit');
+    expect(res.body.entry.id).toBe(entry.id);
+    expect(res.body.message).toBe(`No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.`);
+    expect(res.body.channels).toBeUndefined();
+  });
+});
+
 describe('stored results carry the version of the averaging code', () => {
   it('changes the input hash when only the algorithm version differs', () => {
     const hits = [{ id: 'a', version: 1 }, { id: 'b', version: 2 }];
@@ -64,6 +76,9 @@ describe('stored results carry the version of the averaging code', () => {
     await flushResultWrites(db);
     const [stored] = await db.select().from(frfResult).where(eq(frfResult.scheduleEntryId, entry.id));
     expect(stored!.averages).toBe(2);
+    const ready = await engineer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry.id}/frf`);
+    expect(ready.body.status).toBe('ready');
+    expect(ready.body.averages).toBe(2);
 
     // Make the row look as if older code had written it: the hash without the algorithm version
     // (the key as it was before the version was added) and a tell-tale average count.
