@@ -87,7 +87,23 @@ const matrix: Record<string, Access> = {
   'GET /shared/reports/:token': 'public',
   'GET /campaigns/:campaignId/backup': 'lead',
   'POST /campaigns/restore': 'user',
+  'GET /account/tokens': 'user',
+  'POST /account/tokens': 'user',
+  'DELETE /account/tokens/:tokenId': 'user',
+  'GET /tokens/current': 'user',
+  'GET /campaigns/:campaignId/arming': 'viewer',
+  'PUT /campaigns/:campaignId/arming': 'engineer',
+  'DELETE /campaigns/:campaignId/arming': 'engineer',
 };
+
+/** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */
+const tokenRoutes = new Set([
+  'GET /tokens/current',
+  'GET /campaigns/:campaignId/schedule',
+  'GET /campaigns/:campaignId/settings',
+  'GET /campaigns/:campaignId/arming',
+  'POST /campaigns/:campaignId/schedule/:entryId/hits',
+]);
 
 const rank = { viewer: 1, engineer: 2, lead: 3 } as const;
 type Caller = 'signed-out' | 'viewer' | 'engineer' | 'lead' | 'outsider' | 'admin';
@@ -95,6 +111,7 @@ type Caller = 'signed-out' | 'viewer' | 'engineer' | 'lead' | 'outsider' | 'admi
 let app: TestApp;
 let people: Record<Exclude<Caller, 'signed-out'>, Person>;
 let campaignId: string;
+let engineerToken: string;
 
 beforeAll(async () => {
   app = await startTestApp(API_TEMPLATE);
@@ -114,6 +131,7 @@ beforeAll(async () => {
   const adminRow = members.find((m) => m.email === 'admin@lab.test')!;
   await lead.agent.delete(`/api/campaigns/${campaignId}/members/${adminRow.userId}`).expect(204);
   people = { admin, lead, engineer, viewer, outsider };
+  engineerToken = (await engineer.agent.post('/api/account/tokens').send({ name: 'matrix', campaignId })).body.secret;
 });
 afterAll(async () => {
   await app?.close();
@@ -163,6 +181,28 @@ function expected(access: Access, caller: Caller): 'allowed' | 401 | 403 | 404 {
 }
 
 describe('authorization matrix', () => {
+  it('marks exactly the bridge’s routes as open to API tokens', () => {
+    expect(app.handle.routes.filter((r) => r.tokenAccess).map(key).sort()).toEqual([...tokenRoutes].sort());
+  });
+
+  it.each(Object.entries(matrix))('%s with an engineer’s API token', async (route, access) => {
+    const [method, path] = route.split(' ') as [string, string];
+    if (path.endsWith('/events')) return; // not a token route; the stream is covered below as a session caller
+    const url = `/api${concretePath(path)}`;
+    const req = (request(app.handle.app) as unknown as Record<string, (u: string) => request.Test>)[method.toLowerCase()]!(url).set('authorization', `Bearer ${engineerToken}`);
+    const res = await (method === 'GET' || method === 'DELETE' ? req : req.send({}));
+    const label = `${route} with a token → ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+    expect(res.status, label).toBeLessThan(500);
+    if (!tokenRoutes.has(route)) {
+      expect(res.status, label).toBe(403);
+      expect(res.body.error.code, label).toBe('token-not-allowed');
+    } else if (access === 'public' || access === 'user' || rank[access as keyof typeof rank] <= rank.engineer) {
+      expect([401, 403], label).not.toContain(res.status);
+    } else {
+      expect(res.status, label).toBe(403);
+    }
+  });
+
   it('has an entry for every route the API registers, and none for routes that do not exist', () => {
     const registered = app.handle.routes.map(key).sort();
     expect(registered).toEqual(Object.keys(matrix).sort());

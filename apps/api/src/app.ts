@@ -10,6 +10,7 @@ import type { Config } from './config.ts';
 import { createAuth, type Auth } from './auth.ts';
 import { authHandler } from './auth-handler.ts';
 import { resolveUser } from './context.ts';
+import { resolveApiToken, TokenFailureLimiter } from './http/api-token.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
 import { DatabaseStatus } from './db-health.ts';
 import { noStore, sameOriginWrites } from './http/same-origin.ts';
@@ -28,6 +29,8 @@ import { registerScheduleRoutes } from './routes/schedule.ts';
 import { registerSettingsRoutes } from './routes/settings.ts';
 import { registerSystemRoutes } from './routes/system.ts';
 import { registerHandoverRoutes } from './routes/handover.ts';
+import { registerTokenRoutes } from './routes/tokens.ts';
+import { registerArmingRoutes } from './routes/arming.ts';
 
 export interface AppHandle {
   app: Express;
@@ -103,14 +106,17 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerScheduleRoutes(deps);
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
-  registerHitRoutes(deps, new CampaignEvents());
+  const events = new CampaignEvents();
+  registerHitRoutes(deps, events);
+  registerTokenRoutes(deps);
+  registerArmingRoutes(deps, events);
   registerNoiseRoutes(deps);
   const fits = new FitQueue(database.db);
   await fits.recover();
   registerModeRoutes(deps, fits);
   registerHandoverRoutes(deps);
 
-  app.use('/api', resolveUser(auth));
+  app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
   app.use('/api', routes.router);
   app.use('/api', unknownApiRoute);
 

@@ -5,7 +5,7 @@ import { and, eq } from 'drizzle-orm';
 import { campaign, campaignMember, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { Auth } from './auth.ts';
-import { forbidden, notFound, unauthorized } from './errors.ts';
+import { forbidden, HttpError, notFound, unauthorized } from './errors.ts';
 
 export interface SessionUser {
   id: string;
@@ -32,6 +32,8 @@ declare global {
 
 export function resolveUser(auth: Auth): RequestHandler {
   return async (req, _res, next) => {
+    // A request that carried a personal API token was resolved by http/api-token.ts already.
+    if (req.apiToken) return next();
     try {
       const headers = new Headers();
       if (req.headers.cookie) headers.set('cookie', req.headers.cookie);
@@ -73,7 +75,11 @@ export function requireCampaignRole(db: Db, minimum: CampaignRole): RequestHandl
       const campaignId = String(req.params.campaignId ?? '');
       if (!uuidPattern.test(campaignId)) return next(notFound('That campaign'));
       let role: CampaignAccess['role'] | undefined;
-      if (req.user.role === 'admin') {
+      if (req.apiToken) {
+        // A token works in its own campaign only, with its role capped at the user's present role.
+        if (req.apiToken.campaignId !== campaignId) return next(new HttpError(403, 'token-wrong-campaign', `This API token ("${req.apiToken.name}") was made for another campaign; create one for this campaign on your Account page.`));
+        role = req.apiToken.role;
+      } else if (req.user.role === 'admin') {
         const [row] = await db.select({ id: campaign.id }).from(campaign).where(eq(campaign.id, campaignId));
         role = row ? 'admin' : undefined;
       } else {
@@ -84,6 +90,7 @@ export function requireCampaignRole(db: Db, minimum: CampaignRole): RequestHandl
         role = row?.role;
       }
       if (!role) return next(notFound('That campaign'));
+      if (rank[role] < rank[minimum] && req.apiToken) return next(forbidden(`This needs the ${minimum} role in the campaign; this API token acts as a ${role} (the lower of the token's role and your role there now).`));
       if (rank[role] < rank[minimum]) return next(forbidden(`This needs the ${minimum} role in the campaign; you are ${role === 'admin' ? 'admin' : `a ${role}`}.`));
       req.campaignAccess = { campaignId, role };
       next();

@@ -9,6 +9,7 @@ import { ToastProvider } from './lib/toast.tsx';
 import { AppShell } from './layout/app-shell.tsx';
 import { CampaignsPage } from './pages/campaigns-page.tsx';
 import { AdminMailPage } from './pages/admin-mail-page.tsx';
+import { AccountPage } from './pages/account-page.tsx';
 import { NotFoundPage } from './pages/not-found-page.tsx';
 import { SignInPage } from './pages/auth/sign-in-page.tsx';
 import { SignUpPage } from './pages/auth/sign-up-page.tsx';
@@ -61,6 +62,7 @@ const router = createBrowserRouter([
         ],
       },
       { path: '/admin/mail', element: <AdminMailPage /> },
+      { path: '/account', element: <AccountPage /> },
       { path: '*', element: <NotFoundPage /> },
     ],
   },

@@ -8,3 +8,4 @@ export * from './kit.ts';
 export * from './settings.ts';
 export * from './noise.ts';
 export * from './axis.ts';
+export * from './bridge.ts';

@@ -1,6 +1,7 @@
 // Acquisition settings of a campaign. Versioned: every change makes a new version, and hits
 // record the version they were taken under. Units are in the field names.
 import { z } from 'zod';
+import { fileNamePatternProblem } from './bridge.ts';
 
 const positive = (what: string) => z.number({ error: `${what} must be a number` }).finite().positive(`${what} must be > 0`);
 
@@ -42,6 +43,10 @@ export const acquisitionSettingsSchema = z
     minPeakN: z.number().finite().min(0).default(20),
     forceRangeN: positive('the force input range (N)'),
     responseRangeMs2: positive('the response input range (m/s²)'),
+    /** Uploads at another sample rate are resampled to sampleRateHz (polyphase, anti-aliased) instead of refused. */
+    resampleUploads: z.boolean().default(false),
+    /** File names the watched-folder bridge reads the DOF from, e.g. `{response}_{excitation}_*.wav`; empty: the armed DOF. */
+    bridgeFilePattern: z.string().trim().max(200).default('').refine((p) => p === '' || fileNamePatternProblem(p) === null, { message: 'the file name pattern needs {response} or {excitation} (or both), each at most once' }),
   })
   .superRefine((s, ctx) => {
     const nyquist = s.sampleRateHz / 2;
@@ -77,6 +82,8 @@ export const defaultAcquisitionSettings: AcquisitionSettings = {
   minPeakN: 20,
   forceRangeN: 2000,
   responseRangeMs2: 500,
+  resampleUploads: false,
+  bridgeFilePattern: '',
 };
 
 export const settingsUpdateSchema = z.strictObject({

@@ -30,3 +30,4 @@ export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
 export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
+export { resamplePoly, resampleRatio, resampleFilter, type ResampleRatio } from './resample.ts';

@@ -14,7 +14,7 @@ import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -50,6 +50,7 @@ const TABLES: TableSpec[] = [
   { name: 'schedule_entry', table: scheduleEntry, userCols: ['assigneeId'], hasUuidId: true },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true },
   { name: 'noise_check', table: noiseCheck, userCols: ['recordedBy'], hasUuidId: true, addedLater: true },
+  { name: 'original_recording', table: originalRecording, userCols: ['storedBy'], hasUuidId: true, addedLater: true },
   { name: 'frf_result', table: frfResult, userCols: [], hasUuidId: true },
   { name: 'modal_fit', table: modalFit, userCols: ['createdBy'], hasUuidId: true },
   // The campaign's mode table; a backup from before it existed restores with an empty table.
@@ -105,6 +106,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         schedule_entry: await byCampaign(scheduleEntry as never, asc(scheduleEntry.position)),
         hit: await byCampaign(hit as never, asc(hit.recordedAt)),
         noise_check: await byCampaign(noiseCheck as never, asc(noiseCheck.recordedAt)),
+        original_recording: await byCampaign(originalRecording as never, asc(originalRecording.storedAt)),
         frf_result: await byCampaign(frfResult as never),
         modal_fit: await byCampaign(modalFit as never, asc(modalFit.createdAt)),
         mode_table: await byCampaign(modeTable as never),
@@ -156,7 +158,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
     campaign: { id: snapshot.c.id, name: snapshot.c.name },
     counts,
     samples,
-    notes: 'Tables are JSON arrays of rows with column names as in the Resonote schema; timestamps ISO 8601 UTC; frf_result.data base64 (float64 LE); noise_check.samples base64 (float32 LE, channel after channel, force first, engineering units). samples/<hitId>.f32: the hit samples as stored (float32 LE, channel after channel, force first, engineering units). Invitations and sessions are not included.',
+    notes: 'Tables are JSON arrays of rows with column names as in the Resonote schema; timestamps ISO 8601 UTC; frf_result.data base64 (float64 LE); noise_check.samples base64 (float32 LE, channel after channel, force first, engineering units); original_recording.bytes base64 (an uploaded file as made, kept when it was resampled). samples/<hitId>.f32: the hit samples as stored (float32 LE, channel after channel, force first, engineering units). Invitations and sessions are not included.',
   };
   files['manifest.json'] = strToU8(JSON.stringify(manifest, null, 2));
   const safeName = snapshot.c.name.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'campaign';

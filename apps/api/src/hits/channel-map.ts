@@ -5,7 +5,7 @@ import { desc, eq, inArray } from 'drizzle-orm';
 import { calibrationRecord, channel, kitItem } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { badRequest, HttpError } from '../errors.ts';
-import { decodeRecording, RecordingError } from './recording.ts';
+import { decodeRecording, RecordingError, type DecodedRecording } from './recording.ts';
 
 export interface ChannelSnapshot {
   channel: number;
@@ -104,19 +104,27 @@ const fmtValue = (v: number) => (Number.isFinite(v) ? Number(v.toPrecision(4)).t
  * is refused with a 400 that says what was wrong (channel, sample, value) and that nothing was stored.
  */
 export function uploadInEngineeringUnits(file: { originalname: string; mimetype: string; buffer: Buffer }, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number, ranges: ChannelRanges): Float64Array[] {
-  let decoded;
+  return decodedInEngineeringUnits(decodeUpload(file), map, reading, settingsRateHz, ranges);
+}
+
+/** Decodes an uploaded file; a malformed one is a 400 that says nothing was stored. */
+export function decodeUpload(file: { originalname: string; mimetype: string; buffer: Buffer }): DecodedRecording {
   try {
-    decoded = decodeRecording(file.originalname, file.mimetype, file.buffer);
+    return decodeRecording(file.originalname, file.mimetype, file.buffer);
   } catch (err) {
     if (err instanceof RecordingError) throw new HttpError(400, 'bad-recording', `${err.message} Nothing was stored.`);
     throw err;
   }
+}
+
+/** The checks and unit conversion of uploadInEngineeringUnits on a recording already decoded (and perhaps resampled). */
+export function decodedInEngineeringUnits(decoded: DecodedRecording, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number, ranges: ChannelRanges): Float64Array[] {
   if (decoded.channels.length !== map.length) {
     throw badRequest(`The file has ${decoded.channels.length} channel${decoded.channels.length === 1 ? '' : 's'}; the channel map has ${map.length} (${map.map((c) => `ch${c.channel} ${c.role === 'force' ? 'hammer' : c.dof}`).join(', ')}). Nothing was stored.`);
   }
   const fs = decoded.sampleRateHz ?? reading.sampleRateHz ?? null;
   if (fs === null) throw badRequest('Unknown sample rate: the file has no time column or header rate; send the field sampleRateHz. Nothing was stored.');
-  if (Math.abs(fs - settingsRateHz) > 1e-3 * settingsRateHz) throw badRequest(`The recording is sampled at ${+fs.toFixed(3)} Hz but the campaign's settings ask for ${settingsRateHz} Hz. Nothing was stored.`);
+  if (Math.abs(fs - settingsRateHz) > 1e-3 * settingsRateHz) throw badRequest(`The recording is sampled at ${+fs.toFixed(3)} Hz but the campaign's settings ask for ${settingsRateHz} Hz. Nothing was stored (a lead can allow resampling of uploads in the acquisition settings).`);
   const scale = decoded.fractionOfFullScale ? reading.fullScaleVolts : 1;
   return decoded.channels.map((ch, i) => {
     const c = map[i]!;

@@ -3,7 +3,7 @@
 import { EventEmitter } from 'node:events';
 
 export interface CampaignEvent {
-  type: 'hit' | 'verdict' | 'schedule';
+  type: 'hit' | 'verdict' | 'schedule' | 'arming';
   entryId?: string;
   at: string;
 }

@@ -34,6 +34,8 @@ export interface RouteSpec<B = unknown, Q = unknown> {
   query?: ZodType<Q>;
   /** Larger JSON bodies (geometry import). */
   bodyLimit?: string;
+  /** Personal API tokens (`Authorization: Bearer rn_…`) may call this route; every other route refuses them. */
+  tokenAccess?: boolean;
   /** Extra middleware before validation (multer for uploads). */
   before?: RequestHandler[];
   /** Status of a successful answer (default 200). */
@@ -51,12 +53,18 @@ export interface RegisteredRoute {
   summary: string;
   tag: string;
   access: Access;
+  tokenAccess: boolean;
   body?: ZodType;
   query?: ZodType;
   status: number;
   returns?: string;
   produces?: string;
 }
+
+/** Tokens reach only the routes the bridge needs; the rest of the API wants a signed-in session. */
+const refuseApiToken: RequestHandler = (req, _res, next) => {
+  next(req.apiToken ? new HttpError(403, 'token-not-allowed', 'API tokens cannot be used for this request; sign in on the web app for it.') : undefined);
+};
 
 export class ApiRoutes {
   readonly router = Router();
@@ -69,6 +77,7 @@ export class ApiRoutes {
 
   add<B = undefined, Q = Record<string, never>>(spec: RouteSpec<B, Q>): void {
     const guards: RequestHandler[] = [];
+    if (!spec.tokenAccess) guards.push(refuseApiToken);
     if (spec.access === 'user') guards.push(requireUser);
     else if (spec.access === 'admin') guards.push(requireAdmin);
     else if (spec.access !== 'public') {
@@ -118,6 +127,7 @@ export class ApiRoutes {
       summary: spec.summary,
       tag: spec.tag,
       access: spec.access,
+      tokenAccess: spec.tokenAccess ?? false,
       body: spec.body as ZodType | undefined,
       query: spec.query as ZodType | undefined,
       status: spec.status ?? 200,

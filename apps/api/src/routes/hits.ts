@@ -12,7 +12,7 @@ import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
-import { channelMapFor, storageOrder, uploadInEngineeringUnits, type ChannelSnapshot } from '../hits/channel-map.ts';
+import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/channel-map.ts';
 import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
@@ -38,6 +38,7 @@ import {
 } from '../hits/processing.ts';
 import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
+import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
 import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
@@ -211,6 +212,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     access: 'engineer',
     summary:
       'Upload a recording (multipart field "file": CSV with optional time column, WAV 16/24/32-bit PCM or 32/64-bit float, also extensible, or JSON { sampleRateHz, channels }) for a schedule entry. Columns/channels in channel-number order. Fields: units = volts | engineering (default volts), sampleRateHz (when the file has none), fullScaleVolts (PCM WAV), kind. Header Idempotency-Key required. Several hits in one file are split by the trigger',
+    tokenAccess: true,
     before: [upload],
     status: 201,
     returns: '{ replayed, hits: [{ id, sequence, verdict, reasons, metrics }], skipped, entry: { status, acceptedHits }, frf, next }',
@@ -220,12 +222,15 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
-      const eu = uploadInEngineeringUnits(file, map, fields, s.sampleRateHz, s);
+      const { channels: eu, resampled } = uploadAtCampaignRate(file, map, fields, s);
       const { kind: _kind, idempotencyKey: _key, ...storing } = fields;
       const hash = requestSha256('hits:upload', storing, file.buffer);
-      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: `upload:${file.originalname.slice(0, 100)}`, key, requestSha256: hash, userId: me.id, map, settings, kind: fields.kind });
+      // The file as made is kept before its hits are stored, so no hit exists without it.
+      const originalId = resampled ? await keepOriginal(db, { campaignId: access.campaignId, key, file, note: resampled, userId: me.id }) : null;
+      const { replayed, stored, skipped } = await intake({ campaignId: access.campaignId, entry, fileChannels: eu, fs: s.sampleRateHz, source: resampledSource(file.originalname, resampled), key, requestSha256: hash, userId: me.id, map, settings, kind: fields.kind });
       if (replayed) res.locals.status = 200;
-      return answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
+      const answered = await answer(access.campaignId, entry, stored, replayed, skipped, settings, fields.kind, 'hit');
+      return resampled ? { ...answered, resampled: { ...resampled, originalRecordingId: originalId }, frf: answered.frf && { ...answered.frf, resampledFromHz: resampled.fromHz } } : answered;
     },
   });
 

@@ -22,6 +22,7 @@ export function registerScheduleRoutes({ routes, db }: Deps): void {
     path: '/campaigns/:campaignId/schedule',
     tag: 'Schedule',
     access: 'viewer',
+    tokenAccess: true,
     summary: 'The schedule in working order: each entry is H(response DOF, excitation DOF) with status, hits and assignee',
     handler: async ({ campaign: access }) => ({ entries: await listSchedule(access.campaignId) }),
   });

@@ -76,6 +76,7 @@ export function registerSettingsRoutes({ routes, db }: Deps): void {
     path: '/campaigns/:campaignId/settings',
     tag: 'Settings',
     access: 'viewer',
+    tokenAccess: true,
     summary: 'Current acquisition settings, their version history with the fields each version changed, and the defaults',
     returns:
       '{ current: { version, settings, reason, createdAt, createdBy }, history: [{ version, createdAt, createdBy, reason, changes: [{ field, before, after }] }] newest first, defaults }; version 0 means the defaults, never saved',

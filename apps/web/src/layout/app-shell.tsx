@@ -55,11 +55,14 @@ export function AppShell() {
               {theme === 'light' ? '☾ Dark' : '☀ Light'}
             </Button>
             <div className="hidden text-right leading-tight sm:block">
-              <div className="text-sm font-medium" data-testid="user-name">
+              <NavLink to="/account" className="text-sm font-medium hover:underline" data-testid="user-name" title="Your account and API tokens">
                 {user.name}
-              </div>
+              </NavLink>
               <div className="text-xs text-[var(--muted)]">{user.role === 'admin' ? 'Instance admin' : user.email}</div>
             </div>
+            <NavLink to="/account" className={(a) => `${navClass(a)} sm:hidden`}>
+              Account
+            </NavLink>
             <Button
               variant="secondary"
               onClick={async () => {

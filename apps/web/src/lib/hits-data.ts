@@ -170,7 +170,7 @@ export async function fetchOverlay(path: string): Promise<OverlayAnswer & { rece
 }
 
 /** Everything a hit or a verdict can change, for one campaign. */
-const liveParts = new Set(['schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress', 'noise-checks']);
+const liveParts = new Set(['arming', 'schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress', 'noise-checks']);
 export function invalidateTestData(client: QueryClient, campaignId: string) {
   return client.invalidateQueries({ predicate: (q) => q.queryKey[0] === 'campaign' && q.queryKey[1] === campaignId && liveParts.has(String(q.queryKey[2])) });
 }

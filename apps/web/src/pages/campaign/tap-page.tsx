@@ -23,6 +23,7 @@ import { VerdictPanel } from '../../components/tap/verdict-panel.tsx';
 import { ServerBanner } from '../../components/tap/server-banner.tsx';
 import { useServerHealth } from '../../lib/server-health.ts';
 import { useCampaignContext } from './campaign-context.ts';
+import { ArmControl } from '../../components/tap/arm-control.tsx';
 
 const OPEN: ScheduleStatus[] = ['planned', 'in-progress'];
 const FRF_DISPLAY = { view: 'magphase', kind: 'accelerance', db: true, logF: false } as const;
@@ -205,6 +206,9 @@ export function TapPage() {
           ) : (
             <Notice tone="info">You are a viewer on this campaign: you see the hits and results as they come in, but you do not record or judge hits.</Notice>
           )}
+          <Panel title="Armed DOF (watched-folder bridge)">
+            <ArmControl campaignId={campaignId} entryId={entry.id} label={`${entry.excitationDof} → ${entry.responseDof}`} canAct={canAct} />
+          </Panel>
           <Panel title="Verdict">
             {hits.isPending ? <Spinner label="Loading the hits…" /> : hits.isError ? <Notice tone="error">The hits could not be loaded: {hits.error.message}</Notice> : <VerdictPanel hit={selected} canAct={canAct} busy={record.busy !== null} onOverride={(v, note) => selected && void record.override(selected, v, note)} />}
           </Panel>

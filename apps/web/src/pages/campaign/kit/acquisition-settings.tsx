@@ -119,6 +119,9 @@ function SettingsSummary({ settings }: { settings: AcquisitionSettings }) {
       <p className="text-sm">
         Exponential window: <span className="num">{ew.mode === 'none' ? 'none' : ew.mode === 'tau' ? `τ = ${ew.tauS} s` : `${ew.endLevelPercent} % at the record end`}</span> · Estimator: <span className="num">{settings.estimator}</span>
       </p>
+      <p className="text-sm">
+        Files at another sample rate: {settings.resampleUploads ? 'resampled' : 'refused'} · Bridge file names: <span className="num">{settings.bridgeFilePattern || 'armed DOF (no pattern)'}</span>
+      </p>
       <Derived s={settings} />
     </div>
   );
@@ -136,6 +139,8 @@ function SettingsForm({ campaignId, data }: { campaignId: string; data: Settings
     out.tauS = ew.mode === 'tau' ? String(ew.tauS) : '0.3';
     out.endLevelPercent = ew.mode === 'end-level' ? String(ew.endLevelPercent) : '1';
     out.estimator = data.current.settings.estimator;
+    out.resampleUploads = String(data.current.settings.resampleUploads ?? false);
+    out.bridgeFilePattern = data.current.settings.bridgeFilePattern ?? '';
     return out;
   }, [data]);
   const [values, setValues] = useState(initial);
@@ -147,6 +152,8 @@ function SettingsForm({ campaignId, data }: { campaignId: string; data: Settings
     const s: Record<string, unknown> = {};
     for (const g of groups) for (const f of g.fields) set(s, f.path, numberOrUndefined(values[f.path] ?? ''));
     s.estimator = values.estimator;
+    s.resampleUploads = values.resampleUploads === 'true';
+    s.bridgeFilePattern = values.bridgeFilePattern ?? '';
     s.exponentialWindow =
       values.ewMode === 'none' ? { mode: 'none' } : values.ewMode === 'tau' ? { mode: 'tau', tauS: numberOrUndefined(values.tauS ?? '') } : { mode: 'end-level', endLevelPercent: numberOrUndefined(values.endLevelPercent ?? '') };
     return s;
@@ -217,6 +224,22 @@ function SettingsForm({ campaignId, data }: { campaignId: string; data: Settings
           </div>
         </fieldset>
       ))}
+      <fieldset>
+        <legend className="mb-2 text-xs font-semibold text-[var(--muted)] uppercase">Files from other acquisition programs</legend>
+        <div className="grid gap-3 sm:grid-cols-2">
+          <Select
+            id="set-resample"
+            label="A file at another sample rate"
+            options={[
+              ['false', 'is refused'],
+              ['true', 'is resampled to the rate above (polyphase, anti-aliased)'],
+            ]}
+            hint="Resampled uploads keep the file as made beside the hits, and their FRF says it was resampled."
+            {...bind('resampleUploads')}
+          />
+          <Field id="set-pattern" label="File name pattern for the bridge" placeholder="{response}_{excitation}_*.wav" hint="Names the DOF in each file, e.g. P07+Z_P01+Z_003.wav. Empty: files go to the DOF the engineer has armed on Tap." error={errors.bridgeFilePattern} {...bind('bridgeFilePattern')} />
+        </div>
+      </fieldset>
       <Derived s={{ sampleRateHz: Number(values.sampleRateHz), recordLengthS: Number(values.recordLengthS) }} />
       <div className="grid items-end gap-3 sm:grid-cols-[1fr_auto]">
         <Field id="set-reason" label="Reason for the change" placeholder="e.g. band raised to 3 kHz for the second bending mode" value={reason} onChange={(e) => setReason(e.target.value)} hint="Kept in the history with the version." />
@@ -240,6 +263,8 @@ function flatDefaults(d: AcquisitionSettings): Record<string, string> {
   if (d.exponentialWindow.mode === 'end-level') out.endLevelPercent = String(d.exponentialWindow.endLevelPercent);
   if (d.exponentialWindow.mode === 'tau') out.tauS = String(d.exponentialWindow.tauS);
   out.estimator = d.estimator;
+  out.resampleUploads = String(d.resampleUploads);
+  out.bridgeFilePattern = d.bridgeFilePattern;
   return out;
 }
 
