@@ -82,6 +82,9 @@ const matrix: Record<string, Access> = {
   'GET /shared/reports/:token': 'public',
   'GET /campaigns/:campaignId/backup': 'lead',
   'POST /campaigns/restore': 'user',
+  'POST /campaigns/:campaignId/jobs': 'lead',
+  'GET /campaigns/:campaignId/jobs/:jobId': 'lead',
+  'GET /campaigns/:campaignId/jobs/:jobId/file': 'lead',
 };
 
 const rank = { viewer: 1, engineer: 2, lead: 3 } as const;
