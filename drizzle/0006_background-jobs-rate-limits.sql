@@ -21,6 +21,14 @@ CREATE TABLE "background_job" (
 	"elapsed_ms" integer
 );
 --> statement-breakpoint
+CREATE TABLE "job_lease" (
+	"queue_job_id" uuid PRIMARY KEY NOT NULL,
+	"queue" text NOT NULL,
+	"job_id" uuid NOT NULL,
+	"worker" text NOT NULL,
+	"lease_until" timestamp with time zone NOT NULL
+);
+--> statement-breakpoint
 CREATE TABLE "rate_limit_window" (
 	"key" text PRIMARY KEY NOT NULL,
 	"window_start" timestamp with time zone NOT NULL,

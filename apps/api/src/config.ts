@@ -25,7 +25,8 @@ const envSchema = z.object({
   LOG_REQUESTS: bool.default(true),
   WEB_DIST: z.string().optional(),
   JOBS_IN_PROCESS: bool.default(true),
-  JOB_LEASE_S: z.coerce.number().int().min(2).max(3600).default(900),
+  JOB_LEASE_S: z.coerce.number().min(1).max(600).default(30),
+  JOB_MAX_RUNTIME_S: z.coerce.number().int().min(10).max(86_400).default(3600),
   JOB_POLL_S: z.coerce.number().min(0.5).max(60).default(1),
   JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
   REPROCESS_CHUNK: z.coerce.number().int().min(1).max(500).default(10),
@@ -52,10 +53,11 @@ export interface Config {
   /**
    * Background jobs (pg-boss): whether the API process also works jobs (true for a single-process
    * run and the tests; false for API replicas with `npm run worker` processes beside them), the
-   * lease a worker holds on a job before another may take it over, how often idle workers poll,
-   * how often a job is retried, and how many DOFs one part of a campaign reprocess holds.
+   * lease a worker renews on the job it works (another takes it over once it runs out), the longest
+   * one attempt may run, how often idle workers poll, how often a job is retried, and how many
+   * DOFs one part of a campaign reprocess holds.
    */
-  jobs: { inProcess: boolean; leaseS: number; pollS: number; retryLimit: number; reprocessChunk: number };
+  jobs: { inProcess: boolean; leaseS: number; maxRuntimeS: number; pollS: number; retryLimit: number; reprocessChunk: number };
 }
 
 /** A fixed secret for local runs only; production must set AUTH_SECRET (checked below). */
@@ -89,6 +91,6 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
     exportJsonRawMaxValues: e.EXPORT_JSON_RAW_MAX_VALUES,
     logRequests: e.LOG_REQUESTS,
     webDist: e.WEB_DIST,
-    jobs: { inProcess: e.JOBS_IN_PROCESS, leaseS: e.JOB_LEASE_S, pollS: e.JOB_POLL_S, retryLimit: e.JOB_RETRY_LIMIT, reprocessChunk: e.REPROCESS_CHUNK },
+    jobs: { inProcess: e.JOBS_IN_PROCESS, leaseS: e.JOB_LEASE_S, maxRuntimeS: e.JOB_MAX_RUNTIME_S, pollS: e.JOB_POLL_S, retryLimit: e.JOB_RETRY_LIMIT, reprocessChunk: e.REPROCESS_CHUNK },
   };
 }

@@ -33,7 +33,7 @@ const events = new CampaignEvents(database.pool);
 const jobs = new Jobs(database.db, config);
 registerJobHandlers(jobs, database.db, config, events);
 await jobs.start({ work: true });
-console.log(`[resonote worker] ${jobs.worker} working jobs (lease ${config.jobs.leaseS} s, poll ${config.jobs.pollS} s)`);
+console.log(`[resonote worker] ${jobs.worker} working jobs (lease ${config.jobs.leaseS} s renewed every third of it, poll ${config.jobs.pollS} s)`);
 
 let closing = false;
 async function shutdown(signal: string) {

@@ -1,13 +1,14 @@
 // Background jobs in PostgreSQL (pg-boss, its own `pgboss` schema): the API sends, worker
 // processes (`npm run worker`, any number; or the API itself when JOBS_IN_PROCESS is on) claim a
-// job with a lease (pg-boss `expireInSeconds`), and a job whose worker died is failed by the
-// queue's maintenance once its lease runs out and retried by another worker. What people see —
+// job and hold a lease on it (job_lease, renewed by a heartbeat every third of JOB_LEASE_S). A
+// lease that runs out means its worker died: any other worker hands the job back to pg-boss
+// (`fail`), which retries it. pg-boss's own expiration (JOB_MAX_RUNTIME_S) caps one attempt. What people see —
 // status, progress, the product — is the background_job row (or modal_fit for fits), written by
 // the worker as it goes. See docs/decisions/0007-job-queue-pg-boss.md.
 import { hostname } from 'node:os';
 import PgBoss from 'pg-boss';
 import { eq, sql } from 'drizzle-orm';
-import { backgroundJob, modalFit } from '@resonote/db/schema';
+import { backgroundJob, jobLease, modalFit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { Config } from '../config.ts';
 
@@ -41,6 +42,7 @@ export class Jobs {
   private boss: PgBoss | null = null;
   private readonly handlers = new Map<QueueName, JobHandler>();
   private working = false;
+  private reaper: ReturnType<typeof setInterval> | null = null;
   readonly worker = `${hostname()}:${process.pid}`;
 
   constructor(
@@ -60,23 +62,21 @@ export class Jobs {
    * over when its lease expires.
    */
   async start({ work }: { work: boolean }): Promise<void> {
-    const { leaseS, pollS, retryLimit } = this.config.jobs;
+    const { leaseS, pollS, retryLimit, maxRuntimeS } = this.config.jobs;
     const boss = new PgBoss({
       connectionString: this.config.databaseUrl,
       application_name: 'resonote-jobs',
       max: work ? 4 : 2,
       schedule: false,
       supervise: true,
-      // Expired leases are found by maintenance: run it often enough that a dead worker's job
-      // waits little more than its lease.
-      maintenanceIntervalSeconds: Math.max(1, Math.min(30, Math.floor(leaseS / 2))),
+      maintenanceIntervalSeconds: 60,
     });
     boss.on('error', (err: Error) => this.log(`[resonote] job queue: ${err.message}`));
     await boss.start();
     this.boss = boss;
     await boss.createQueue(GAVE_UP, { name: GAVE_UP, retryLimit: 0, expireInSeconds: 60 });
     for (const name of QUEUES) {
-      const options = { name, retryLimit, retryDelay: 1, expireInSeconds: leaseS, deadLetter: GAVE_UP };
+      const options = { name, retryLimit, retryDelay: 1, expireInSeconds: maxRuntimeS, deadLetter: GAVE_UP };
       await boss.createQueue(name, options);
       await boss.updateQueue(name, options);
     }
@@ -87,6 +87,7 @@ export class Jobs {
       if (!handler) continue;
       await boss.work<JobData>(name, { pollingIntervalSeconds: pollS, batchSize: 1, includeMetadata: true }, async ([job]) => {
         if (!job) return;
+        const heartbeat = await this.holdLease(name, job.id, job.data.jobId);
         try {
           await handler({ data: job.data, retryCount: job.retryCount, retryLimit: job.retryLimit, worker: this.worker });
         } catch (err) {
@@ -97,12 +98,56 @@ export class Jobs {
           const last = job.retryCount >= job.retryLimit;
           this.log(`[resonote] job ${name} ${job.data.jobId} part ${job.data.part} failed on attempt ${job.retryCount + 1}${last ? ' (the last)' : '; it will be retried'}: ${(err as Error).message}`);
           throw err;
+        } finally {
+          await heartbeat.release();
         }
       });
     }
+    const every = Math.max(1, leaseS / 2) * 1000;
+    this.reaper = setInterval(() => void this.reclaimExpired().catch((err: Error) => this.log(`[resonote] job leases: ${err.message}`)), every);
+    this.reaper.unref();
     await boss.work<JobData>(GAVE_UP, { pollingIntervalSeconds: pollS, batchSize: 1, includeMetadata: true }, async ([job]) => {
       if (job) await this.markFailed(job.data.jobId, `gave up after ${retryLimit + 1} attempts (a worker failed or stopped each time); start it again`);
     });
+  }
+
+  /** Takes the lease on a claimed job and renews it until released. */
+  private async holdLease(queue: string, queueJobId: string, jobId: string) {
+    const { leaseS } = this.config.jobs;
+    const until = sql`now() + make_interval(secs => ${leaseS})`;
+    await this.db
+      .insert(jobLease)
+      .values({ queueJobId, queue, jobId, worker: this.worker, leaseUntil: until })
+      .onConflictDoUpdate({ target: jobLease.queueJobId, set: { worker: this.worker, leaseUntil: until } });
+    const timer = setInterval(() => {
+      void this.db
+        .update(jobLease)
+        .set({ leaseUntil: until })
+        .where(eq(jobLease.queueJobId, queueJobId))
+        .catch((err: Error) => this.log(`[resonote] renewing the lease of job ${jobId}: ${err.message}`));
+    }, Math.max(300, (leaseS * 1000) / 3));
+    timer.unref();
+    return {
+      release: async () => {
+        clearInterval(timer);
+        await this.db.delete(jobLease).where(eq(jobLease.queueJobId, queueJobId)).catch(() => undefined);
+      },
+    };
+  }
+
+  /**
+   * Hands the jobs of dead workers (leases not renewed in time) back to the queue. DELETE …
+   * RETURNING makes each lease reclaimed by exactly one worker.
+   */
+  async reclaimExpired(): Promise<number> {
+    const boss = this.boss;
+    if (!boss) return 0;
+    const expired = await this.db.delete(jobLease).where(sql`${jobLease.leaseUntil} < now()`).returning();
+    for (const lease of expired) {
+      this.log(`[resonote] job ${lease.queue} ${lease.jobId}: the lease of ${lease.worker} ran out; handing it to another worker`);
+      await boss.fail(lease.queue, lease.queueJobId, { message: `the worker ${lease.worker} stopped renewing its lease` });
+    }
+    return expired.length;
   }
 
   get isWorking(): boolean {
@@ -135,6 +180,8 @@ export class Jobs {
     const boss = this.boss;
     this.boss = null;
     this.working = false;
+    if (this.reaper) clearInterval(this.reaper);
+    this.reaper = null;
     if (!boss) return;
     await boss.stop({ graceful: true, wait: true, timeout: timeoutMs });
   }

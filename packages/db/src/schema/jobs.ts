@@ -55,3 +55,17 @@ export const rateLimitWindow = pgTable('rate_limit_window', {
   windowStart: timestamp('window_start', { withTimezone: true }).notNull(),
   count: integer('count').notNull(),
 });
+
+/**
+ * The lease a worker holds on a queue job while it works it, renewed by a heartbeat. A lease that
+ * runs out means the worker died: any other worker removes the row and hands the job back to the
+ * queue for a retry (apps/api/src/jobs/queue.ts).
+ */
+export const jobLease = pgTable('job_lease', {
+  /** pg-boss's id of the job. */
+  queueJobId: uuid('queue_job_id').primaryKey(),
+  queue: text('queue').notNull(),
+  jobId: uuid('job_id').notNull(),
+  worker: text('worker').notNull(),
+  leaseUntil: timestamp('lease_until', { withTimezone: true }).notNull(),
+});
