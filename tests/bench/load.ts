@@ -36,6 +36,7 @@ interface Outcome {
   errors: number;
   errorSamples: string[];
   late: number;
+  notSent: number;
   wallS: number;
 }
 
@@ -49,7 +50,7 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
   }
   const clients = [];
   for (let i = 0; i < engineers; i++) clients.push(await signedInClient(baseUrl, baseUrl, BENCH_LEAD.email, BENCH_LEAD.password));
-  const out: Outcome = { label, latencies: [], errors: 0, errorSamples: [], late: 0, wallS: 0 };
+  const out: Outcome = { label, latencies: [], errors: 0, errorSamples: [], late: 0, notSent: 0, wallS: 0 };
   console.log(`[${label}] ${engineers} engineers × 1 hit/s for ${seconds} s…`);
   const t0 = performance.now() + 500;
   await Promise.all(
@@ -57,6 +58,11 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
       const mine = slots.slice(e * dofsPerEngineer, (e + 1) * dofsPerEngineer);
       const offset = (1000 * e) / engineers;
       for (let k = 0; k < seconds; k++) {
+        // The run lasts `seconds`: a tick an engineer cannot reach in time is not sent (counted).
+        if (performance.now() > t0 + seconds * 1000) {
+          out.notSent += seconds - k;
+          break;
+        }
         const due = t0 + offset + k * 1000;
         const wait = due - performance.now();
         if (wait > 0) await new Promise((r) => setTimeout(r, wait));
@@ -94,7 +100,7 @@ async function startSingle(databaseUrl: string, apiPort: number) {
 const q = (sorted: number[], p: number) => (sorted.length ? sorted[Math.min(sorted.length - 1, Math.floor(p * sorted.length))]! : NaN);
 function row(o: Outcome) {
   const s = [...o.latencies].sort((a, b) => a - b);
-  return `${o.label.padEnd(34)} ${String(o.latencies.length).padStart(6)} ${String(o.errors).padStart(6)} ${q(s, 0.5).toFixed(1).padStart(8)} ${q(s, 0.95).toFixed(1).padStart(8)} ${q(s, 0.99).toFixed(1).padStart(8)} ${(s.at(-1) ?? NaN).toFixed(1).padStart(8)} ${(o.latencies.length / o.wallS).toFixed(1).padStart(7)} ${String(o.late).padStart(5)}`;
+  return `${o.label.padEnd(34)} ${String(o.latencies.length).padStart(6)} ${String(o.errors).padStart(6)} ${q(s, 0.5).toFixed(1).padStart(8)} ${q(s, 0.95).toFixed(1).padStart(8)} ${q(s, 0.99).toFixed(1).padStart(8)} ${(s.at(-1) ?? NaN).toFixed(1).padStart(8)} ${(o.latencies.length / o.wallS).toFixed(1).padStart(7)} ${String(o.late).padStart(5)} ${String(o.notSent).padStart(8)}`;
 }
 
 const results: Outcome[] = [];
@@ -115,8 +121,8 @@ const results: Outcome[] = [];
   }
 }
 console.log(`\nhit → averaged FRF (upload of 4 × ${n} samples answered with the updated average), ${engineers} engineers × 1 hit/s × ${seconds} s, loopback; goal p99 ≤ 300 ms, 0 errors`);
-console.log(`${'setup'.padEnd(34)} ${'hits'.padStart(6)} ${'errors'.padStart(6)} ${'p50 ms'.padStart(8)} ${'p95 ms'.padStart(8)} ${'p99 ms'.padStart(8)} ${'max ms'.padStart(8)} ${'hits/s'.padStart(7)} ${'late'.padStart(5)}`);
+console.log(`${'setup'.padEnd(34)} ${'hits'.padStart(6)} ${'errors'.padStart(6)} ${'p50 ms'.padStart(8)} ${'p95 ms'.padStart(8)} ${'p99 ms'.padStart(8)} ${'max ms'.padStart(8)} ${'hits/s'.padStart(7)} ${'late'.padStart(5)} ${'not sent'.padStart(8)}`);
 for (const r of results) console.log(row(r));
 for (const r of results) if (r.errorSamples.length) console.log(`${r.label} errors, first ones: ${r.errorSamples.join(' | ')}`);
 const os = await import('node:os');
-console.log(`(machine: ${os.cpus().length} cores, shared with other work — load average now ${os.loadavg().map((x) => x.toFixed(1)).join(' / ')} over 1 / 5 / 15 min; "late": ticks an engineer could not keep because the previous answer had not come back)`);
+console.log(`(machine: ${os.cpus().length} cores, shared with other work — load average now ${os.loadavg().map((x) => x.toFixed(1)).join(' / ')} over 1 / 5 / 15 min; "late": ticks an engineer could not keep because the previous answer had not come back; "not sent": ticks left when the time was up)`);
