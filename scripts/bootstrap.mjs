@@ -207,6 +207,17 @@ export function ensureDatabase(port, database) {
   }
 }
 
+/** Debian's nginx (the load balancer of `npm run start:cluster`); installed with apt-get when missing. */
+export function ensureNginx() {
+  const found = ['/usr/sbin/nginx', '/usr/bin/nginx'].find((p) => fs.existsSync(p));
+  if (found) return found;
+  log('installing nginx (Debian package)');
+  aptInstall(['nginx']);
+  const installed = ['/usr/sbin/nginx', '/usr/bin/nginx'].find((p) => fs.existsSync(p));
+  if (!installed) fail('nginx not found after installing the Debian package');
+  return installed;
+}
+
 export function ensureChromium() {
   if (fs.existsSync('/usr/bin/chromium')) return '/usr/bin/chromium';
   aptInstall(['chromium']);

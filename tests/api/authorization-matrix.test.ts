@@ -94,6 +94,9 @@ const matrix: Record<string, Access> = {
   'GET /campaigns/:campaignId/arming': 'viewer',
   'PUT /campaigns/:campaignId/arming': 'engineer',
   'DELETE /campaigns/:campaignId/arming': 'engineer',
+  'POST /campaigns/:campaignId/jobs': 'lead',
+  'GET /campaigns/:campaignId/jobs/:jobId': 'lead',
+  'GET /campaigns/:campaignId/jobs/:jobId/file': 'lead',
 };
 
 /** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */

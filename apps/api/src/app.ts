@@ -23,6 +23,9 @@ import { CampaignEvents } from './hits/events.ts';
 import { registerModeRoutes } from './routes/modes.ts';
 import { registerNoiseRoutes } from './routes/noise.ts';
 import { FitQueue } from './modes/jobs.ts';
+import { Jobs } from './jobs/queue.ts';
+import { registerJobHandlers } from './jobs/handlers.ts';
+import { registerJobRoutes } from './routes/jobs.ts';
 import { flushResultWrites } from './hits/processing.ts';
 import { registerKitRoutes } from './routes/kit.ts';
 import { registerScheduleRoutes } from './routes/schedule.ts';
@@ -42,6 +45,10 @@ export interface AppHandle {
   config: Config;
   /** Background modal fits. */
   fits: FitQueue;
+  /** The job queue (pg-boss); works jobs in this process when config.jobs.inProcess. */
+  jobs: Jobs;
+  /** Campaign change notices across processes. */
+  events: CampaignEvents;
   /** Every API route with its access rule (OpenAPI and the authorization matrix test use it). */
   routes: RegisteredRoute[];
   close(): Promise<void>;
@@ -99,22 +106,26 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   app.all('/api/auth/*splat', authHandler(auth, config.authRateLimit, databaseStatus));
 
   const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
-  const deps = { routes, db: database.db, config, mailer, databaseStatus };
+  const events = new CampaignEvents(database.pool, config.databaseUrl);
+  await events.start();
+  const jobs = new Jobs(database.db, config);
+  registerJobHandlers(jobs, database.db, config, events);
+  await jobs.start({ work: config.jobs.inProcess });
+  const deps = { routes, db: database.db, config, mailer, databaseStatus, events, jobs };
   registerSystemRoutes(deps);
   registerCampaignRoutes(deps);
   registerGeometryRoutes(deps);
   registerScheduleRoutes(deps);
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
-  const events = new CampaignEvents();
   registerHitRoutes(deps, events);
   registerTokenRoutes(deps);
   registerArmingRoutes(deps, events);
   registerNoiseRoutes(deps);
-  const fits = new FitQueue(database.db);
-  await fits.recover();
+  const fits = new FitQueue(database.db, jobs);
   registerModeRoutes(deps, fits);
   registerHandoverRoutes(deps);
+  registerJobRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
   app.use('/api', routes.router);
@@ -144,9 +155,13 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
     databaseStatus,
     config,
     fits,
+    jobs,
+    events,
     routes: routes.registry,
     async close() {
+      await jobs.stop();
       await fits.close();
+      await events.close();
       await flushResultWrites(database.db);
       await mailer.close();
       await database.close();

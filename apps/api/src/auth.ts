@@ -8,6 +8,7 @@ import * as schema from '@resonote/db/schema';
 import type { Config } from './config.ts';
 import type { Mailer } from './mail.ts';
 import { isDatabaseUnavailable, type DatabaseStatus } from './db-health.ts';
+import { postgresRateLimitStore } from './rate-limit-store.ts';
 
 export const MIN_PASSWORD_LENGTH = 10;
 /** Header the API sets from the socket address (never from the client) for rate limiting. */
@@ -106,7 +107,7 @@ export function createAuth(db: Db, config: Config, mailer: Mailer, database: Dat
     },
     rateLimit: {
       enabled: true,
-      customStorage: windowCounter(),
+      customStorage: postgresRateLimitStore(db),
       window: config.authRateLimit.windowS,
       max: config.authRateLimit.ipMax * 2,
       // Per client IP; the stricter count per e-mail address is kept in auth-handler.ts.

@@ -43,6 +43,12 @@ const envSchema = z.object({
   HTTP_KEEP_ALIVE_TIMEOUT_S: z.coerce.number().positive().max(600).default(65),
   HTTP_IDLE_TIMEOUT_S: z.coerce.number().positive().max(3600).default(60),
   WEB_DIST: z.string().optional(),
+  JOBS_IN_PROCESS: bool.default(true),
+  JOB_LEASE_S: z.coerce.number().min(1).max(600).default(30),
+  JOB_MAX_RUNTIME_S: z.coerce.number().int().min(10).max(86_400).default(3600),
+  JOB_POLL_S: z.coerce.number().min(0.5).max(60).default(1),
+  JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
+  REPROCESS_CHUNK: z.coerce.number().int().min(1).max(500).default(10),
 });
 
 export interface Config {
@@ -76,6 +82,14 @@ export interface Config {
   webDist?: string;
   /** Timeouts of the HTTP server, ms (apps/api/src/http/listen.ts). */
   http: { headersTimeoutMs: number; requestTimeoutMs: number; keepAliveTimeoutMs: number; idleTimeoutMs: number };
+  /**
+   * Background jobs (pg-boss): whether the API process also works jobs (true for a single-process
+   * run and the tests; false for API replicas with `npm run worker` processes beside them), the
+   * lease a worker renews on the job it works (another takes it over once it runs out), the longest
+   * one attempt may run, how often idle workers poll, how often a job is retried, and how many
+   * DOFs one part of a campaign reprocess holds.
+   */
+  jobs: { inProcess: boolean; leaseS: number; maxRuntimeS: number; pollS: number; retryLimit: number; reprocessChunk: number };
 }
 
 export class ConfigError extends Error {}
@@ -184,5 +198,6 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
       keepAliveTimeoutMs: Math.round(e.HTTP_KEEP_ALIVE_TIMEOUT_S * 1000),
       idleTimeoutMs: Math.round(e.HTTP_IDLE_TIMEOUT_S * 1000),
     },
+    jobs: { inProcess: e.JOBS_IN_PROCESS, leaseS: e.JOB_LEASE_S, maxRuntimeS: e.JOB_MAX_RUNTIME_S, pollS: e.JOB_POLL_S, retryLimit: e.JOB_RETRY_LIMIT, reprocessChunk: e.REPROCESS_CHUNK },
   };
 }

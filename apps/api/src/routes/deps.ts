@@ -3,6 +3,8 @@ import type { Config } from '../config.ts';
 import type { Mailer } from '../mail.ts';
 import type { ApiRoutes } from '../http/route.ts';
 import type { DatabaseStatus } from '../db-health.ts';
+import type { CampaignEvents } from '../hits/events.ts';
+import type { Jobs } from '../jobs/queue.ts';
 
 /** What every route module gets. */
 export interface Deps {
@@ -11,4 +13,8 @@ export interface Deps {
   config: Config;
   mailer: Mailer;
   databaseStatus: DatabaseStatus;
+  /** Campaign change notices, across processes (LISTEN/NOTIFY). */
+  events: CampaignEvents;
+  /** Background jobs (pg-boss). */
+  jobs: Jobs;
 }

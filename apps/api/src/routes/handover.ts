@@ -12,10 +12,11 @@ import { singleFileUpload } from '../http/multipart.ts';
 import { forbidden, HttpError, notFound } from '../errors.ts';
 import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
-import { htmlToPdf } from '../handover/pdf.ts';
 import { bundleJson, rawHits, streamBundleZip } from '../handover/bundle.ts';
 import { signReportLink, verifyReportLink } from '../handover/share-token.ts';
-import { buildBackup, mayRestore, restoreBackup } from '../handover/backup.ts';
+import { mayRestore, restoreBackup } from '../handover/backup.ts';
+import { startProductJob, type JobRow } from '../jobs/campaign-jobs.ts';
+import { waitForJob } from '../jobs/queue.ts';
 
 const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
@@ -34,7 +35,27 @@ const wantsRaw = (q: { raw?: string }) => q.raw === '1' || q.raw === 'true';
 
 const safeFileName = (name: string) => name.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 60) || 'campaign';
 
-export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): void {
+/** How long a request waits for its report or backup job before answering 503 with the job's id. */
+const JOB_WAIT_MS = 120_000;
+
+/** Sends the product of a finished job, or the refusal it ended with. */
+function sendJobFile(res: Parameters<RequestHandler>[1], row: JobRow | null, what: string) {
+  if (!row) throw new HttpError(500, 'job-lost', `${what} job disappeared.`);
+  if (row.status === 'failed') {
+    const r = (row.result ?? {}) as { httpStatus?: number; code?: string };
+    throw new HttpError(r.httpStatus ?? 503, r.code ?? 'job-failed', row.message);
+  }
+  if (row.status !== 'done' || !row.file) throw new HttpError(503, 'busy', `${what} is still being made (job ${row.id}); read it later from GET /api/campaigns/${row.campaignId}/jobs/${row.id}/file.`, { jobId: row.id });
+  res
+    .status(200)
+    .type(row.fileType ?? 'application/octet-stream')
+    .setHeader('content-disposition', `attachment; filename="${row.fileName}"`)
+    .setHeader('cache-control', 'no-store');
+  res.send(row.file);
+  return undefined;
+}
+
+export function registerHandoverRoutes({ routes, db, config, mailer, jobs }: Deps): void {
   async function reportHtml(campaignId: string, sharedUntil?: Date) {
     const data = await collectHandover(db, campaignId);
     return { html: renderReport(data, { publicUrl: config.publicUrl, sharedUntil }), data };
@@ -64,16 +85,9 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     summary: 'The hand-over report printed to an A4 PDF',
     produces: 'application/pdf',
     handler: async ({ res, campaign: access, user: me }) => {
-      const { html, data } = await reportHtml(access.campaignId);
-      const pdf = await htmlToPdf(html, data.campaign.name);
-      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-report-pdf', after: { bytes: pdf.length, settingsVersion: data.settings.version, fitIds: data.modes?.fits.map((f) => f.fitId) ?? [] } });
-      res
-        .status(200)
-        .type('application/pdf')
-        .setHeader('content-disposition', `attachment; filename="${safeFileName(data.campaign.name)}-report.pdf"`)
-        .setHeader('cache-control', 'no-store');
-      res.send(pdf);
-      return undefined;
+      // Printed by a worker process (Chromium off the API's machine share); this request waits.
+      const job = await startProductJob({ db, jobs }, 'report-pdf', access.campaignId, me.id);
+      return sendJobFile(res, await waitForJob(db, job.id, JOB_WAIT_MS), 'The report');
     },
   });
 
@@ -234,14 +248,9 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     handler: async ({ res, campaign: access, user: me }) => {
       // Audited first, so the backup's own audit trail records it.
       await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'campaign', entityId: access.campaignId, action: 'backup', after: { by: me.email } });
-      const backup = await buildBackup(db, access.campaignId, config.publicUrl);
-      res
-        .status(200)
-        .type('application/zip')
-        .setHeader('content-disposition', `attachment; filename="${backup.fileName}"`)
-        .setHeader('cache-control', 'no-store');
-      res.send(Buffer.from(backup.zip.buffer, backup.zip.byteOffset, backup.zip.byteLength));
-      return undefined;
+      // Built by a worker process; this request waits (POST …/jobs {kind:"backup"} does not).
+      const job = await startProductJob({ db, jobs }, 'backup', access.campaignId, me.id);
+      return sendJobFile(res, await waitForJob(db, job.id, JOB_WAIT_MS), 'The backup');
     },
   });
 

@@ -14,7 +14,7 @@ import { pairKey, planSchedule } from '../plan/schedule-plan.ts';
 const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
 
-export function registerScheduleRoutes({ routes, db }: Deps): void {
+export function registerScheduleRoutes({ routes, db, events }: Deps): void {
   const listSchedule = (campaignId: string, entryIds?: string[]) => listScheduleEntries(db, campaignId, entryIds);
 
   routes.add({
@@ -81,6 +81,7 @@ export function registerScheduleRoutes({ routes, db }: Deps): void {
         await audit(tx, { campaignId: c.id, actorId: me.id, entity: 'schedule', entityId: c.id, action: 'generate', after: { ...result, testType: c.testType, referenceDofs: c.referenceDofs, requiredHits } });
         return result;
       });
+      void events.publish(access.campaignId, { type: 'schedule' });
       return { ...summary, entries: await listSchedule(access.campaignId) };
     },
   });
@@ -108,6 +109,7 @@ export function registerScheduleRoutes({ routes, db }: Deps): void {
         const [after] = await tx.update(scheduleEntry).set({ ...changes, version: before.version + 1, updatedAt: new Date() }).where(eq(scheduleEntry.id, before.id)).returning();
         await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'schedule-entry', entityId: before.id, action: 'update', before, after });
       });
+      void events.publish(access.campaignId, { type: 'schedule', entryId: params.entryId! });
       const [entry] = await listSchedule(access.campaignId, [params.entryId!]);
       return { entry };
     },
@@ -135,6 +137,7 @@ export function registerScheduleRoutes({ routes, db }: Deps): void {
         await tx.execute(sql`UPDATE ${scheduleEntry} SET position = v.pos, version = ${scheduleEntry.version} + 1, updated_at = now() FROM (VALUES ${sql.join(values, sql`, `)}) AS v(id, pos) WHERE ${scheduleEntry.id} = v.id`);
         await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'schedule', entityId: access.campaignId, action: 'reorder', before: existing.sort((a, b) => a.position - b.position).map((e) => e.id), after: body.order });
       });
+      void events.publish(access.campaignId, { type: 'schedule' });
       return { entries: await listSchedule(access.campaignId) };
     },
   });

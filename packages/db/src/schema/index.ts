@@ -8,3 +8,4 @@ export * from './audit.ts';
 export * from './hits.ts';
 export * from './modes.ts';
 export * from './bridge.ts';
+export * from './jobs.ts';

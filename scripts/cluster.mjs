@@ -1,0 +1,162 @@
+// `npm run start:cluster`: Resonote as several processes on one machine, the way a deployment
+// spreads them over several — nginx (Debian's package) on 127.0.0.1 in front of two API processes,
+// two worker processes (`npm run worker`), one PostgreSQL. Ctrl-C or SIGTERM stops all of it.
+//
+// Settings (environment): RESONOTE_CLUSTER_PORT (nginx, default 40080; the APIs take the next
+// two ports), RESONOTE_CLUSTER_PG_PORT (default 54349), RESONOTE_CLUSTER_APIS / _WORKERS (default
+// 2 / 2), RESONOTE_CLUSTER_SEED=0 to skip the demo seed, DATABASE_URL to use another database.
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
+import path from 'node:path';
+import { buildWeb, ensureChromium, ensureNginx, ensurePostgres, installDependencies, log, root } from './bootstrap.mjs';
+
+const started = Date.now();
+const port = Number(process.env.RESONOTE_CLUSTER_PORT ?? 40080);
+const apiCount = Number(process.env.RESONOTE_CLUSTER_APIS ?? 2);
+const workerCount = Number(process.env.RESONOTE_CLUSTER_WORKERS ?? 2);
+const seed = process.env.RESONOTE_CLUSTER_SEED !== '0';
+const publicUrl = `http://127.0.0.1:${port}`;
+
+installDependencies();
+const nginxBin = ensureNginx();
+const pg = process.env.DATABASE_URL ? null : ensurePostgres({ name: 'cluster', port: Number(process.env.RESONOTE_CLUSTER_PG_PORT ?? 54349), database: 'resonote' });
+const databaseUrl = process.env.DATABASE_URL ?? pg.url;
+ensureChromium();
+buildWeb();
+
+const runDir = path.join(root, '.run', `cluster-${port}`);
+fs.mkdirSync(path.join(runDir, 'tmp'), { recursive: true });
+
+/** @type {{ name: string, child: import('node:child_process').ChildProcess, stopSignal: NodeJS.Signals }[]} */
+const children = [];
+let stopping = false;
+
+function startChild(name, cmd, args, options, readyText) {
+  const child = spawn(cmd, args, { ...options, stdio: ['ignore', 'pipe', 'pipe'] });
+  children.push({ name, child, stopSignal: options.stopSignal ?? 'SIGTERM' });
+  const prefix = (line) => `[${name}] ${line}`;
+  let ready;
+  const readyPromise = new Promise((resolve) => (ready = resolve));
+  const relay = (stream, out) => {
+    let rest = '';
+    stream.on('data', (d) => {
+      rest += d.toString();
+      const lines = rest.split('\n');
+      rest = lines.pop();
+      for (const line of lines) {
+        if (line.trim()) out.write(prefix(line) + '\n');
+        if (readyText && line.includes(readyText)) ready();
+      }
+    });
+  };
+  relay(child.stdout, process.stdout);
+  relay(child.stderr, process.stderr);
+  if (!readyText) ready();
+  child.on('exit', (code, signal) => {
+    if (!stopping) {
+      console.error(`[resonote] ${name} exited (${signal ?? code}); stopping the cluster`);
+      void stopAll(1);
+    }
+  });
+  return readyPromise;
+}
+
+const apiDir = path.join(root, 'apps/api');
+const baseEnv = { ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development', DATABASE_URL: databaseUrl, PUBLIC_URL: publicUrl, SMTP_CAPTURE_PORT: '0' };
+const apiPorts = Array.from({ length: apiCount }, (_, i) => port + 1 + i);
+
+// The first API migrates (and seeds); the others start once it serves, so migrations never race.
+for (const [i, apiPort] of apiPorts.entries()) {
+  const args = ['--import', 'tsx', 'src/server.ts', ...(i === 0 && seed ? ['--seed'] : [])];
+  await startChild(`api-${i + 1}`, process.execPath, args, { cwd: apiDir, env: { ...baseEnv, HOST: '127.0.0.1', PORT: String(apiPort), JOBS_IN_PROCESS: 'false', RESONOTE_BOOT_STARTED: String(started) } }, 'serving on');
+}
+await Promise.all(
+  Array.from({ length: workerCount }, (_, i) => startChild(`worker-${i + 1}`, process.execPath, ['--import', 'tsx', 'src/worker.ts'], { cwd: apiDir, env: baseEnv }, 'working jobs')),
+);
+
+const conf = `# Written by scripts/cluster.mjs; see docs/decisions/0009-nginx-load-balancer.md.
+worker_processes 1;
+pid ${runDir}/nginx.pid;
+error_log ${runDir}/error.log warn;
+events { worker_connections 4096; }
+http {
+  access_log off;
+  client_body_temp_path ${runDir}/tmp/body;
+  proxy_temp_path ${runDir}/tmp/proxy;
+  fastcgi_temp_path ${runDir}/tmp/fastcgi;
+  uwsgi_temp_path ${runDir}/tmp/uwsgi;
+  scgi_temp_path ${runDir}/tmp/scgi;
+  # Uploads up to the API's own limit (UPLOAD_LIMIT_MB × 4 for a backup restore); the API refuses beyond.
+  client_max_body_size 512m;
+  upstream resonote_api {
+    # Any API process serves any request: sessions, events and jobs live in PostgreSQL.
+${apiPorts.map((p) => `    server 127.0.0.1:${p} max_fails=3 fail_timeout=5s;`).join('\n')}
+    keepalive 64;
+  }
+  server {
+    listen 127.0.0.1:${port};
+    proxy_http_version 1.1;
+    proxy_set_header Connection "";
+    proxy_set_header Host $http_host;
+    proxy_set_header X-Forwarded-For $proxy_add_x_forwarded_for;
+    proxy_set_header X-Forwarded-Proto $scheme;
+    proxy_read_timeout 180s;
+    # A request that failed on one upstream before any answer (a process restarting) goes to the next.
+    proxy_next_upstream error timeout http_502 http_503;
+    location ~ ^/api/campaigns/[^/]+/events$ {
+      # Server-Sent Events: passed through as they are written, held open for an hour.
+      proxy_pass http://resonote_api;
+      proxy_buffering off;
+      proxy_cache off;
+      proxy_read_timeout 3600s;
+      proxy_next_upstream off;
+    }
+    location / {
+      proxy_pass http://resonote_api;
+      proxy_request_buffering off;
+    }
+  }
+}
+`;
+const confPath = path.join(runDir, 'nginx.conf');
+fs.writeFileSync(confPath, conf);
+// SIGQUIT is nginx's graceful stop.
+await startChild('nginx', nginxBin, ['-p', runDir, '-c', confPath, '-e', path.join(runDir, 'error.log'), '-g', 'daemon off;'], { stopSignal: 'SIGQUIT' }, null);
+
+// Ready once nginx answers the health check through an upstream.
+for (let i = 0; ; i++) {
+  try {
+    const res = await fetch(`${publicUrl}/api/health`);
+    if (res.ok) break;
+  } catch {
+    // not listening yet
+  }
+  if (i > 100) {
+    console.error('[resonote] nginx did not answer /api/health within 10 s');
+    await stopAll(1);
+  }
+  await new Promise((r) => setTimeout(r, 100));
+}
+log(`cluster ready on ${publicUrl}: nginx → ${apiPorts.map((p) => `127.0.0.1:${p}`).join(', ')}; ${workerCount} workers; PostgreSQL ${databaseUrl.replace(/:[^:@/]*@/, ':***@')} (${((Date.now() - started) / 1000).toFixed(1)} s)`);
+
+async function stopAll(code) {
+  if (stopping) return;
+  stopping = true;
+  log('stopping the cluster: nginx, then the API processes and workers');
+  const exited = (c) => (c.child.exitCode !== null || c.child.signalCode !== null ? Promise.resolve() : new Promise((r) => c.child.once('exit', r)));
+  const byName = (prefix) => children.filter((c) => c.name.startsWith(prefix));
+  for (const group of [byName('nginx'), [...byName('api-'), ...byName('worker-')]]) {
+    for (const c of group) if (c.child.exitCode === null && c.child.signalCode === null) c.child.kill(c.stopSignal);
+    const timer = setTimeout(() => group.forEach((c) => c.child.exitCode === null && c.child.kill('SIGKILL')), 40_000);
+    await Promise.all(group.map(exited));
+    clearTimeout(timer);
+  }
+  if (pg) {
+    log('stopping PostgreSQL');
+    pg.stop();
+  }
+  log('cluster stopped');
+  process.exit(code);
+}
+process.on('SIGINT', () => void stopAll(0));
+process.on('SIGTERM', () => void stopAll(0));
