@@ -29,3 +29,4 @@ export {
 export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
+export * from './correlation/index.ts';
