@@ -9,7 +9,7 @@ export interface DrivingPointMeasure {
   minimum: Float64Array;
   /** Per candidate: the mode (index into `shapes`) that gives `minimum`. */
   weakestMode: Int32Array;
-  /** Every candidate, best first: by `product`, ties by `minimum`, then by lower index. */
+  /** Every candidate, best first: by `product`, ties (1e-12 relative) by `minimum`, then by lower index. */
   ranking: Int32Array;
 }
 
@@ -54,8 +54,11 @@ export function drivingPointMeasure(shapes: RealShapes): DrivingPointMeasure {
     minimum[i] = min;
     weakestMode[i] = weakest;
   }
+  // values equal to 1e-12 (relative) count as ties, so mirror-image DOFs of a symmetric structure
+  // rank by index whatever the rounding of the shapes
+  const differ = (x: number, y: number) => (Math.abs(x - y) > 1e-12 * Math.max(Math.abs(x), Math.abs(y)) ? y - x : 0);
   const ranking = Int32Array.from({ length: n }, (_, i) => i).sort(
-    (a, b) => product[b]! - product[a]! || minimum[b]! - minimum[a]! || a - b,
+    (a, b) => differ(product[a]!, product[b]!) || differ(minimum[a]!, minimum[b]!) || a - b,
   );
   return { product, geometricMean, minimum, weakestMode, ranking };
 }
