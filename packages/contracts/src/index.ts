@@ -7,3 +7,4 @@ export * from './schedule.ts';
 export * from './kit.ts';
 export * from './settings.ts';
 export * from './noise.ts';
+export * from './fe-model.ts';

@@ -1,0 +1,9 @@
+import { defineConfig } from 'vitest/config';
+
+export default defineConfig({
+  test: {
+    name: 'contracts',
+    include: ['src/**/*.test.ts'],
+    setupFiles: ['../../tests/setup/fail-on-console-error.ts'],
+  },
+});
