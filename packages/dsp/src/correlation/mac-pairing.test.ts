@@ -67,7 +67,7 @@ describe('macPairs on a chain with one spring 5 % stiffer (scipy.linalg.eigh ref
   });
 
   it('leaves modes unpaired when their MAC is below minMac, and gives no percentage against a 0 Hz model mode', () => {
-    // [1, 0] against [1, 1]: MAC = 0.5 (field-reference check value of Allemang & Brown's MAC)
+    // [1, 0] against [1, 1]: MAC = 1²/(1·2) = 0.5 (Allemang & Brown 1982 definition, by hand)
     const r = macPairs([{ frequencyHz: 10, shape: [1, 0] }], [{ frequencyHz: 10, shape: [1, 1] }]);
     expect(r.pairs).toEqual([]);
     expect(r.unpairedTest).toEqual([0]);
