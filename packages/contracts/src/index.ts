@@ -8,3 +8,4 @@ export * from './kit.ts';
 export * from './settings.ts';
 export * from './noise.ts';
 export * from './fe-model.ts';
+export * from './fe-map.ts';
