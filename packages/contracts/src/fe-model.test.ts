@@ -121,6 +121,8 @@ describe('FE model CSV and JSON', () => {
     ]);
     const r = problems(parseFeModelCsv('node,A,0,0,0\nmode,1,10,\nshape,1,A,0,0,1\n'));
     expect(r.map((x) => [x.row, x.column])).toEqual([[1, 'kind'], [null, 'units'], [null, 'normalisation']]);
+    expect(problems(parseFeModelCsv(csvHead + 'name,"Plate\nnode,A,0,0,0\n'))[0]!.message).toMatch(/^line 4: a quote is not closed/);
+    expect(problems(parseFeModelCsv(csvHead + 'name,"Plate\nrev B"\nnode,A,0,0,0\n'))[0]!.message).toBe('line 4: a quoted cell holds a line break; keep every record on one line');
     expect(problems(parseFeModelCsv('format,resonote-fe-modes,2\nunits,mm,Hz,lb\nnormalisation,unit\n')).map((x) => [x.row, x.column])).toEqual([
       [1, 'version'],
       [2, 'mass'],

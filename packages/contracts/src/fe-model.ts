@@ -251,6 +251,8 @@ export function parseFeModelCsv(text: string): FeParseResult {
   const parsed = Papa.parse<string[]>(body, { delimiter: ',', skipEmptyLines: false });
   const p = new Problems();
   const rows = parsed.data;
+  const quoteError = parsed.errors.find((e) => e.type === 'Quotes');
+  if (quoteError) return tooMuch(`line ${(quoteError.row ?? 0) + 1}: a quote is not closed (${quoteError.message})`);
   // A quoted cell holding a line break would shift every later line number: refuse it.
   for (const [i, cells] of rows.entries()) {
     if (cells.some((c) => /[\r\n]/.test(c))) return tooMuch(`line ${i + 1}: a quoted cell holds a line break; keep every record on one line`);
