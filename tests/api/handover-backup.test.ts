@@ -67,6 +67,11 @@ beforeAll(async () => {
     if (fit.status === 'done' || fit.status === 'failed') break;
     await new Promise((r) => setTimeout(r, 100));
   }
+  // One mode of it in the campaign's mode table, so the backup carries the table too.
+  const top = (await lead.get(`/api/campaigns/${barId}/modes/fits/${started.body.fit.id}`)).body.fit.result.diagram.orders.at(-1);
+  const near = top.poles.reduce((best: number, p: { fHz: number }, i: number) => (Math.abs(p.fHz - 53.17) < Math.abs(top.poles[best].fHz - 53.17) ? i : best), 0);
+  expect((await lead.post(`/api/campaigns/${barId}/modes/fits/${started.body.fit.id}/modes`).send({ poles: [{ order: top.order, index: near }] })).status).toBe(200);
+  expect((await lead.post(`/api/campaigns/${barId}/modes/table`).send({ fitId: started.body.fit.id, modes: [1], baseVersion: 0 })).status).toBe(201);
   // A second background-noise check besides the demo's own (raw samples in its row).
   expect((await engineer.post(`/api/campaigns/${barId}/noise-checks/simulate`).send({ durationS: 2, seed: 3, humHz: 50 })).status).toBe(201);
   const res = await binary(lead.get(`/api/campaigns/${barId}/backup`));
@@ -85,7 +90,7 @@ describe('campaign backup', () => {
     expect(manifest.version).toBe(1);
     expect(manifest.sourceUrl).toBe(app.config.publicUrl);
     expect(Date.now() - Date.parse(manifest.exportedAt)).toBeLessThan(120_000);
-    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'campaign_member']) {
+    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'mode_table', 'mode_table_row', 'campaign_member']) {
       expect(files[`tables/${t}.json`], t).toBeDefined();
       expect(JSON.parse(Buffer.from(files[`tables/${t}.json`]!).toString('utf8')), t).toHaveLength(manifest.counts[t]);
     }
@@ -127,6 +132,11 @@ describe('campaign restore', () => {
     expect(noiseB).toHaveLength(2);
     expect(noiseB!.map((n) => sha(n.samples))).toEqual(noiseA!.map((n) => sha(n.samples)));
     expect(noiseB!.map((n) => n.results)).toEqual(noiseA!.map((n) => n.results));
+    // The mode table comes back, its row pointing at the restored fit.
+    const [tableA, tableB] = [(await lead.get(`/api/campaigns/${barId}/modes`)).body, (await lead.get(`/api/campaigns/${restoredId}/modes`)).body];
+    expect(tableB.modes.map((m: { fHz: number; zetaPercent: number }) => [m.fHz, m.zetaPercent])).toEqual(tableA.modes.map((m: { fHz: number; zetaPercent: number }) => [m.fHz, m.zetaPercent]));
+    const restoredFits = (await lead.get(`/api/campaigns/${restoredId}/modes/fits`)).body.fits.map((f: { id: string }) => f.id);
+    expect(restoredFits).toContain(tableB.modes[0].source.fitId);
     const settings = [(await lead.get(`/api/campaigns/${barId}/settings`)).body, (await lead.get(`/api/campaigns/${restoredId}/settings`)).body];
     expect(settings[1].current.settings).toEqual(settings[0].current.settings);
     expect(settings[1].history.length).toBe(settings[0].history.length);
@@ -178,6 +188,20 @@ describe('campaign restore', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.counts.noise_check).toBe(0);
     expect(res.body.counts.hit).toBe(manifest.counts.hit);
+  });
+
+  it('restores a backup written before the mode table existed (no tables/mode_table*.json) with an empty table', async () => {
+    const files = unzipSync(new Uint8Array(backup));
+    const manifest = JSON.parse(Buffer.from(files['manifest.json']!).toString('utf8'));
+    delete manifest.counts.mode_table;
+    delete manifest.counts.mode_table_row;
+    const { 'tables/mode_table.json': _a, 'tables/mode_table_row.json': _b, ...older } = files;
+    const res = await lead.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync({ ...older, 'manifest.json': new TextEncoder().encode(JSON.stringify(manifest)) })), 'older-modes.zip');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.counts.mode_table_row).toBe(0);
+    const table = (await lead.get(`/api/campaigns/${res.body.campaign.id}/modes`)).body;
+    expect(table.modes).toEqual([]);
+    expect(table.version).toBe(0);
   });
 
   it('refuses a backup whose samples do not match the manifest, and writes nothing', async () => {

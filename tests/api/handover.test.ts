@@ -79,6 +79,8 @@ beforeAll(async () => {
     return { order: top.order, index: best };
   });
   await lead.post(`/api/campaigns/${barId}/modes/fits/${fit.id}/modes`).send({ poles }).expect(200);
+  // …and the four added to the campaign's mode table, which the hand-over carries.
+  await lead.post(`/api/campaigns/${barId}/modes/table`).send({ fitId: fit.id, modes: [1, 2, 3, 4], baseVersion: 0 }).expect(201);
 }, 240_000);
 afterAll(async () => {
   await app?.close();
@@ -123,8 +125,14 @@ describe('hand-over report', () => {
       const hits = (await viewer.get(`/api/campaigns/${barId}/schedule/${e.id}/hits`)).body.hits as { id: string; verdict: string }[];
       for (const h of hits.filter((x) => x.verdict === 'accept')) expect(html).toContain(h.id);
     }
-    const fitId = (await viewer.get(`/api/campaigns/${barId}/modes`)).body.fitId;
-    expect(html).toContain(fitId);
+    const table = (await viewer.get(`/api/campaigns/${barId}/modes`)).body;
+    for (const row of table.modes as { source: { fitId: string; inputHash: string } }[]) {
+      expect(html).toContain(row.source.fitId);
+      expect(html).toContain(row.source.inputHash.slice(0, 16));
+    }
+    // The sign convention in words, and a clear note where shapes are not mass-normalised.
+    expect(html).toContain('positive axis of each point');
+    if ((table.modes as { massShape: unknown }[]).some((m) => !m.massShape)) expect(html).toMatch(/Not mass-normalised: /);
   });
 
   it('prints to an A4 PDF for the lead, and refuses the PDF to a viewer', async () => {
@@ -189,6 +197,12 @@ describe('hand-over bundle', () => {
     const modes = csv<{ mode: number; f_hz: number; zeta_percent: number; mpc: number }>(files['modes.csv']);
     const api = (await viewer.get(`/api/campaigns/${barId}/modes`)).body;
     expect(modes.map((m) => [m.mode, m.f_hz, m.zeta_percent, m.mpc])).toEqual(api.modes.map((m: { mode: number; fHz: number; zetaPercent: number; mpc: number }) => [m.mode, m.fHz, m.zetaPercent, m.mpc]));
+    // Each row of the campaign's mode table keeps its fit, band, order and input hash (Resonote design, "Mode table").
+    const traced = csv<{ fit_id: string; band_low_hz: number; band_high_hz: number; model_order: number; fit_input_hash: string; references: string }>(files['modes.csv']);
+    expect(traced.map((m) => [m.fit_id, m.band_low_hz, m.band_high_hz, m.model_order, m.fit_input_hash, m.references])).toEqual(
+      api.modes.map((m: { source: { fitId: string; bandHz: number[]; order: number; inputHash: string; references: string[] } }) => [m.source.fitId, m.source.bandHz[0], m.source.bandHz[1], m.source.order, m.source.inputHash, m.source.references.join(' ')]),
+    );
+    expect(files['mode-shapes-mass-normalised.csv']).toBeDefined();
     const shapes = csv<{ mode: number; dof: string; real: number }>(files['mode-shapes.csv']);
     expect(shapes.filter((s) => s.mode === 1).map((s) => [s.dof, s.real])).toEqual(api.modes[0].shape.map((s: { dof: string; real: number }) => [s.dof, s.real]));
     const schedule = csv<{ entry_id: string; response_dof: string }>(files['schedule.csv']);

@@ -9,3 +9,4 @@ export * from './settings.ts';
 export * from './noise.ts';
 export * from './fe-model.ts';
 export * from './fe-map.ts';
+export * from './axis.ts';

@@ -11,7 +11,7 @@ import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -44,6 +44,9 @@ const TABLES: TableSpec[] = [
   { name: 'noise_check', table: noiseCheck, userCols: ['recordedBy'], hasUuidId: true, addedLater: true },
   { name: 'frf_result', table: frfResult, userCols: [], hasUuidId: true },
   { name: 'modal_fit', table: modalFit, userCols: ['createdBy'], hasUuidId: true },
+  // The campaign's mode table; a backup from before it existed restores with an empty table.
+  { name: 'mode_table', table: modeTable, userCols: [], hasUuidId: false, addedLater: true },
+  { name: 'mode_table_row', table: modeTableRow, userCols: ['addedBy'], hasUuidId: true, addedLater: true },
   { name: 'audit_event', table: auditEvent, userCols: ['actorId'], hasUuidId: false },
 ];
 
@@ -96,6 +99,8 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         noise_check: await byCampaign(noiseCheck as never, asc(noiseCheck.recordedAt)),
         frf_result: await byCampaign(frfResult as never),
         modal_fit: await byCampaign(modalFit as never, asc(modalFit.createdAt)),
+        mode_table: await byCampaign(modeTable as never),
+        mode_table_row: await byCampaign(modeTableRow as never, asc(modeTableRow.addedAt)),
         audit_event: await byCampaign(auditEvent as never, asc(auditEvent.id)),
       };
       const members = await tx

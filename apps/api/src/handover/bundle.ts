@@ -118,12 +118,22 @@ frf/<response>_<excitation>.csv
                   frequency_hz,h1_re,h1_im,h2_re,h2_im,coherence
                   every spectral line from 0 Hz to half the sample rate (df = sample rate / samples);
                   H1, H2 accelerance in (m/s^2)/N; coherence dimensionless 0..1.
-modes.csv         mode,f_hz,zeta_percent,mpc,f_hz_before_window_correction,
-                  zeta_percent_before_window_correction,fit_id
-                  (f and zeta are corrected for the exponential window: sigma_true = sigma_est - 1/tau)
+modes.csv         the campaign's mode table, one row per mode (from one or several fits):
+                  mode,f_hz,zeta_percent,mpc,f_hz_before_window_correction,
+                  zeta_percent_before_window_correction,fit_id,band_low_hz,band_high_hz,
+                  references,model_order,pole_index,fit_input_hash,mass_normalised,found_twice_as_mode
+                  (f and zeta are corrected for the exponential window: sigma_true = sigma_est - 1/tau;
+                  found_twice_as_mode: the mode number that already holds this mode, frequencies
+                  within 1 % and MAC >= 0.9 over the shared DOFs, common practice)
 mode-shapes.csv   long format, one row per mode and DOF: mode,dof,re,im,real
-                  re/im: complex shape (residue-based, scaled to the reference); real: its best real fit.
-mac.csv           the auto-MAC matrix of the chosen shapes (rows and columns are mode numbers)
+                  re/im: unit-normalised complex shape (largest entry 1); real: its best real fit.
+mode-shapes-mass-normalised.csv
+                  mode,dof,re,im,real in 1/sqrt(kg) (unit modal mass, from the driving-point residue,
+                  Ewins 2000; real: rotated so the driving point is real and positive); only modes
+                  whose fit had a driving point; none for the others (modes.csv mass_normalised=no).
+                  Directions: every DOF is on the positive axis of its point (+X, +Y, +Z); a DOF
+                  measured as -Z had its values multiplied by -1 (H(i,-d) = -H(i,+d)).
+mac.csv           the MAC matrix of the table's shapes over the DOFs each pair shares
 settings.json     { currentVersion, current, history: [{ version, settings, reason, createdAt, createdBy }] }
                   field names carry their units (sampleRateHz, recordLengthS, triggerLevelN, ...)
 kit.json          hammers and accelerometers with sensitivities (as entered and in base units),
@@ -152,8 +162,9 @@ Where every number comes from
   with settings version settings_version. input_hash = SHA-256 over the settings version and the
   accepted hit ids with their verdict versions: the same hash means the same inputs. Raw hits are
   never changed or deleted in Resonote, so each FRF can be recomputed from them.
-- Modes come from modal fit fit_id (modes.csv); the fit's own input hash, band and the FRF input
-  hashes it used are in the report's appendix B and in the JSON bundle (modes.trace).
+- Each mode comes from the modal fit fit_id of its row (modes.csv) with that fit's band, model
+  order and input hash; the FRF input hashes each fit used are in the report's appendix B and in
+  the JSON bundle (modes.fits).
 - The JSON bundle (export/bundle.json) holds exactly the same content as one document.
 `;
 }
@@ -245,11 +256,11 @@ export function bundleContent(d: HandoverData) {
     frfs,
     modes: d.modes
       ? {
-          fitId: d.modes.fitId,
-          table: d.modes.table.map((m) => ({ mode: m.mode, fHz: m.fHz, zetaPercent: m.zetaPercent, mpc: m.mpc, estimated: m.estimated, shape: m.shape })),
+          axisConvention: d.modes.axisConvention,
+          duplicateRule: d.modes.duplicateRule,
+          table: d.modes.table.map((m) => ({ mode: m.mode, fHz: m.fHz, zetaPercent: m.zetaPercent, mpc: m.mpc, estimated: m.estimated, source: m.source, shape: m.shape, massShape: m.massShape, massNote: m.massShape ? '' : m.massNote, duplicate: m.duplicate })),
           mac: d.modes.mac,
-          correction: d.modes.correction,
-          trace: { fitId: d.modes.fitId, inputHash: d.modes.inputHash, bandHz: d.modes.bandHz, settingsVersion: d.modes.settingsVersion, resultHashes: d.modes.resultHashes, entryIds: d.modes.entryIds, chosenBy: d.modes.chosenBy, chosenAt: d.modes.chosenAt },
+          fits: d.modes.fits,
         }
       : null,
     settings: { currentVersion: d.settings.version, current: d.settings.settings, history: d.settings.history },
@@ -294,11 +305,12 @@ function bundleFiles(d: HandoverData, raw: RawHit[] | null): [string, Uint8Array
   put(
     'modes.csv',
     toCsv(
-      ['mode', 'f_hz', 'zeta_percent', 'mpc', 'f_hz_before_window_correction', 'zeta_percent_before_window_correction', 'fit_id'],
-      (modes?.table ?? []).map((m) => [m.mode, m.fHz, m.zetaPercent, m.mpc, m.estimated.fHz, m.estimated.zetaPercent, modes!.fitId]),
+      ['mode', 'f_hz', 'zeta_percent', 'mpc', 'f_hz_before_window_correction', 'zeta_percent_before_window_correction', 'fit_id', 'band_low_hz', 'band_high_hz', 'references', 'model_order', 'pole_index', 'fit_input_hash', 'mass_normalised', 'found_twice_as_mode'],
+      (modes?.table ?? []).map((m) => [m.mode, m.fHz, m.zetaPercent, m.mpc, m.estimated.fHz, m.estimated.zetaPercent, m.source.fitId ?? '', m.source.bandHz[0], m.source.bandHz[1], m.source.references.join(' '), m.source.order, m.source.poleIndex, m.source.inputHash, m.massShape ? 'yes' : 'no', m.duplicate?.of ?? '']),
     ),
   );
   put('mode-shapes.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => m.shape.map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
+  put('mode-shapes-mass-normalised.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => (m.massShape ?? []).map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
   put('mac.csv', toCsv(['mode', ...(modes?.table ?? []).map((m) => String(m.mode))], (modes?.mac ?? []).map((row, i) => [i + 1, ...row])));
   put('settings.json', JSON.stringify(b.settings, null, 2));
   put('kit.json', JSON.stringify(b.kit, null, 2));

@@ -2,15 +2,16 @@
 // kit with calibrations, settings history, hit statistics, the averaged FRFs (through the same
 // entryResult the Review screens use, so every number carries its input hash), the validity
 // checks and the current modes. The report, the bundles and the shared link all render this.
-import { aliasedTable, and, asc, desc, eq, sql } from 'drizzle-orm';
+import { aliasedTable, and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { averageFrf } from '@resonote/dsp';
-import { calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
+import { AXIS_CONVENTION, calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
 import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs, entryLinearity, type Comparison } from '../hits/checks.ts';
+import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis, type Comparison } from '../hits/checks.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
+import { DUPLICATE_RULE, rowView, tableMac, tableRows } from '../modes/mode-table.ts';
 import {
   currentSettings,
   entryResult,
@@ -67,30 +68,15 @@ export interface HandoverKitItem {
   stateToday: { state: CalibrationState; days: number | null; on: string };
 }
 
-export interface ModeRow {
-  mode: number;
-  fHz: number;
-  zetaPercent: number;
-  estimated: { fHz: number; zetaPercent: number };
-  mpc: number;
-  pole?: { order: number; index: number };
-  shape: { dof: string; re: number; im: number; real: number }[];
-}
+export type ModeRow = ReturnType<typeof rowView>;
 
+/** The campaign's mode table for the hand-over: rows from one or several fits, and where each fit came from. */
 export interface HandoverModes {
-  fitId: string;
-  inputHash: string;
-  bandHz: [number, number];
-  settingsVersion: number;
-  resultHashes: string[];
-  entryIds: string[];
-  frfCount: number;
   table: ModeRow[];
   mac: number[][];
-  correction: string;
-  chosenBy: string;
-  chosenAt: string;
-  synthesisFrac: { response: string; reference: string; frac: number }[];
+  fits: { fitId: string; inputHash: string; bandHz: [number, number]; settingsVersion: number; resultHashes: string[]; entryIds: string[]; frfCount: number; correction: string; chosenBy: string; chosenAt: string }[];
+  duplicateRule: string;
+  axisConvention: string;
 }
 
 export interface HandoverChecks {
@@ -157,27 +143,22 @@ export async function frfsOf(db: Db, campaignId: string, schedule: HandoverEntry
   return out;
 }
 
-/** The newest modal fit with chosen modes, or null. */
+/** The campaign's mode table (null when it has no rows) with the fits its rows came from. */
 export async function modesOf(db: Db, campaignId: string): Promise<HandoverModes | null> {
-  const fits = await db.select().from(modalFit).where(eq(modalFit.campaignId, campaignId)).orderBy(desc(modalFit.createdAt));
-  const fit = fits.find((f) => f.modes);
-  if (!fit) return null;
-  const modes = fit.modes as { table: ModeRow[]; mac: number[][]; correction: string; chosenBy: string; chosenAt: string; synthesisFrac?: HandoverModes['synthesisFrac'] };
-  const request = fit.request as { bandHz: [number, number]; settingsVersion: number; resultHashes: string[]; entryIds: string[]; frfCount: number };
+  const rows = await tableRows(db, campaignId);
+  if (rows.length === 0) return null;
+  const fitIds = [...new Set(rows.map((r) => r.fitId).filter((x): x is string => Boolean(x)))];
+  const fits = fitIds.length ? await db.select().from(modalFit).where(inArray(modalFit.id, fitIds)) : [];
   return {
-    fitId: fit.id,
-    inputHash: fit.inputHash,
-    bandHz: request.bandHz,
-    settingsVersion: request.settingsVersion,
-    resultHashes: request.resultHashes ?? [],
-    entryIds: request.entryIds ?? [],
-    frfCount: request.frfCount,
-    table: modes.table,
-    mac: modes.mac,
-    correction: modes.correction,
-    chosenBy: modes.chosenBy,
-    chosenAt: modes.chosenAt,
-    synthesisFrac: modes.synthesisFrac ?? [],
+    table: rows.map((r, i) => rowView(r, i + 1, rows)),
+    mac: tableMac(rows),
+    fits: fits.map((fit) => {
+      const request = fit.request as { bandHz: [number, number]; settingsVersion: number; resultHashes: string[]; entryIds: string[]; frfCount: number };
+      const modes = (fit.modes ?? {}) as { correction?: string; chosenBy?: string; chosenAt?: string };
+      return { fitId: fit.id, inputHash: fit.inputHash, bandHz: request.bandHz, settingsVersion: request.settingsVersion, resultHashes: request.resultHashes ?? [], entryIds: request.entryIds ?? [], frfCount: request.frfCount, correction: modes.correction ?? '', chosenBy: modes.chosenBy ?? '', chosenAt: modes.chosenAt ?? '' };
+    }),
+    duplicateRule: `The same mode twice: frequencies within ${DUPLICATE_RULE.freqPercent} % and MAC ≥ ${DUPLICATE_RULE.mac} over the DOFs both shapes share (common practice).`,
+    axisConvention: AXIS_CONVENTION,
   };
 }
 
@@ -193,9 +174,9 @@ export async function checksOf(db: Db, campaignId: string, schedule: HandoverEnt
   const label = (e: HandoverEntry) => ({ response: e.responseDof, excitation: e.excitationDof });
   const reciprocity: HandoverChecks['reciprocity'] = [];
   for (const a of frfs) {
-    const b = frfs.find((x) => x.entry.responseDof === a.entry.excitationDof && x.entry.excitationDof === a.entry.responseDof && x.entry.id !== a.entry.id);
+    const b = frfs.find((x) => isReciprocal(a.entry, x.entry) && x.entry.id !== a.entry.id);
     if (!b || a.entry.id > b.entry.id || a.result.samples !== b.result.samples) continue;
-    reciprocity.push({ a: label(a.entry), b: label(b.entry), ...compareFrfs(a.result.frf.h1[a.main]!, b.result.frf.h1[b.main]!, a.result.frf.f, s.bandHz) });
+    reciprocity.push({ a: label(a.entry), b: label(b.entry), ...compareFrfs(onPositiveAxis(a.result.frf.h1[a.main]!, a.entry.responseDof, a.entry.excitationDof), onPositiveAxis(b.result.frf.h1[b.main]!, b.entry.responseDof, b.entry.excitationDof), a.result.frf.f, s.bandHz) });
   }
   const linearity: HandoverChecks['linearity'] = [];
   for (const e of schedule) {

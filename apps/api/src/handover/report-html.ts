@@ -188,17 +188,34 @@ ${thumbs ? `<p class="small">Each thumbnail: |H1| accelerance in ${DB_REFERENCE}
   // 9. Modes
   const m = d.modes;
   if (m) {
-    const modeRows = m.table.map((r) => `<tr><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(2)}</td><td class="n r">${r.zetaPercent.toFixed(3)}</td><td class="n r">${r.mpc.toFixed(3)}</td><td class="n r">${r.estimated.fHz.toFixed(2)}</td><td class="n r">${r.estimated.zetaPercent.toFixed(3)}</td></tr>`).join('');
+    const fitNo = new Map(m.fits.map((f, i) => [f.fitId, i + 1]));
+    const modeRows = m.table
+      .map(
+        (r) =>
+          `<tr${r.duplicate ? ' class="dup"' : ''}><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(2)}</td><td class="n r">${r.zetaPercent.toFixed(3)}</td><td class="n r">${r.estimated.zetaPercent.toFixed(3)}</td><td class="n r">${r.mpc.toFixed(3)}</td><td class="n">${r.source.fitId ? `fit ${fitNo.get(r.source.fitId) ?? '?'}` : 'fit removed'} · ${esc(r.source.bandHz[0])}–${esc(r.source.bandHz[1])} Hz · order ${r.source.order} · ref. ${esc(r.source.references.join(', '))}</td><td>${r.massShape ? 'yes' : 'no'}</td><td>${r.duplicate ? `same as mode ${r.duplicate.of ?? '?'}: ${esc(r.duplicate.note)}` : ''}</td></tr>`,
+      )
+      .join('');
     const head = m.table.map((r) => `<th class="n">${r.mode}</th>`).join('');
     const macRows = m.mac.map((row, i) => `<tr><th class="n">${i + 1}</th>${row.map((v) => `<td class="n mac" style="${shade(v)}">${v.toFixed(2)}</td>`).join('')}</tr>`).join('');
     const shapes = m.table.map((r) => `<figure class="shape">${modeShapeSvg(`Mode ${r.mode} · ${r.fHz.toFixed(2)} Hz · ζ ${r.zetaPercent.toFixed(2)} %`, d.points, d.lines, r.shape)}</figure>`).join('');
+    const fitList = m.fits
+      .map((f, i) => `<li>Fit ${i + 1} (<span class="n">${esc(f.fitId)}</span>): ${n(f.bandHz[0], 5, 'Hz')} – ${n(f.bandHz[1], 5, 'Hz')}, ${mono(f.frfCount)} FRFs, settings version ${mono(f.settingsVersion)}; shapes computed by ${esc(f.chosenBy)} on ${esc(dateTime(f.chosenAt))}. Window correction: ${esc(f.correction)}.</li>`)
+      .join('');
+    const massNotes = [...new Set(m.table.filter((r) => !r.massShape).map((r) => r.massNote).filter(Boolean))];
+    const withMass = m.table.filter((r) => r.massShape);
+    const massTable = withMass.length
+      ? `<h3>Mass-normalised shapes (unit modal mass, 1/√kg)</h3><p class="small">Scaled from the driving-point residue (Ewins 2000); each shape rotated so the driving point is real and positive, real part given.</p><table class="grid keep" style="width:auto"><thead><tr><th>Mode</th>${withMass[0]!.massShape!.map((s) => `<th class="n">${esc(s.dof)}</th>`).join('')}</tr></thead><tbody>${withMass.map((r) => `<tr><td class="n r">${r.mode}</td>${r.massShape!.map((s) => `<td class="n r">${s.real.toPrecision(4)}</td>`).join('')}</tr>`).join('')}</tbody></table>`
+      : '';
     sec.push(`<section><h2>9. Modes</h2>
-<p>From modal fit <span class="n">${esc(m.fitId)}</span> over ${n(m.bandHz[0], 5, 'Hz')} – ${n(m.bandHz[1], 5, 'Hz')} and ${mono(m.frfCount)} FRFs (settings version ${mono(m.settingsVersion)}); modes chosen by ${esc(m.chosenBy)} on ${esc(dateTime(m.chosenAt))}. Window correction: ${esc(m.correction)}.</p>
-<table class="grid keep"><thead><tr><th>Mode</th><th>f (Hz)</th><th>ζ (% of critical)</th><th>MPC (–)</th><th>f before correction (Hz)</th><th>ζ before correction (%)</th></tr></thead><tbody>${modeRows}</tbody></table>
-<div class="two"><div class="keep"><h3>MAC matrix (auto-MAC of the chosen shapes)</h3><table class="grid macm"><thead><tr><th></th>${head}</tr></thead><tbody>${macRows}</tbody></table><p class="small">Shade and number both give the MAC value (0 white, 1 dark).</p></div></div>
+<p>The campaign's mode table: ${mono(m.table.length)} mode${m.table.length === 1 ? '' : 's'} taken from ${mono(m.fits.length)} fit${m.fits.length === 1 ? '' : 's'}:</p><ul class="small">${fitList}</ul>
+<table class="grid keep"><thead><tr><th>Mode</th><th>f (Hz)</th><th>ζ (% of critical)</th><th>ζ before window correction (%)</th><th>MPC (–)</th><th>From</th><th>Mass-normalised</th><th>Found twice</th></tr></thead><tbody>${modeRows}</tbody></table>
+<p class="small">${esc(m.duplicateRule)} ${esc(m.axisConvention)}</p>
+${massNotes.length ? `<p class="small">Not mass-normalised: ${massNotes.map(esc).join(' ')}</p>` : ''}
+<div class="two"><div class="keep"><h3>MAC matrix of the table's shapes</h3><table class="grid macm"><thead><tr><th></th>${head}</tr></thead><tbody>${macRows}</tbody></table><p class="small">Over the DOFs each pair of shapes shares. Shade and number both give the MAC value (0 white, 1 dark).</p></div></div>
+${massTable}
 <h3>Mode shapes</h3><p class="small">Real part of each shape (the shape rotated to its best real fit), normalised to the largest displacement and drawn on the geometry; the scale is arbitrary.</p><div class="shapes">${shapes}</div></section>`);
   } else {
-    sec.push(`<section><h2>9. Modes</h2><p class="muted">No modal fit with chosen modes yet.</p></section>`);
+    sec.push(`<section><h2>9. Modes</h2><p class="muted">The campaign\'s mode table is empty: no modes have been added from a fit yet.</p></section>`);
   }
 
   // 10. Cautions
@@ -218,11 +235,15 @@ input hash <span class="n">${esc(x.result.inputHash)}</span><br>accepted hits ${
     .join('');
   const frfByHash = new Map(d.frfs.map((x) => [x.result.inputHash, `H(${x.result.channels.map((ch) => ch.dof).join(' / ')}, ${x.result.excitationDof})`]));
   const appB = m
-    ? `<p class="small">Modal fit <span class="n">${esc(m.fitId)}</span>, fit input hash <span class="n">${esc(m.inputHash)}</span> (covers the settings version ${esc(m.settingsVersion)}, the FRF input hashes below, the band ${esc(m.bandHz[0])}–${esc(m.bandHz[1])} Hz and the fit options).</p>
-<table class="grid keep" style="width:auto"><thead><tr><th>Mode</th><th>f (Hz)</th><th>ζ (%)</th><th>Chosen pole in the stabilization diagram</th></tr></thead><tbody>${m.table
-        .map((r) => `<tr><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(3)}</td><td class="n r">${r.zetaPercent.toFixed(3)}</td><td class="n">${r.pole ? `model order ${r.pole.order}, pole ${r.pole.index}` : '–'}</td></tr>`)
-        .join('')}</tbody></table>
-<p class="small">FRFs the fit used (input hash → FRF):</p><div class="hash-list">${m.resultHashes.map((h) => `<div><span class="n">${esc(h)}</span> ${frfByHash.has(h) ? `<span class="n">${esc(frfByHash.get(h))}</span>` : '<i>(no longer the current result of its entry)</i>'}</div>`).join('')}</div>`
+    ? `${m.fits
+        .map(
+          (f, i) => `<p class="small">Fit ${i + 1}: <span class="n">${esc(f.fitId)}</span>, fit input hash <span class="n">${esc(f.inputHash)}</span> (covers the settings version ${esc(f.settingsVersion)}, the FRF input hashes below, the band ${esc(f.bandHz[0])}–${esc(f.bandHz[1])} Hz and the fit options).</p>
+<p class="small">FRFs the fit used (input hash → FRF):</p><div class="hash-list">${f.resultHashes.map((h) => `<div><span class="n">${esc(h)}</span> ${frfByHash.has(h) ? `<span class="n">${esc(frfByHash.get(h))}</span>` : '<i>(no longer the current result of its entry)</i>'}</div>`).join('')}</div>`,
+        )
+        .join('')}
+<table class="grid keep" style="width:auto"><thead><tr><th>Mode</th><th>f (Hz)</th><th>ζ (%)</th><th>Fit</th><th>Chosen pole in the stabilization diagram</th><th>Fit input hash</th></tr></thead><tbody>${m.table
+        .map((r) => `<tr><td class="n r">${r.mode}</td><td class="n r">${r.fHz.toFixed(3)}</td><td class="n r">${r.zetaPercent.toFixed(3)}</td><td class="n">${r.source.fitId ? esc(r.source.fitId) : '–'}</td><td class="n">model order ${r.pole.order}, pole ${r.pole.index}</td><td class="n id">${esc(r.source.inputHash.slice(0, 16))}…</td></tr>`)
+        .join('')}</tbody></table>`
     : '';
   const appC = d.points.map((p) => `<tr><td class="n">${esc(p.label)}</td><td class="n r">${p.x}</td><td class="n r">${p.y}</td><td class="n r">${p.z}</td><td class="n">${esc(p.directions.join(' '))}${p.retired ? ' (retired)' : ''}</td></tr>`).join('');
   sec.push(`<section class="appendix"><h2>Appendix A — where each FRF comes from</h2>

@@ -3,7 +3,7 @@
 // the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
 import { and, eq } from 'drizzle-orm';
 import { averageFrf, frac, type Complex } from '@resonote/dsp';
-import type { AcquisitionSettings } from '@resonote/contracts';
+import { frfAxisFactor, sameAxis, type AcquisitionSettings } from '@resonote/contracts';
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
@@ -101,3 +101,14 @@ export async function entryLinearity(db: Db, entryId: string, responseDof: strin
   const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), responseDof);
   return { lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) };
 }
+
+/**
+ * An FRF measured along the written directions, put on the positive axis of both points
+ * (contracts/axis.ts): H(i,−d) = −H(i,+d). Reciprocity compares both FRFs of a pair this way.
+ */
+export function onPositiveAxis(h: Complex, responseDof: string, excitationDof: string): Complex {
+  return frfAxisFactor(responseDof, excitationDof) === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) };
+}
+
+/** True when b is the reciprocal of a (response and excitation swapped), by physical axis whatever the signs. */
+export const isReciprocal = (a: { responseDof: string; excitationDof: string }, b: { responseDof: string; excitationDof: string }) => sameAxis(a.responseDof, b.excitationDof) && sameAxis(a.excitationDof, b.responseDof) && !(sameAxis(a.responseDof, a.excitationDof));

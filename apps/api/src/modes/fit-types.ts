@@ -16,12 +16,14 @@ export interface StoredDiagram {
   responses: string[];
   references: string[];
   transposed: boolean;
-  orders: { order: number; poles: { fHz: number; zeta: number; stable: string; lambda: { re: number; im: number } }[] }[];
+  orders: { order: number; poles: { fHz: number; zeta: number; stable: string; lambda: { re: number; im: number }; shape?: { re: number[]; im: number[] }; participation?: { re: number[]; im: number[] } }[] }[];
 }
 
 export interface FitResult {
   cmif: { f: number[]; values: number[][] };
   diagram: StoredDiagram;
+  /** CMIF peaks with no suggested mode near them (dsp cmifPeaksWithoutColumn), Hz. */
+  cmifPeaksWithoutColumn?: number[];
 }
 
 export type FitMessage =

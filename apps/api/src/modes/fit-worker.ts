@@ -1,7 +1,7 @@
 // Runs a modal fit off the API's event loop: CMIF, then the LSCF stabilization diagram over the
 // requested model orders (packages/dsp/src/modal). Reports progress to the parent thread.
 import { parentPort } from 'node:worker_threads';
-import { cmif, stabilizationDiagram, type FrfSet } from '@resonote/dsp';
+import { cmif, cmifPeaksWithoutColumn, stabilizationDiagram, suggestModes, type FrfSet } from '@resonote/dsp';
 import type { FitJob, FitMessage } from './fit-types.ts';
 
 function post(message: FitMessage) {
@@ -25,13 +25,18 @@ parentPort!.on('message', (job: FitJob) => {
     const diagram = stabilizationDiagram(set, { bandHz: job.bandHz, orders: job.orders, tolerances: job.tolerances });
     const orders = diagram.orders.map((o) => ({
       order: o.order,
-      poles: o.poles.map((p) => ({ fHz: p.fHz, zeta: p.zeta, stable: p.stable, lambda: p.lambda })),
+      // The shape estimate of each pole is kept for the suggestion, which clusters by frequency and MAC.
+      poles: o.poles.map((p) => ({ fHz: p.fHz, zeta: p.zeta, stable: p.stable, lambda: p.lambda, shape: { re: Array.from(p.shape.re), im: Array.from(p.shape.im) }, participation: { re: Array.from(p.participation.re), im: Array.from(p.participation.im) } })),
     }));
+    // Quality: CMIF peaks with no suggested mode (stable column) near them.
+    const columns = suggestModes(diagram).map((m) => m.frequencyHz);
+    const missing = cmifPeaksWithoutColumn(indicator, columns, { bandHz: job.bandHz }).map((p) => p.fHz);
     post({
       type: 'done',
       result: {
         cmif: cmifOut,
         diagram: { bandHz: diagram.bandHz, dtS: diagram.dtS, lines: diagram.lines, responses: diagram.responses, references: diagram.references, transposed: diagram.transposed, orders },
+        cmifPeaksWithoutColumn: missing,
       },
     });
   } catch (err) {

@@ -2,7 +2,7 @@
 // roving hammer — the accelerometer(s) stay at the reference DOF(s) and the hammer visits every
 // DOF (one row of the FRF matrix per reference); roving response — the hammer stays at the
 // reference DOF(s) and the accelerometer visits every DOF (one column). Field-reference §9.
-import { directions as directionOrder, type Direction, type TestType } from '@resonote/contracts';
+import { directions as directionOrder, sameAxis, type Direction, type TestType } from '@resonote/contracts';
 import { labelCollator } from './geometry-csv.ts';
 
 export interface PlanPoint {
@@ -45,7 +45,9 @@ export function planSchedule(testType: TestType, referenceDofs: string[], points
         responseDirection: response.direction,
         excitationPointId: excitation.point.id,
         excitationDirection: excitation.direction,
-        drivingPoint: response.point.id === excitation.point.id && response.direction === excitation.direction,
+        // Same point and same axis, whatever the signs: P:−Z struck next to an accelerometer at P:+Z is
+        // the driving point (contracts/axis.ts).
+        drivingPoint: response.point.id === excitation.point.id && sameAxis(`p:${response.direction}`, `p:${excitation.direction}`),
       });
     }
   }

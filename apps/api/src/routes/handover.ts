@@ -66,7 +66,7 @@ export function registerHandoverRoutes({ routes, db, config, mailer }: Deps): vo
     handler: async ({ res, campaign: access, user: me }) => {
       const { html, data } = await reportHtml(access.campaignId);
       const pdf = await htmlToPdf(html, data.campaign.name);
-      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-report-pdf', after: { bytes: pdf.length, settingsVersion: data.settings.version, fitId: data.modes?.fitId ?? null } });
+      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'handover', entityId: access.campaignId, action: 'export-report-pdf', after: { bytes: pdf.length, settingsVersion: data.settings.version, fitIds: data.modes?.fits.map((f) => f.fitId) ?? [] } });
       res
         .status(200)
         .type('application/pdf')

@@ -6,14 +6,14 @@ import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
 import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
-import { uuidSchema } from '@resonote/contracts';
+import { AXIS_CONVENTION, uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
 import { channelMapFor, storageOrder, uploadInEngineeringUnits, type ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs, entryLinearity } from '../hits/checks.ts';
+import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
 import {
@@ -477,14 +477,16 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const reciprocity = [];
       for (const a of entries) {
         if (!withResult.has(a.id)) continue;
-        const b = entries.find((x) => x.r === a.e && x.rd === a.ed && x.e === a.r && x.ed === a.rd && x.id !== a.id);
+        // The reciprocal pair by physical axis, whatever the written signs (contracts/axis.ts).
+        const b = entries.find((x) => isReciprocal({ responseDof: `${a.r}:${a.rd}`, excitationDof: `${a.e}:${a.ed}` }, { responseDof: `${x.r}:${x.rd}`, excitationDof: `${x.e}:${x.ed}` }) && x.id !== a.id);
         if (!b || !withResult.has(b.id) || a.id > b.id) continue;
         const ra = await entryResult(db, access.campaignId, a.id, settings);
         const rb = await entryResult(db, access.campaignId, b.id, settings);
         if (!ra || !rb || ra.samples !== rb.samples) continue;
         const ia = mainChannel(ra.channels, `${a.r}:${a.rd}`);
         const ib = mainChannel(rb.channels, `${b.r}:${b.rd}`);
-        reciprocity.push({ a: label(a), b: label(b), ...compareFrfs(ra.frf.h1[ia]!, rb.frf.h1[ib]!, ra.frf.f, s.bandHz) });
+        // Both FRFs on the positive axes before they are compared: H(i,−d) = −H(i,+d).
+        reciprocity.push({ a: label(a), b: label(b), axisConvention: AXIS_CONVENTION, ...compareFrfs(onPositiveAxis(ra.frf.h1[ia]!, `${a.r}:${a.rd}`, `${a.e}:${a.ed}`), onPositiveAxis(rb.frf.h1[ib]!, `${b.r}:${b.rd}`, `${b.e}:${b.ed}`), ra.frf.f, s.bandHz) });
       }
       const linearity = [];
       for (const e of entries) {

@@ -4,54 +4,23 @@
 import { createHash } from 'node:crypto';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
-import { convertFrf, correctWindowDamping, estimateShapes, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
-import { uuidSchema } from '@resonote/contracts';
-import { line, modalFit, point, scheduleEntry } from '@resonote/db/schema';
+import { convertFrf, correctWindowDamping, estimateShapes, fitQuality, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
+import { AXIS_CONVENTION, canonicalLabel, frfAxisFactor, uuidSchema } from '@resonote/contracts';
+import { line, modalFit, modeTableRow, point, scheduleEntry } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
+import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, conflict, notFound } from '../errors.ts';
 import { currentSettings, entriesWithAcceptedHits, entryResult, exponentialWindowOf } from '../hits/processing.ts';
 import type { FitQueue } from '../modes/jobs.ts';
 import type { FitResult } from '../modes/fit-types.ts';
+import { loadModel, singleMode, storeModel, type StoredModel } from '../modes/model-store.ts';
+import { bumpTable, DUPLICATE_RULE, refreshDuplicates, rowView, synthesizeFromTable, tableMac, tableRows, tableVersion, type ShapeEntry } from '../modes/mode-table.ts';
+import { cmifWarnings, mpcWarnings, synthesisWarnings, QUALITY_LIMITS, type QualityWarning } from '../modes/quality.ts';
+import { massShapesOf, suggestFromDiagram } from '../modes/suggest.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 const units = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' } as const;
-
-interface StoredModel {
-  kind: ModalModel['kind'];
-  bandHz: [number, number];
-  responses: string[];
-  references: string[];
-  transposed: boolean;
-  modes: { fHz: number; zeta: number; lambda: { re: number; im: number }; residues: { re: number[]; im: number[] }[]; shape: { re: number[]; im: number[] }; shapeReference: string; mpc: number; realShape: number[] }[];
-  residuals: { upper: number[][]; lower: number[][] } | null;
-}
-
-function storeModel(m: ModalModel): StoredModel {
-  const c = (x: Complex) => ({ re: Array.from(x.re), im: Array.from(x.im) });
-  return {
-    kind: m.kind,
-    bandHz: m.bandHz,
-    responses: m.responses,
-    references: m.references,
-    transposed: m.transposed,
-    modes: m.modes.map((x) => ({ fHz: x.fHz, zeta: x.zeta, lambda: x.lambda, residues: x.residues.map(c), shape: c(x.shape), shapeReference: x.shapeReference, mpc: x.mpc, realShape: Array.from(x.realShape) })),
-    residuals: m.residuals ? { upper: m.residuals.upper.map((a) => Array.from(a)), lower: m.residuals.lower.map((a) => Array.from(a)) } : null,
-  };
-}
-
-function loadModel(s: StoredModel): ModalModel {
-  const c = (x: { re: number[]; im: number[] }) => ({ re: Float64Array.from(x.re), im: Float64Array.from(x.im) });
-  return {
-    kind: s.kind,
-    bandHz: s.bandHz,
-    responses: s.responses,
-    references: s.references,
-    transposed: s.transposed,
-    modes: s.modes.map((x) => ({ fHz: x.fHz, zeta: x.zeta, lambda: x.lambda, residues: x.residues.map(c), shape: c(x.shape), shapeReference: x.shapeReference, mpc: x.mpc, realShape: Float64Array.from(x.realShape) })),
-    residuals: s.residuals ? { upper: s.residuals.upper.map((a) => Float64Array.from(a)), lower: s.residuals.lower.map((a) => Float64Array.from(a)) } : null,
-  };
-}
 
 export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void {
   /** The accelerance FRFs (H1) of the chosen entries, one per (response DOF, excitation DOF) pair. */
@@ -72,11 +41,17 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       if (f && f.length !== result.frf.f.length) throw badRequest('The chosen FRFs were measured with different frequency lines; pick FRFs of one record length.');
       f = result.frf.f;
       hashes.push(result.inputHash);
+      // Every FRF on the positive axis of both points: H(i,−d) = −H(i,+d) (contracts/axis.ts), so
+      // P:−Z struck next to P:+Z is the driving point and shapes share one sign convention.
       result.channels.forEach((c, i) => {
-        const key = `${c.dof}|${result.excitationDof}`;
+        const response = canonicalLabel(c.dof);
+        const reference = canonicalLabel(result.excitationDof);
+        const key = `${response}|${reference}`;
         if (seen.has(key)) return;
         seen.add(key);
-        frfs.push({ response: c.dof, reference: result.excitationDof, h: result.frf.h1[i]! });
+        const h = result.frf.h1[i]!;
+        const k = frfAxisFactor(c.dof, result.excitationDof);
+        frfs.push({ response, reference, h: k === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) } });
       });
     }
     return { set: { f: f ?? new Float64Array(0), frfs, kind: 'accelerance' as const }, settings, resultHashes: hashes, entryIds: ids };
@@ -165,8 +140,50 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     summary: 'One modal fit: status and progress, and once done the CMIF, the stabilization diagram and the chosen modes',
     handler: async ({ params, campaign: access }) => {
       const fit = await loadFit(access.campaignId, params.fitId!);
-      const { inputHash: _h, ...rest } = fit;
-      return { fit: rest };
+      const { inputHash: _h, result, draft, draftVersion, ...rest } = fit;
+      // The pole shape estimates stay on the server (the suggestion uses them); the diagram is drawn without.
+      const r = result as FitResult | null;
+      const slim = r ? { ...r, diagram: { ...r.diagram, orders: r.diagram.orders.map((o) => ({ order: o.order, poles: o.poles.map(({ shape: _s, ...p }) => p) })) } } : null;
+      const modes = fit.modes as { warnings?: QualityWarning[] } | null;
+      const warnings = [...cmifWarnings(r?.cmifPeaksWithoutColumn ?? []), ...(modes?.warnings ?? [])];
+      return { fit: { ...rest, result: slim, draft: { poles: (draft as { poles?: unknown[] } | null)?.poles ?? null, version: draftVersion }, warnings } };
+    },
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/campaigns/:campaignId/modes/fits/:fitId/suggestion',
+    tag: 'Modes',
+    access: 'viewer',
+    summary: 'Suggested modes of a finished fit: poles clustered across model orders (frequency and shape), each with its representative pole (order, index) to choose',
+    handler: async ({ params, campaign: access }) => {
+      const fit = await loadFit(access.campaignId, params.fitId!);
+      if (fit.status !== 'done' || !fit.result) throw conflict(`The fit is ${fit.status}; a suggestion needs a finished fit.`);
+      return suggestFromDiagram((fit.result as FitResult).diagram);
+    },
+  });
+
+  routes.add({
+    method: 'put',
+    path: '/campaigns/:campaignId/modes/fits/:fitId/draft',
+    tag: 'Modes',
+    access: 'lead',
+    summary: 'Keep the poles chosen so far in a fit (before shapes are computed), so a reload or a colleague sees the same choice. baseVersion is the draft version last read',
+    body: z.strictObject({ poles: z.array(z.strictObject({ order: z.number().int().min(1), index: z.number().int().min(0) })).max(200), baseVersion: z.number().int().positive() }),
+    handler: async ({ body, params, campaign: access, user: me }) => {
+      const fit = await loadFit(access.campaignId, params.fitId!);
+      if (fit.status !== 'done' || !fit.result) throw conflict(`The fit is ${fit.status}; choose poles once it is done.`);
+      const orders = (fit.result as FitResult).diagram.orders;
+      body.poles.forEach((p, i) => {
+        if (!orders.find((o) => o.order === p.order)?.poles[p.index]) throw badRequest(`poles[${i}]: the diagram has no pole ${p.index} at order ${p.order}.`);
+      });
+      const poles = body.poles.filter((p, i) => body.poles.findIndex((q) => q.order === p.order && q.index === p.index) === i);
+      return db.transaction(async (tx) => {
+        const [row] = await tx.update(modalFit).set({ draft: { poles }, draftVersion: fit.draftVersion + 1 }).where(and(eq(modalFit.id, fit.id), eq(modalFit.draftVersion, body.baseVersion))).returning({ draftVersion: modalFit.draftVersion });
+        if (!row) throw staleWrite('The chosen poles of this fit', { poles: (fit.draft as { poles?: unknown[] } | null)?.poles ?? null, version: fit.draftVersion });
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'modal-fit', entityId: fit.id, action: 'draft-poles', before: fit.draft, after: { poles } });
+        return { draft: { poles, version: row.draftVersion } };
+      });
     },
   });
 
@@ -210,14 +227,17 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
           throw badRequest(`A chosen pole has less damping than the exponential window added (${(err as Error).message}); it is not a structural mode.`);
         }
       }
+      const mass = massShapesOf(model);
       const shapes = model.modes.map((m) => m.shape);
       const mac = macMatrix(shapes, shapes).map((row) => Array.from(row));
       // How well the model reproduces each FRF: FRAC of measured against synthesized over the band.
       const inBand = Array.from(set.f).map((x, k) => [x, k] as const).filter(([x]) => x >= request.bandHz[0] && x <= request.bandHz[1]).map(([, k]) => k);
+      // Synthesis error per FRF, 100·‖H − Ĥ‖/‖H‖ over the band (dsp fitQuality).
+      const quality = fitQuality(set, model, request.bandHz);
       const fit2 = set.frfs.map((x) => {
         const syn = synthesize(model, set.f, x.response, x.reference, set.kind);
         const pick = (c: Complex) => ({ re: Float64Array.from(inBand, (k) => c.re[k]!), im: Float64Array.from(inBand, (k) => c.im[k]!) });
-        return { response: x.response, reference: x.reference, frac: frac(pick(x.h), pick(syn)) };
+        return { response: x.response, reference: x.reference, frac: frac(pick(x.h), pick(syn)), errorPercent: quality.frfs.find((q) => q.response === x.response && q.reference === x.reference)?.errorPercent ?? null };
       });
       const table = model.modes.map((m, i) => ({
         mode: i + 1,
@@ -227,11 +247,16 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
         mpc: m.mpc,
         pole: body.poles[i],
         shape: model.responses.map((dof, j) => ({ dof, re: m.shape.re[j]!, im: m.shape.im[j]!, real: m.realShape[j]! })),
+        massShape: mass.shapes[i] ?? null,
       }));
-      const modes = { table, mac, synthesisFrac: fit2, correction, model: storeModel(model), chosenBy: me.name, chosenAt: new Date().toISOString() };
-      await db.update(modalFit).set({ modes }).where(eq(modalFit.id, fit.id));
-      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'modal-fit', entityId: fit.id, action: 'choose-modes', after: table.map((t) => ({ fHz: t.fHz, zetaPercent: t.zetaPercent })) });
-      return { modes: { table, mac, synthesisFrac: fit2, correction } };
+      const warnings = [...mpcWarnings(table), ...synthesisWarnings(fit2.map((x) => ({ response: x.response, reference: x.reference, errorPercent: x.errorPercent })).filter((x): x is { response: string; reference: string; errorPercent: number } => x.errorPercent !== null))];
+      const chosenAt = new Date().toISOString();
+      const modes = { table, mac, synthesisFrac: fit2, correction, massNote: mass.note, warnings, axisConvention: AXIS_CONVENTION, model: storeModel(model), chosenBy: me.name, chosenAt };
+      await db.transaction(async (tx) => {
+        await tx.update(modalFit).set({ modes, draft: { poles: body.poles }, draftVersion: fit.draftVersion + 1 }).where(eq(modalFit.id, fit.id));
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'modal-fit', entityId: fit.id, action: 'choose-modes', after: table.map((t) => ({ fHz: t.fHz, zetaPercent: t.zetaPercent })) });
+      });
+      return { modes: { table, mac, synthesisFrac: fit2, correction, massNote: mass.note, warnings, axisConvention: AXIS_CONVENTION, chosenBy: me.name, chosenAt }, draft: { poles: body.poles, version: fit.draftVersion + 1 } };
     },
   });
 
@@ -259,21 +284,158 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     },
   });
 
+  /** The campaign's mode table as served to the page and the hand-over: rows by frequency, numbered 1…n. */
+  async function tableView(campaignId: string) {
+    const rows = await tableRows(db, campaignId);
+    const version = await tableVersion(db, campaignId);
+    return { version, rows, view: rows.map((r, i) => rowView(r, i + 1, rows)), mac: tableMac(rows) };
+  }
+
   routes.add({
     method: 'get',
     path: '/campaigns/:campaignId/modes',
     tag: 'Modes',
     access: 'viewer',
-    summary: 'The current modes of the campaign (from the newest fit with chosen modes) with the geometry, for the mode table, animation and hand-over',
+    summary: "The campaign's mode table (modes taken from one or several fits, each with its fit, band, references, order and input hash), the MAC matrix over shared DOFs, and the geometry for the animation",
     handler: async ({ campaign: access }) => {
-      const fits = await db.select().from(modalFit).where(eq(modalFit.campaignId, access.campaignId)).orderBy(desc(modalFit.createdAt));
-      const fit = fits.find((f) => f.modes);
+      const t = await tableView(access.campaignId);
       const points = await db.select({ id: point.id, label: point.label, x: point.x, y: point.y, z: point.z }).from(point).where(eq(point.campaignId, access.campaignId));
       const lines = await db.select({ pointA: line.pointA, pointB: line.pointB }).from(line).where(eq(line.campaignId, access.campaignId));
-      if (!fit) return { fitId: null, modes: [], mac: [], points, lines };
-      const modes = fit.modes as { table: unknown[]; mac: number[][]; correction: string; chosenBy: string; chosenAt: string };
-      const request = fit.request as { bandHz: [number, number]; frfCount: number };
-      return { fitId: fit.id, bandHz: request.bandHz, frfCount: request.frfCount, modes: modes.table, mac: modes.mac, correction: modes.correction, chosenBy: modes.chosenBy, chosenAt: modes.chosenAt, points, lines };
+      const bandHz = t.rows.length ? [Math.min(...t.rows.map((r) => r.bandLowHz)), Math.max(...t.rows.map((r) => r.bandHighHz))] : null;
+      return {
+        version: t.version,
+        modes: t.view,
+        mac: t.mac,
+        bandHz,
+        fitIds: [...new Set(t.rows.map((r) => r.fitId).filter(Boolean))],
+        duplicateRule: `The same mode twice: frequencies within ${DUPLICATE_RULE.freqPercent} % and MAC ≥ ${DUPLICATE_RULE.mac} over the DOFs both shapes share (common practice).`,
+        axisConvention: AXIS_CONVENTION,
+        qualityLimits: QUALITY_LIMITS,
+        warnings: mpcWarnings(t.rows.map((r) => ({ fHz: r.fHz, mpc: r.mpc }))),
+        points,
+        lines,
+      };
+    },
+  });
+
+  routes.add({
+    method: 'post',
+    path: '/campaigns/:campaignId/modes/table',
+    tag: 'Modes',
+    access: 'lead',
+    summary: "Add modes of a fit (its computed modes, by number) to the campaign's mode table; the same mode found twice is pointed out. baseVersion is the table version last read (0 for a table not yet started)",
+    body: z.strictObject({ fitId: z.string().min(1).max(64), modes: z.array(z.number().int().min(1)).min(1, 'pick at least one mode').max(60), baseVersion: z.number().int().min(0) }),
+    status: 201,
+    handler: async ({ body, campaign: access, user: me }) => {
+      const fit = await loadFit(access.campaignId, body.fitId);
+      const computed = fit.modes as { table: { mode: number; fHz: number; zetaPercent: number; estimated: { fHz: number; zetaPercent: number }; mpc: number; pole?: { order: number; index: number }; shape: ShapeEntry[]; massShape?: { dof: string; re: number; im: number; real: number }[] | null }[]; model: StoredModel; massNote?: string } | null;
+      if (!computed) throw conflict('No shapes have been computed in this fit yet: choose poles and compute shapes first.');
+      const request = fit.request as { bandHz: [number, number] };
+      const picked = [...new Set(body.modes)].map((n, i) => {
+        const m = computed.table.find((x) => x.mode === n);
+        if (!m) throw badRequest(`modes[${i}]: the fit has no computed mode ${n} (it has ${computed.table.length}).`);
+        return m;
+      });
+      return db.transaction(async (tx) => {
+        const version = await tableVersion(tx, access.campaignId);
+        if (version !== body.baseVersion) throw staleWrite("The campaign's mode table", await tableRows(tx, access.campaignId));
+        const existing = await tableRows(tx, access.campaignId);
+        for (const m of picked) {
+          const pole = m.pole ?? { order: 0, index: m.mode - 1 };
+          const twin = existing.find((r) => r.fitId === fit.id && r.modelOrder === pole.order && r.poleIndex === pole.index);
+          if (twin) throw conflict(`Mode ${m.mode} of this fit (${m.fHz.toFixed(2)} Hz, order ${pole.order}) is already in the mode table.`, { rowId: twin.id });
+        }
+        const inserted = await tx
+          .insert(modeTableRow)
+          .values(
+            picked.map((m) => ({
+              campaignId: access.campaignId,
+              fitId: fit.id,
+              bandLowHz: request.bandHz[0],
+              bandHighHz: request.bandHz[1],
+              references: computed.model.references,
+              modelOrder: m.pole?.order ?? 0,
+              poleIndex: m.pole?.index ?? m.mode - 1,
+              inputHash: fit.inputHash,
+              fHz: m.fHz,
+              zetaPercentRaw: m.estimated.zetaPercent,
+              zetaPercent: m.zetaPercent,
+              mpc: m.mpc,
+              shape: m.shape,
+              massShape: m.massShape ?? null,
+              massNote: computed.massNote ?? '',
+              model: singleMode(computed.model, m.mode - 1),
+              addedBy: me.id,
+            })),
+          )
+          .returning();
+        await refreshDuplicates(tx, access.campaignId);
+        const next = await bumpTable(tx, access.campaignId);
+        for (const r of inserted) await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'mode-table-row', entityId: r.id, action: 'add', after: { fitId: r.fitId, fHz: r.fHz, zetaPercent: r.zetaPercent, order: r.modelOrder, poleIndex: r.poleIndex, bandHz: [r.bandLowHz, r.bandHighHz] } });
+        const rows = await tableRows(tx, access.campaignId);
+        return { version: next, added: inserted.map((r) => r.id), modes: rows.map((r, i) => rowView(r, i + 1, rows)) };
+      });
+    },
+  });
+
+  routes.add({
+    method: 'delete',
+    path: '/campaigns/:campaignId/modes/table/:rowId',
+    tag: 'Modes',
+    access: 'lead',
+    summary: "Remove a row from the campaign's mode table (the fit keeps its modes). ?baseVersion= is the table version last read",
+    query: z.strictObject({ baseVersion: z.coerce.number().int().min(0) }),
+    handler: async ({ params, query, campaign: access, user: me }) => {
+      if (!uuidSchema.safeParse(params.rowId).success) throw notFound('That mode-table row');
+      return db.transaction(async (tx) => {
+        const version = await tableVersion(tx, access.campaignId);
+        const [row] = await tx.select().from(modeTableRow).where(and(eq(modeTableRow.id, params.rowId!), eq(modeTableRow.campaignId, access.campaignId)));
+        if (!row) throw notFound('That mode-table row');
+        if (version !== query.baseVersion) throw staleWrite("The campaign's mode table", await tableRows(tx, access.campaignId));
+        await tx.delete(modeTableRow).where(eq(modeTableRow.id, row.id));
+        await refreshDuplicates(tx, access.campaignId);
+        const next = await bumpTable(tx, access.campaignId);
+        const { model: _m, ...before } = row;
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'mode-table-row', entityId: row.id, action: 'remove', before });
+        const rows = await tableRows(tx, access.campaignId);
+        return { version: next, modes: rows.map((r, i) => rowView(r, i + 1, rows)) };
+      });
+    },
+  });
+
+  routes.add({
+    method: 'get',
+    path: '/campaigns/:campaignId/modes/synthesis',
+    tag: 'Modes',
+    access: 'viewer',
+    summary: "A measured FRF against the one synthesized from every mode of the campaign's mode table (no residual terms), over the whole band the table's fits cover",
+    query: z.strictObject({ response: z.string().min(3).max(80), reference: z.string().min(3).max(80), kind: kindSchema }),
+    handler: async ({ query, campaign: access }) => {
+      const rows = await tableRows(db, access.campaignId);
+      if (rows.length === 0) throw conflict("The campaign's mode table is empty: add modes from a fit first.");
+      const { set } = await frfSetFor(access.campaignId, undefined);
+      const response = canonicalLabel(query.response);
+      const reference = canonicalLabel(query.reference);
+      const measured = set.frfs.find((x) => x.response === response && x.reference === reference);
+      if (!measured) throw notFound(`The FRF ${query.response} / ${query.reference}`);
+      const lo = Math.min(...rows.map((r) => r.bandLowHz));
+      const hi = Math.max(...rows.map((r) => r.bandHighHz));
+      const ks = Array.from(set.f).map((x, k) => [x, k] as const).filter(([x]) => x >= lo && x <= hi && x > 0).map(([, k]) => k);
+      const f = Float64Array.from(ks, (k) => set.f[k]!);
+      const syn = synthesizeFromTable(rows, f, response, reference, query.kind);
+      const meas = query.kind === 'accelerance' ? measured.h : convertFrf(measured.h, set.f, 'accelerance', query.kind);
+      const number = new Map(rows.map((r, i) => [r.id, i + 1]));
+      return {
+        kind: query.kind,
+        unit: units[query.kind],
+        bandHz: [lo, hi],
+        f: Array.from(f),
+        measured: { re: ks.map((k) => meas.re[k]!), im: ks.map((k) => meas.im[k]!) },
+        synthesized: { re: Array.from(syn.h.re), im: Array.from(syn.h.im) },
+        modesUsed: syn.used.map((id) => number.get(id)),
+        modesWithoutThisFrf: syn.missing.map((id) => number.get(id)),
+        note: 'Sum of the table’s modes without residual terms (those belong to one fitted band); modes marked as found twice are left out. Each FRF is on the positive axis of both points.',
+      };
     },
   });
 }

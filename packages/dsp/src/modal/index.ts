@@ -13,7 +13,11 @@ export {
   type StabilizationDiagram,
   type DiagramPole,
   type PoleForStability,
+  type LscfWeighting,
 } from './lscf.ts';
+export { suggestModes, type SuggestedMode, type SuggestOptions, type SuggestablePole } from './suggest.ts';
+export { massNormalisedShapes, type MassNormalisedShapes, type MassNormalisedMode } from './mass-normalise.ts';
+export { fitQuality, cmifPeaksWithoutColumn, type FitQuality, type CmifPeakCheckOptions } from './quality.ts';
 export { clusterStablePoles, type ClusterablePole, type PoleCluster, type PoleClusterOptions } from './clusters.ts';
 export { estimateShapes, synthesize, type ShapeOptions, type ModalModel, type ModelMode } from './lsfd.ts';
 export { correctWindowDamping } from './window-correction.ts';

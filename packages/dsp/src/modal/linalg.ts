@@ -1,4 +1,5 @@
 // Small dense linear algebra on row-major Float64Arrays, without allocation in the inner loops. Internal.
+import type { Complex } from '../types.ts';
 
 /** In-place Cholesky factor of the symmetric matrix a (n×n, row-major): lower triangle holds L, a = L·Lᵀ. False if not positive definite. */
 export function cholesky(a: Float64Array, n: number): boolean {
@@ -191,4 +192,28 @@ export function hermitianEigen(
     }
   }
   return { values, vre, vim };
+}
+
+/** Scales a complex vector so its largest-magnitude entry is real and equal to 1 (a zero vector is left unchanged). */
+export function normalise(v: Complex): Complex {
+  let best = -1;
+  let br = 0;
+  let bi = 0;
+  for (let i = 0; i < v.re.length; i++) {
+    const a = v.re[i] * v.re[i] + v.im[i] * v.im[i];
+    if (a > best) {
+      best = a;
+      br = v.re[i];
+      bi = v.im[i];
+    }
+  }
+  if (!(best > 0)) return { re: Float64Array.from(v.re), im: Float64Array.from(v.im) };
+  // multiply by 1/(br + j·bi) = (br − j·bi)/best
+  const re = new Float64Array(v.re.length);
+  const im = new Float64Array(v.re.length);
+  for (let i = 0; i < re.length; i++) {
+    re[i] = (v.re[i] * br + v.im[i] * bi) / best;
+    im[i] = (v.im[i] * br - v.re[i] * bi) / best;
+  }
+  return { re, im };
 }
