@@ -7,3 +7,4 @@ export * from './kit.ts';
 export * from './audit.ts';
 export * from './hits.ts';
 export * from './modes.ts';
+export * from './fe-model.ts';
