@@ -26,6 +26,7 @@ import { registerScheduleRoutes } from './routes/schedule.ts';
 import { registerSettingsRoutes } from './routes/settings.ts';
 import { registerSystemRoutes } from './routes/system.ts';
 import { registerHandoverRoutes } from './routes/handover.ts';
+import { registerFeModelRoutes } from './routes/fe-models.ts';
 
 export interface AppHandle {
   app: Express;
@@ -98,6 +99,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   await fits.recover();
   registerModeRoutes(deps, fits);
   registerHandoverRoutes(deps);
+  registerFeModelRoutes(deps);
 
   app.use('/api', resolveUser(auth));
   app.use('/api', routes.router);

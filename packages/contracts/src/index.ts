@@ -10,3 +10,4 @@ export * from './noise.ts';
 export * from './fe-model.ts';
 export * from './fe-map.ts';
 export * from './axis.ts';
+export * from './fe-api.ts';
