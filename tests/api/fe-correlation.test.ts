@@ -13,7 +13,7 @@ import { startTestApp, type TestApp } from '../support/app.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 // The zip reader is the API package's own dependency, loaded from there (as in handover.test.ts).
-const { unzipSync } = createRequire(new URL('../../apps/api/package.json', import.meta.url))('fflate') as { unzipSync: (data: Uint8Array) => Record<string, Uint8Array> };
+const { unzipSync, zipSync } = createRequire(new URL('../../apps/api/package.json', import.meta.url))('fflate') as { unzipSync: (data: Uint8Array) => Record<string, Uint8Array>; zipSync: (files: Record<string, Uint8Array>) => Uint8Array };
 
 let app: TestApp;
 let lead: ReturnType<TestApp['agent']>;
@@ -137,4 +137,42 @@ describe('the seeded baseplate campaign', () => {
     // f ∝ √k (Blevins 1979)
     got.modes.forEach((m: { frequencyHz: number }, i: number) => expect(m.frequencyHz / sim[i]!).toBeCloseTo(Math.sqrt(1.04), 12));
   });
+});
+
+const binary = <T extends { buffer: (b: boolean) => T; parse: (fn: (r: NodeJS.ReadableStream, cb: (e: Error | null, b: Buffer) => void) => void) => T }>(req: T) =>
+  req.buffer(true).parse((r, cb) => {
+    const chunks: Buffer[] = [];
+    r.on('data', (c: Buffer) => chunks.push(c));
+    r.on('end', () => cb(null, Buffer.concat(chunks)));
+  });
+
+describe('backups of a campaign with a model', () => {
+  it('carry the model version, its modes and map; the restored campaign correlates the same', async () => {
+    const backup = (await binary(lead.get(`/api/campaigns/${barId}/backup`))).body as Buffer;
+    const manifest = JSON.parse(Buffer.from(unzipSync(new Uint8Array(backup))['manifest.json']!).toString('utf8'));
+    expect(manifest.counts).toMatchObject({ fe_model: 1, fe_mode: steelBar().model.modes.filter((m) => m.fnHz > 0).length, fe_point_link: 21 });
+    const res = await lead.post('/api/campaigns/restore').attach('file', backup, 'bar.zip');
+    expect(res.status).toBe(201);
+    const restoredId = res.body.campaign.id;
+    const models = (await lead.get(`/api/campaigns/${restoredId}/fe-models`)).body.models;
+    expect(models.map((m: { versionLabel: string }) => m.versionLabel)).toEqual(['stiffer by 4 %']);
+    const before = (await lead.get(`/api/campaigns/${barId}/fe-models/${modelId}/correlation`)).body.correlation;
+    const after = (await lead.get(`/api/campaigns/${restoredId}/fe-models/${models[0].id}/correlation`)).body.correlation;
+    expect(after.pairs).toEqual(before.pairs);
+    const src = (await binary(lead.get(`/api/campaigns/${restoredId}/fe-models/${models[0].id}/source`))).body as Buffer;
+    expect(src.toString('utf8')).toBe(feModelCsvFromStructure(steelBar(), 1.04));
+  }, 120_000);
+
+  it('from before the model tables restore with no model', async () => {
+    const files = unzipSync(new Uint8Array((await binary(lead.get(`/api/campaigns/${skidId}/backup`))).body as Buffer));
+    const manifest = JSON.parse(Buffer.from(files['manifest.json']!).toString('utf8'));
+    for (const t of ['fe_model', 'fe_mode', 'fe_point_link']) {
+      delete files[`tables/${t}.json`];
+      delete manifest.counts[t];
+    }
+    files['manifest.json'] = new Uint8Array(Buffer.from(JSON.stringify(manifest)));
+    const res = await lead.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync(files)), 'old.zip');
+    expect(res.status).toBe(201);
+    expect((await lead.get(`/api/campaigns/${res.body.campaign.id}/fe-models`)).body.models).toEqual([]);
+  }, 120_000);
 });
