@@ -16,6 +16,7 @@ import { StabilizationPlot } from '../../components/modes/stabilization-plot.tsx
 import { ChosenPoles } from '../../components/modes/chosen-poles.tsx';
 import { ModeTable } from '../../components/modes/mode-table.tsx';
 import { MacHeatmap } from '../../components/modes/mac-heatmap.tsx';
+import { CorrelationPanel } from '../../components/model/correlation-panel.tsx';
 import { SynthesisPlot } from '../../components/modes/synthesis-plot.tsx';
 import { ModeAnimation } from '../../components/modes/mode-animation.tsx';
 import { useCampaignContext } from './campaign-context.ts';
@@ -155,6 +156,7 @@ export function ModesPage() {
       )}
       {modes && modes.table.length > 0 && <ModeResults campaignId={campaignId} fitId={modesFitId!} modes={modes} points={current.data?.points ?? []} lines={current.data?.lines ?? []} />}
       {fit?.status === 'done' && !modes && !canLead && <p className="text-sm text-[var(--muted)]">No modes chosen from this fit yet.</p>}
+      <CorrelationPanel campaignId={campaignId} />
     </div>
   );
 }
