@@ -214,6 +214,7 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
   const [sensors, setSensors] = useState(String(Math.min(detail.nodes.length, Math.max(6, 2 * detail.modes.length))));
   const [threshold, setThreshold] = useState('0.2');
   const [candidates, setCandidates] = useState<'nodes' | 'points'>('nodes');
+  const [keepReference, setKeepReference] = useState(campaign.referenceDofs.length > 0);
   const [proposal, setProposal] = useState<FeProposal>();
   const [chosen, setChosen] = useState<Set<string>>(new Set());
   const [reference, setReference] = useState('');
@@ -225,7 +226,7 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
     setBusy(true);
     setError(undefined);
     try {
-      const p = await api<FeProposal>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/proposal`, { body: { bandHz: [Number(low), Number(high)], axes, sensors: Number(sensors), threshold: Number(threshold), candidates } });
+      const p = await api<FeProposal>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/proposal`, { body: { bandHz: [Number(low), Number(high)], axes, sensors: Number(sensors), threshold: Number(threshold), candidates, ...(keepReference && campaign.referenceDofs.length ? { keep: campaign.referenceDofs } : {}) } });
       setProposal(p);
       setChosen(new Set(p.kept.map((k) => k.dof)));
       setReference(p.reference.dof);
@@ -280,6 +281,11 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
           </div>
         </fieldset>
       </div>
+      {campaign.referenceDofs.length > 0 && (
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={keepReference} onChange={(e) => setKeepReference(e.target.checked)} /> Always keep the current reference {campaign.referenceDofs.join(', ')} (a sensor already placed)
+        </label>
+      )}
       <Button variant="secondary" onClick={() => void propose()} disabled={busy || axes.length === 0}>
         Propose
       </Button>
