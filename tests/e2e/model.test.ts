@@ -88,11 +88,15 @@ describe('planning from the model and correlating with it', () => {
     const fitId = started.body.fit.id as string;
     await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/modes`);
     await page.waitForFunction(
-      async ({ skidId, fitId }) => (await (await fetch(`/api/campaigns/${skidId}/modes/fits/${fitId}`)).json()).fit.status === 'done',
+      async ({ skidId, fitId }) => ['done', 'failed'].includes((await (await fetch(`/api/campaigns/${skidId}/modes/fits/${fitId}`)).json()).fit.status),
       { skidId, fitId },
       { timeout: 120_000, polling: 500 },
     );
-    const suggestion = (await call(page, 'GET', `/campaigns/${skidId}/modes/fits/${fitId}/suggestion`)).body.modes as { representative: { order: number; index: number } }[];
+    const fit = (await call(page, 'GET', `/campaigns/${skidId}/modes/fits/${fitId}`)).body.fit;
+    expect(fit.status, fit.message).toBe('done');
+    const suggested = await call(page, 'GET', `/campaigns/${skidId}/modes/fits/${fitId}/suggestion`);
+    expect(suggested.status, JSON.stringify(suggested.body)).toBe(200);
+    const suggestion = suggested.body.modes as { representative: { order: number; index: number } }[];
     expect(suggestion.length).toBeGreaterThan(0);
     expect((await call(page, 'POST', `/campaigns/${skidId}/modes/fits/${fitId}/modes`, { poles: suggestion.map((m) => m.representative) })).status).toBe(200);
     const table = (await call(page, 'GET', `/campaigns/${skidId}/modes`)).body;

@@ -1,9 +1,9 @@
 // The point schedule: generated from the test type and the reference DOFs, ordered, with status,
 // required hits and assignee.
-import { aliasedTable, and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
+import { aliasedTable, and, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema, type Direction } from '@resonote/contracts';
-import { acquisitionSettings, campaign, campaignMember, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema } from '@resonote/contracts';
+import { campaign, campaignMember, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
 import { audit } from '../http/audit.ts';
