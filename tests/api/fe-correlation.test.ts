@@ -6,6 +6,7 @@
 // bundle carry it, and the seeded baseplate campaign has its model.
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type request from 'supertest';
 import { pumpSkidBaseplate, steelBar } from '@resonote/sim';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN, SKID_CAMPAIGN } from '@resonote/api/seed';
 import { feModelCsvFromStructure } from '@resonote/api/demo-fe-model';
@@ -110,11 +111,7 @@ describe('correlation of the fitted bar with a model 4 % stiffer', () => {
   });
 
   it('puts correlation.csv and correlation.json in the bundle', async () => {
-    const zip = await lead.get(`/api/campaigns/${barId}/export/bundle.zip`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const zip = await binary(lead.get(`/api/campaigns/${barId}/export/bundle.zip`));
     const files = unzipSync(new Uint8Array(zip.body as Buffer));
     const csv = Buffer.from(files['correlation.csv']!).toString('utf8').replace(/^\uFEFF/, '').trim().split(/\r?\n/);
     expect(csv[0]).toBe('test_mode,test_hz,model_mode,model_hz,frequency_difference_percent,mac');
@@ -139,11 +136,11 @@ describe('the seeded baseplate campaign', () => {
   });
 });
 
-const binary = <T extends { buffer: (b: boolean) => T; parse: (fn: (r: NodeJS.ReadableStream, cb: (e: Error | null, b: Buffer) => void) => void) => T }>(req: T) =>
-  req.buffer(true).parse((r, cb) => {
+const binary = (req: request.Test) =>
+  req.buffer(true).parse((res, done) => {
     const chunks: Buffer[] = [];
-    r.on('data', (c: Buffer) => chunks.push(c));
-    r.on('end', () => cb(null, Buffer.concat(chunks)));
+    res.on('data', (c: Buffer) => chunks.push(c));
+    res.on('end', () => done(null, Buffer.concat(chunks)));
   });
 
 describe('backups of a campaign with a model', () => {

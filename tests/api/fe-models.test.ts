@@ -51,11 +51,14 @@ describe('uploading a model version', () => {
     expect(got.status).toBe(200);
     expect(got.body.nodes[40]).toEqual({ label: 'N40', x: 1000, y: 0, z: 0 });
     expect(got.body.modes.map((m: { frequencyHz: number }) => m.frequencyHz)).toEqual([20, 80, 180]);
-    const src = await crew.viewer.agent.get(`${base()}/fe-models/${res.body.model.id}/source`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (c: Buffer) => chunks.push(c));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const src = await crew.viewer.agent
+      .get(`${base()}/fe-models/${res.body.model.id}/source`)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => done(null, Buffer.concat(chunks)));
+      });
     expect((src.body as Buffer).toString('utf8')).toBe(csv);
   });
 

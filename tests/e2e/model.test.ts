@@ -94,13 +94,15 @@ describe('planning from the model and correlating with it', () => {
     );
     const fit = (await call(page, 'GET', `/campaigns/${skidId}/modes/fits/${fitId}`)).body.fit;
     expect(fit.status, fit.message).toBe('done');
-    const suggested = await call(page, 'GET', `/campaigns/${skidId}/modes/fits/${fitId}/suggestion`);
-    expect(suggested.status, JSON.stringify(suggested.body)).toBe(200);
-    const suggestion = suggested.body.modes as { representative: { order: number; index: number } }[];
-    expect(suggestion.length).toBeGreaterThan(0);
-    expect((await call(page, 'POST', `/campaigns/${skidId}/modes/fits/${fitId}/modes`, { poles: suggestion.map((m) => m.representative) })).status).toBe(200);
+    // The lead's pick: every pole stable in frequency, damping and vector at the highest order.
+    const top = fit.result.diagram.orders.at(-1) as { order: number; poles: { fHz: number; stable: string }[] };
+    const poles = top.poles.flatMap((p, index) => (p.stable === 'all' ? [{ order: top.order, index }] : []));
+    console.log(`[figure] baseplate fit 5–120 Hz: ${poles.length} fully stable poles at order ${top.order}: ${top.poles.filter((p) => p.stable === 'all').map((p) => p.fHz.toFixed(2)).join(', ')} Hz`);
+    expect(poles.length).toBeGreaterThan(0);
+    const computed = await call(page, 'POST', `/campaigns/${skidId}/modes/fits/${fitId}/modes`, { poles });
+    expect(computed.status, JSON.stringify(computed.body)).toBe(200);
     const table = (await call(page, 'GET', `/campaigns/${skidId}/modes`)).body;
-    const added = await call(page, 'POST', `/campaigns/${skidId}/modes/table`, { fitId, modes: suggestion.map((_, i) => i + 1), baseVersion: table.version });
+    const added = await call(page, 'POST', `/campaigns/${skidId}/modes/table`, { fitId, modes: poles.map((_, i) => i + 1), baseVersion: table.version });
     expect(added.status, JSON.stringify(added.body)).toBe(201);
 
     // The correlation table on Modes.
