@@ -34,6 +34,7 @@ import { registerSystemRoutes } from './routes/system.ts';
 import { registerHandoverRoutes } from './routes/handover.ts';
 import { registerTokenRoutes } from './routes/tokens.ts';
 import { registerArmingRoutes } from './routes/arming.ts';
+import { registerFeModelRoutes } from './routes/fe-models.ts';
 
 export interface AppHandle {
   app: Express;
@@ -126,6 +127,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerModeRoutes(deps, fits);
   registerHandoverRoutes(deps);
   registerJobRoutes(deps);
+  registerFeModelRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
   app.use('/api', routes.router);

@@ -4,6 +4,7 @@
 // and checks as real ones. Idempotent: what exists is left as it is.
 import { eq } from 'drizzle-orm';
 import { createRng, pumpSkidBaseplate, simulateHit, steelBar } from '@resonote/sim';
+import { DEMO_MODEL_STIFFNESS_FACTOR, feModelCsvFromStructure } from './demo/fe-model.ts';
 import { campaign, campaignMember, user } from '@resonote/db/schema';
 import type { AppHandle } from './app.ts';
 import { buildCampaign, type CampaignSpec } from './demo/factory.ts';
@@ -107,6 +108,13 @@ export async function seedDemo(handle: AppHandle, options: { log?: (m: string) =
       for (const spec of missing) {
         const started = Date.now();
         const built = await buildCampaign(admin, spec);
+        if (spec.simulator === 'pump-skid') {
+          // The baseplate's FE model: the simulator's modes with the stiffness 4 % higher (demo/fe-model.ts).
+          const model = await admin.request('POST', `/api/campaigns/${built.campaignId}/fe-models`, { text: feModelCsvFromStructure(pumpSkidBaseplate(), DEMO_MODEL_STIFFNESS_FACTOR, 'PS-300 baseplate, design model'), versionLabel: 'design v1', fileName: 'ps300-baseplate-modes.csv' });
+          if (model.status >= 300) throw new Error(`demo FE model: ${model.status} ${JSON.stringify(model.body)}`);
+          const map = await admin.request('POST', `/api/campaigns/${built.campaignId}/fe-models/${model.body.model.id}/map/auto`, { by: 'label' });
+          if (map.status >= 300) throw new Error(`demo FE map: ${map.status} ${JSON.stringify(map.body)}`);
+        }
         // The demo lead leads it; the admin steps back to the instance role only.
         await db.insert(campaignMember).values([
           { campaignId: built.campaignId, userId: ids.lead!, role: 'lead' },

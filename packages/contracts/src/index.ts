@@ -7,5 +7,8 @@ export * from './schedule.ts';
 export * from './kit.ts';
 export * from './settings.ts';
 export * from './noise.ts';
+export * from './fe-model.ts';
+export * from './fe-map.ts';
 export * from './axis.ts';
 export * from './bridge.ts';
+export * from './fe-api.ts';

@@ -31,3 +31,4 @@ export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type Averaged
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
 export { resamplePoly, resampleRatio, resampleFilter, type ResampleRatio } from './resample.ts';
+export * from './correlation/index.ts';

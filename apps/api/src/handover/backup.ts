@@ -14,7 +14,7 @@ import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, feMode, feModel, fePointLink, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -56,6 +56,10 @@ const TABLES: TableSpec[] = [
   // The campaign's mode table; a backup from before it existed restores with an empty table.
   { name: 'mode_table', table: modeTable, userCols: [], hasUuidId: false, addedLater: true },
   { name: 'mode_table_row', table: modeTableRow, userCols: ['addedBy'], hasUuidId: true, addedLater: true },
+  // FE model versions (issue 19); a backup from before them restores with none.
+  { name: 'fe_model', table: feModel, userCols: ['uploadedBy'], hasUuidId: true, addedLater: true },
+  { name: 'fe_mode', table: feMode, userCols: [], hasUuidId: true, addedLater: true },
+  { name: 'fe_point_link', table: fePointLink, userCols: [], hasUuidId: true, addedLater: true },
   { name: 'audit_event', table: auditEvent, userCols: ['actorId'], hasUuidId: false },
 ];
 
@@ -111,6 +115,9 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         modal_fit: await byCampaign(modalFit as never, asc(modalFit.createdAt)),
         mode_table: await byCampaign(modeTable as never),
         mode_table_row: await byCampaign(modeTableRow as never, asc(modeTableRow.addedAt)),
+        fe_model: await byCampaign(feModel as never, asc(feModel.uploadedAt)),
+        fe_mode: await byCampaign(feMode as never),
+        fe_point_link: await byCampaign(fePointLink as never),
         audit_event: await byCampaign(auditEvent as never, asc(auditEvent.id)),
       };
       const members = await tx

@@ -134,6 +134,12 @@ mode-shapes-mass-normalised.csv
                   Directions: every DOF is on the positive axis of its point (+X, +Y, +Z); a DOF
                   measured as -Z had its values multiplied by -1 (H(i,-d) = -H(i,+d)).
 mac.csv           the MAC matrix of the table's shapes over the DOFs each pair shares
+correlation.csv   test modes paired with the newest FE model version by MAC (Allemang & Brown 1982),
+                  highest MAC first: test_mode,test_hz,model_mode,model_hz,frequency_difference_percent,mac
+                  (difference = (f_test - f_model)/f_model x 100); only when the campaign holds a model
+correlation.json  the same with the model version, the DOFs compared, the full MAC matrix (test rows,
+                  model columns), unpaired modes and cross-orthogonality (SEREP-reduced mass,
+                  O'Callahan, Avitabile & Riemer 1989) where both sides are mass-normalised
 settings.json     { currentVersion, current, history: [{ version, settings, reason, createdAt, createdBy }] }
                   field names carry their units (sampleRateHz, recordLengthS, triggerLevelN, ...)
 kit.json          hammers and accelerometers with sensitivities (as entered and in base units),
@@ -266,6 +272,7 @@ export function bundleContent(d: HandoverData) {
     settings: { currentVersion: d.settings.version, current: d.settings.settings, history: d.settings.history },
     kit: { items: d.kit, channels: d.channels },
     noise: d.noise.map((n) => ({ recordedAt: n.at.toISOString(), recordedBy: n.by, source: n.source, durationS: n.durationS, channels: n.channels })),
+    correlation: d.correlation ? { model: { ...d.correlation.model, uploadedAt: d.correlation.model.uploadedAt.toISOString() }, ...d.correlation.result } : null,
   };
 }
 
@@ -312,6 +319,11 @@ function bundleFiles(d: HandoverData, raw: RawHit[] | null): [string, Uint8Array
   put('mode-shapes.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => m.shape.map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
   put('mode-shapes-mass-normalised.csv', toCsv(['mode', 'dof', 're', 'im', 'real'], (modes?.table ?? []).flatMap((m) => (m.massShape ?? []).map((s) => [m.mode, s.dof, s.re, s.im, s.real]))));
   put('mac.csv', toCsv(['mode', ...(modes?.table ?? []).map((m) => String(m.mode))], (modes?.mac ?? []).map((row, i) => [i + 1, ...row])));
+  if (b.correlation) {
+    const k = b.correlation;
+    put('correlation.json', JSON.stringify(k, null, 2));
+    put('correlation.csv', toCsv(['test_mode', 'test_hz', 'model_mode', 'model_hz', 'frequency_difference_percent', 'mac'], k.ok ? k.pairs.map((p) => [p.testMode, p.testHz, p.modelMode, p.modelHz, p.frequencyDifferencePercent ?? '', p.mac]) : []));
+  }
   put('settings.json', JSON.stringify(b.settings, null, 2));
   put('kit.json', JSON.stringify(b.kit, null, 2));
   put(

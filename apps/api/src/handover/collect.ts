@@ -11,6 +11,8 @@ import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
 import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis, type Comparison } from '../hits/checks.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
+import { correlate, testModesForCorrelation, type Correlation } from '../fe/correlation.ts';
+import { latestModelId, loadModel } from '../fe/store.ts';
 import { DUPLICATE_RULE, rowView, tableMac, tableRows } from '../modes/mode-table.ts';
 import {
   currentSettings,
@@ -79,6 +81,20 @@ export interface HandoverModes {
   axisConvention: string;
 }
 
+export interface HandoverCorrelation {
+  model: { id: string; name: string; versionLabel: string; normalisation: string; uploadedAt: Date; nodeCount: number; modeCount: number };
+  result: Correlation;
+}
+
+/** The newest model version against the mode table (fe/correlation.ts), or null when there is no model. */
+export async function correlationOf(db: Db, campaignId: string): Promise<HandoverCorrelation | null> {
+  const id = await latestModelId(db, campaignId);
+  if (!id) return null;
+  const s = await loadModel(db, campaignId, id);
+  const r = s.row;
+  return { model: { id: r.id, name: r.name, versionLabel: r.versionLabel, normalisation: r.normalisation, uploadedAt: r.uploadedAt, nodeCount: r.nodeCount, modeCount: r.modeCount }, result: correlate(s.model, s.links, await testModesForCorrelation(db, campaignId)) };
+}
+
 export interface HandoverChecks {
   reciprocity: ({ a: { response: string; excitation: string }; b: { response: string; excitation: string } } & Comparison)[];
   linearity: ({ entry: { response: string; excitation: string }; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number } & Comparison)[];
@@ -110,6 +126,8 @@ export interface HandoverData {
   frfs: HandoverFrf[];
   checks: HandoverChecks | null;
   modes: HandoverModes | null;
+  /** Correlation of the mode table with the campaign's newest FE model version; null without a model. */
+  correlation: HandoverCorrelation | null;
 }
 
 const day = (d: Date) => d.toISOString().slice(0, 10);
@@ -306,6 +324,7 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
   const frfs = await frfsOf(db, campaignId, schedule, current);
   const checks = options.checks === false ? null : await checksOf(db, campaignId, schedule, frfs, current);
   const modes = await modesOf(db, campaignId);
+  const correlation = await correlationOf(db, campaignId);
 
   return {
     generatedAt: new Date(),
@@ -331,6 +350,7 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
     frfs,
     checks,
     modes,
+    correlation,
   };
 }
 

@@ -3,7 +3,7 @@
 import type { AcquisitionSettings } from '@resonote/contracts';
 import { exponentialWindowOf, recordSamples } from '../hits/processing.ts';
 import type { HandoverData } from './collect.ts';
-import { esc, frfThumbSvg, geometrySvg, modeShapeSvg } from './svg.ts';
+import { esc, frequencyPairSvg, frfThumbSvg, geometrySvg, modeShapeSvg } from './svg.ts';
 
 export const DB_REFERENCE = 'dB re 1 (m/s²)/N';
 
@@ -84,6 +84,35 @@ export interface ReportOptions {
   /** Shown on a shared (read-only) copy. */
   sharedUntil?: Date;
   publicUrl: string;
+}
+
+/** Test against the FE model: pairs by MAC, frequency differences, MAC matrix, cross-orthogonality, frequency plot. */
+function correlationSection(d: HandoverData): string {
+  const k = d.correlation;
+  const title = '<h2>Correlation with the finite-element model</h2>';
+  if (!k) return `<section>${title}<p class="muted">The campaign holds no finite-element model, so there is no correlation.</p></section>`;
+  const about = `<p>Model <b>${esc(k.model.name)}</b>, version ${esc(k.model.versionLabel)} (uploaded ${esc(k.model.uploadedAt.toISOString().slice(0, 10))}; ${k.model.nodeCount} nodes, ${k.model.modeCount} modes; shapes ${k.model.normalisation === 'mass' ? 'mass-normalised' : 'not mass-normalised'}).</p>`;
+  const r = k.result;
+  if (!r.ok) return `<section>${title}${about}<p class="muted">${esc(r.why)}</p></section>`;
+  const rows = r.pairs
+    .map((p) => `<tr><td class="n r">${p.testMode}</td><td class="n r">${p.testHz.toFixed(2)}</td><td class="n r">${p.modelMode}</td><td class="n r">${p.modelHz.toFixed(2)}</td><td class="n r">${p.frequencyDifferencePercent === null ? '—' : `${p.frequencyDifferencePercent >= 0 ? '+' : ''}${p.frequencyDifferencePercent.toFixed(2)}`}</td><td class="n r">${p.mac.toFixed(3)}</td></tr>`)
+    .join('');
+  const head = r.modelModes.map((m) => `<th class="n">${m.number}</th>`).join('');
+  const macRows = r.mac.map((row, i) => `<tr><th class="n">${r.testModes[i]!.mode}</th>${row.map((v) => `<td class="n mac" style="${shade(v)}">${v.toFixed(2)}</td>`).join('')}</tr>`).join('');
+  const xo = r.crossOrthogonality;
+  const xoHtml = xo.ok
+    ? `<h3>Cross-orthogonality (${esc(xo.method)})</h3><p class="small">${esc(xo.words)}</p><table class="grid macm"><thead><tr><th></th>${r.pairs.map((p) => `<th class="n">FE ${p.modelMode}</th>`).join('')}</tr></thead><tbody>${xo.matrix.map((row, i) => `<tr><th class="n">test ${r.pairs[i]!.testMode}</th>${row.map((v) => `<td class="n mac" style="${shade(Math.abs(v))}">${v.toFixed(2)}</td>`).join('')}</tr>`).join('')}</tbody></table>`
+    : `<p class="small">Cross-orthogonality: ${esc(xo.why)}</p>`;
+  const unpaired = [
+    r.unpairedTest.length ? `test modes without a partner: ${r.unpairedTest.join(', ')}` : '',
+    r.unpairedModel.length ? `model modes without a partner: ${r.unpairedModel.join(', ')}` : '',
+  ].filter(Boolean);
+  return `<section>${title}${about}<p>${esc(r.words)}</p>
+<table class="grid keep" style="width:auto"><thead><tr><th>Test mode</th><th>f test (Hz)</th><th>Model mode</th><th>f model (Hz)</th><th>Δf (%)</th><th>MAC (–)</th></tr></thead><tbody>${rows}</tbody></table>
+<p class="small">Δf = (f_test − f_model)/f_model × 100 %. ${unpaired.length ? esc(unpaired.join('; ')) + '.' : ''} ${esc(r.method)} Test modes from ${esc(r.source)}.</p>
+<div class="two"><div class="keep"><h3>MAC, test (rows) against model (columns)</h3><table class="grid macm"><thead><tr><th></th>${head}</tr></thead><tbody>${macRows}</tbody></table></div>
+<div class="keep"><h3>Test against model frequencies</h3>${frequencyPairSvg(r.pairs.map((p) => ({ testHz: p.testHz, modelHz: p.modelHz, label: `test ${p.testMode} / model ${p.modelMode}` })))}<p class="small">Dashed: f_test = f_model; a dot below it is a test mode lower than the model's.</p></div></div>
+${xoHtml}</section>`;
 }
 
 export function renderReport(d: HandoverData, options: ReportOptions): string {
@@ -217,6 +246,8 @@ ${massTable}
   } else {
     sec.push(`<section><h2>9. Modes</h2><p class="muted">The campaign\'s mode table is empty: no modes have been added from a fit yet.</p></section>`);
   }
+
+  sec.push(correlationSection(d));
 
   // 10. Cautions
   sec.push(`<section class="keep caution"><h2>10. Safety and interpretation</h2><ul>

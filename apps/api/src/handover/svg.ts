@@ -306,3 +306,18 @@ export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { po
   parts.push(`<text x="8" y="${height - 3}" font-size="7" ${SANS} fill="#555">${esc(caption)} · dashed: at rest${unmeasured ? ' · hollow: not fitted' : ''}</text>`);
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
 }
+
+/** Test against model natural frequencies (Hz), one dot per pair, with the 45° line f_test = f_model. */
+export function frequencyPairSvg(pairs: { testHz: number; modelHz: number; label: string }[], width = 300): string {
+  const height = width;
+  const all = pairs.flatMap((p) => [p.testHz, p.modelHz]);
+  const ticks = niceTicks(0, Math.max(1, ...all) * 1.05, 5);
+  const top = ticks.at(-1) ?? 1;
+  const f: Frame = { x0: 46, y0: 10, w: width - 58, h: height - 50, xMin: 0, xMax: top, yMin: 0, yMax: top };
+  const parts = [axes(f, ticks, ticks, 'model frequency (Hz)', 'test frequency (Hz)')];
+  parts.push(`<line x1="${sx(f, 0)}" y1="${sy(f, 0)}" x2="${sx(f, top)}" y2="${sy(f, top)}" stroke="#8a918e" stroke-width="0.7" stroke-dasharray="4 3"/>`);
+  for (const p of pairs) {
+    parts.push(`<circle cx="${sx(f, p.modelHz).toFixed(1)}" cy="${sy(f, p.testHz).toFixed(1)}" r="2.6" fill="#1f5f8b"><title>${esc(p.label)}</title></circle>`);
+  }
+  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="${width}" height="${height}" role="img" aria-label="Test against model frequencies, with the line where they are equal">${parts.join('')}</svg>`;
+}

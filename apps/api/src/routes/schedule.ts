@@ -1,15 +1,15 @@
 // The point schedule: generated from the test type and the reference DOFs, ordered, with status,
 // required hits and assignee.
-import { aliasedTable, and, asc, eq, inArray, isNull, sql } from 'drizzle-orm';
+import { aliasedTable, and, eq, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema, type Direction } from '@resonote/contracts';
-import { acquisitionSettings, campaign, campaignMember, hit, point, scheduleEntry, user } from '@resonote/db/schema';
+import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema, uuidSchema } from '@resonote/contracts';
+import { campaign, campaignMember, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, forbidden, HttpError, notFound } from '../errors.ts';
-import { pairKey, planSchedule } from '../plan/schedule-plan.ts';
+import { generateSchedule } from '../plan/schedule-generate.ts';
 
 const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
@@ -51,36 +51,7 @@ export function registerScheduleRoutes({ routes, db, events }: Deps): void {
     body: scheduleGenerateSchema,
     returns: '{ added, removed, kept, entries }',
     handler: async ({ body, campaign: access, user: me }) => {
-      const summary = await db.transaction(async (tx) => {
-        const [c] = await tx.select().from(campaign).where(eq(campaign.id, access.campaignId)).for('update');
-        if (!c) throw notFound('That campaign');
-        const points = await tx.select({ id: point.id, label: point.label, directions: point.directions }).from(point).where(and(eq(point.campaignId, c.id), isNull(point.retiredAt)));
-        const plan = planSchedule(c.testType, c.referenceDofs, points.map((p) => ({ ...p, directions: p.directions as Direction[] })));
-        if (!plan.ok) throw new HttpError(400, 'cannot-plan', plan.message);
-        const [settings] = await tx.select({ settings: acquisitionSettings.settings }).from(acquisitionSettings).where(eq(acquisitionSettings.campaignId, c.id)).orderBy(sql`${acquisitionSettings.version} DESC`).limit(1);
-        const requiredHits = body.requiredHits ?? (settings?.settings as { hitsToAverage?: number } | undefined)?.hitsToAverage ?? 5;
-        const existing = await tx.select().from(scheduleEntry).where(eq(scheduleEntry.campaignId, c.id));
-        const wanted = new Set(plan.pairs.map(pairKey));
-        const have = new Map(existing.map((e) => [pairKey(e), e]));
-        const stale = existing.filter((e) => !wanted.has(pairKey(e)));
-        let removed = 0;
-        if (stale.length) {
-          const withHits = new Set(
-            (await tx.selectDistinct({ id: hit.scheduleEntryId }).from(hit).where(inArray(hit.scheduleEntryId, stale.map((s) => s.id)))).map((r) => r.id),
-          );
-          const removable = stale.filter((s) => s.status === 'planned' && !withHits.has(s.id)).map((s) => s.id);
-          if (removable.length) {
-            await tx.delete(scheduleEntry).where(inArray(scheduleEntry.id, removable));
-            removed = removable.length;
-          }
-        }
-        let position = existing.reduce((m, e) => Math.max(m, e.position), 0);
-        const toAdd = plan.pairs.filter((p) => !have.has(pairKey(p))).map((p) => ({ ...p, campaignId: c.id, position: ++position, requiredHits }));
-        for (let i = 0; i < toAdd.length; i += 1000) await tx.insert(scheduleEntry).values(toAdd.slice(i, i + 1000));
-        const result = { added: toAdd.length, removed, kept: existing.length - removed };
-        await audit(tx, { campaignId: c.id, actorId: me.id, entity: 'schedule', entityId: c.id, action: 'generate', after: { ...result, testType: c.testType, referenceDofs: c.referenceDofs, requiredHits } });
-        return result;
-      });
+      const summary = await db.transaction((tx) => generateSchedule(tx, access.campaignId, me.id, body.requiredHits));
       void events.publish(access.campaignId, { type: 'schedule' });
       return { ...summary, entries: await listSchedule(access.campaignId) };
     },

@@ -9,3 +9,4 @@ export * from './hits.ts';
 export * from './modes.ts';
 export * from './bridge.ts';
 export * from './jobs.ts';
+export * from './fe-model.ts';

@@ -6,6 +6,7 @@ import { ReportPanel } from '../../components/handover/report-panel.tsx';
 import { BundlePanel } from '../../components/handover/bundle-panel.tsx';
 import { SharePanel } from '../../components/handover/share-panel.tsx';
 import { BackupPanel } from '../../components/handover/backup-panel.tsx';
+import { CorrelationPanel } from '../../components/model/correlation-panel.tsx';
 import { useCampaignContext } from './campaign-context.ts';
 
 export function HandoverPage() {
@@ -25,6 +26,7 @@ export function HandoverPage() {
           <p className="mt-2 text-xs text-[var(--muted)]">Fitted modes describe this test set-up; decisions about the structure belong to licensed practice under local codes.</p>
         </Panel>
       </div>
+      <CorrelationPanel campaignId={campaignId} />
       {canLead ? (
         <>
           <Panel title="Data bundles">

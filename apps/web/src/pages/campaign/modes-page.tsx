@@ -17,6 +17,7 @@ import { StabilizationPlot } from '../../components/modes/stabilization-plot.tsx
 import { ChosenPoles } from '../../components/modes/chosen-poles.tsx';
 import { ModeTable } from '../../components/modes/mode-table.tsx';
 import { MacHeatmap } from '../../components/modes/mac-heatmap.tsx';
+import { CorrelationPanel } from '../../components/model/correlation-panel.tsx';
 import { SynthesisPlot } from '../../components/modes/synthesis-plot.tsx';
 import { ModeAnimation } from '../../components/modes/mode-animation.tsx';
 import { useCampaignContext } from './campaign-context.ts';
@@ -193,6 +194,7 @@ export function ModesPage() {
       {fit?.status === 'done' && !fit.modes && !canLead && <p className="text-sm text-[var(--muted)]">No shapes computed in this fit yet.</p>}
       {current.isPending && <Spinner label="Loading the mode table…" />}
       {current.data && <TableResults campaignId={campaignId} table={current.data} entries={entries} canLead={canLead} />}
+      <CorrelationPanel campaignId={campaignId} />
     </div>
   );
 }

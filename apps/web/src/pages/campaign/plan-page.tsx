@@ -1,4 +1,5 @@
-// Plan: campaign settings, geometry (table, CSV import, 3D preview), the schedule, and the people.
+// Plan: campaign settings, geometry (table, CSV import, 3D preview), the FE model (versions, map,
+// proposal), the schedule, and the people.
 import { useParams } from 'react-router';
 import { useGeometry, useMembers, useSchedule } from '../../lib/campaign-data.ts';
 import { GeometryView } from '../../components/geometry-view.tsx';
@@ -9,6 +10,7 @@ import { GeometryTable } from './plan/geometry-table.tsx';
 import { GeometryImport } from './plan/geometry-import.tsx';
 import { ScheduleList } from './plan/schedule-list.tsx';
 import { MembersCard } from './plan/members-card.tsx';
+import { ModelSection } from './plan/model-section.tsx';
 
 export function PlanPage() {
   const { campaignId = '' } = useParams();
@@ -44,6 +46,7 @@ export function PlanPage() {
           </Panel>
         </div>
       </div>
+      <ModelSection campaignId={campaignId} campaign={campaign} canLead={canLead} />
       {schedule.isPending && <Spinner label="Loading the schedule…" />}
       {schedule.isError && <Notice tone="error">The schedule could not be loaded: {schedule.error.message}</Notice>}
       {schedule.data && <ScheduleList campaignId={campaignId} entries={schedule.data.entries} members={members.data?.members ?? []} canLead={canLead} />}
