@@ -111,7 +111,7 @@ export function pffftPlan(mod: PffftModule, n: number): RealFftPlan | null {
  */
 export async function useFastFft(): Promise<boolean> {
   if (!loaded) {
-    if (typeof WebAssembly !== 'object') return false;
+    if (typeof (globalThis as { WebAssembly?: unknown }).WebAssembly !== 'object') return false;
     try {
       const { default: factory } = await import('@echogarden/pffft-wasm/simd');
       loaded = await factory();
