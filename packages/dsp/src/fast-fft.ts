@@ -8,6 +8,7 @@
 // Inputs are rounded to float32 on the way in and the spectrum comes back as float32; the sums of the
 // averaging engine stay in float64. For what this means for 24-bit data see docs/decisions/fast-fft.md.
 // Separate entry point (@resonote/dsp/fast-fft) so the web bundle never pulls the WebAssembly glue.
+/// <reference path="./pffft-wasm.d.ts" />
 import { setFastPlanFactory, type RealFftPlan } from './fft.ts';
 import type { PffftModule } from '@echogarden/pffft-wasm/simd';
 
