@@ -2,6 +2,7 @@
 // shut down cleanly on SIGINT/SIGTERM.
 import { migrateDatabase } from '@resonote/db/migrate';
 import { ConfigError, loadConfig, type Config } from './config.ts';
+import { useFastFft } from '@resonote/dsp/fast-fft';
 import { createApp } from './app.ts';
 import { createHttpServer } from './http/listen.ts';
 import { seedDemo } from './seed.ts';
@@ -38,6 +39,11 @@ try {
   console.error(`[resonote] database migration failed against ${config.databaseUrl.replace(/:[^:@/]*@/, ':***@')}: ${(err as Error).message}`);
   process.exit(1);
 }
+
+// Power-of-two FFTs on the server use PFFFT's WebAssembly SIMD build when this Node can run it;
+// otherwise fft.js (docs/decisions/fast-fft.md).
+const fastFft = await useFastFft();
+console.log(`[resonote] FFT: ${fastFft ? 'PFFFT WebAssembly SIMD (float32)' : 'fft.js (float64)'}`);
 
 const handle = await createApp({ config });
 let demo: Awaited<ReturnType<typeof seedDemo>> | undefined;

@@ -225,14 +225,53 @@ class BluesteinPlan extends CrossSums implements RealFftPlan {
 
 const plans = new Map<number, RealFftPlan>();
 
+/**
+ * A source of faster plans for power-of-two lengths (e.g. the WebAssembly build of fast-fft.ts on
+ * the server). It returns null for a length it does not handle, and fft.js serves that length.
+ */
+export type FastPlanFactory = (n: number) => RealFftPlan | null;
+let fastFactory: FastPlanFactory | null = null;
+let fastName = '';
+let generation = 0;
+
+/** Increases whenever the plan source changes: holders of cached plans (the averager pool) compare it. */
+export function planGeneration(): number {
+  return generation;
+}
+
+/**
+ * Installs (or with null removes) the fast power-of-two plan source and empties the plan cache, so
+ * plans made afterwards use it. Objects already holding a plan keep theirs. Default: none (fft.js).
+ */
+export function setFastPlanFactory(factory: FastPlanFactory | null, name = 'fast'): void {
+  fastFactory = factory;
+  fastName = factory ? name : '';
+  plans.clear();
+  generation++;
+}
+
+/**
+ * Which transform serves power-of-two lengths: 'fft.js-f64' by default, else the installed source's
+ * name. Stored results include it in their key, since the two differ at float32 rounding level.
+ */
+export function fftPathName(): string {
+  return fastFactory ? fastName : 'fft.js-f64';
+}
+
 /** Returns the cached real-FFT plan for length n (n >= 1). Not thread-safe across workers (each worker has its own cache). */
 export function realFftPlan(n: number): RealFftPlan {
   let plan = plans.get(n);
   if (!plan) {
     if (n <= 2) plan = new TinyPlan(n);
-    else if (isPowerOfTwo(n)) plan = new PowerOfTwoPlan(n);
+    else if (isPowerOfTwo(n)) plan = fastFactory?.(n) ?? new PowerOfTwoPlan(n);
     else plan = new BluesteinPlan(n);
     plans.set(n, plan);
   }
   return plan;
+}
+
+/** A new double-precision fft.js plan for length n, whatever fast source is installed: the reference in tests and benches. */
+export function referenceRealFftPlan(n: number): RealFftPlan {
+  if (n <= 2) return new TinyPlan(n);
+  return isPowerOfTwo(n) ? new PowerOfTwoPlan(n) : new BluesteinPlan(n);
 }

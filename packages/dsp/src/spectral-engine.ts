@@ -5,7 +5,7 @@
 // channels. The public functions only scale these sums (after scipy.signal's _spectral_helper,
 // which is written the same way). Conjugation: the reference is conjugated, G_fx = E[F*·X]
 // (docs/methods.md#conventions, #frf-averaging; scipy.signal.csd(x, y) order).
-import { realFftPlan, type RealFftPlan } from './fft.ts';
+import { planGeneration, realFftPlan, type RealFftPlan } from './fft.ts';
 import { checkSamples } from './validate.ts';
 
 export class SpectralAverager {
@@ -118,7 +118,8 @@ const pool = new Map<string, SpectralAverager>();
  * hits then allocates only its results. The caller must read the sums before the next call.
  */
 export function pooledAverager(n: number, channels: number): SpectralAverager {
-  const key = `${n}:${channels}`;
+  // The plan generation is part of the key, so a change of FFT source (fast-fft.ts) is never bypassed.
+  const key = `${n}:${channels}:${planGeneration()}`;
   let avg = pool.get(key);
   if (!avg) {
     if (pool.size >= 8) pool.clear();

@@ -5,6 +5,7 @@ import { aliasedTable, and, asc, desc, eq, inArray } from 'drizzle-orm';
 import {
   FRF_ALGORITHM_VERSION,
   averageFrf,
+  fftPathName,
   checkHit,
   defaultHitLimits,
   findTrigger,
@@ -322,11 +323,12 @@ function meanOverBand(values: Float64Array, f: Float64Array, lo: number, hi: num
 
 /**
  * The key of a stored result: the settings version, the accepted hits (id and version, in order)
- * and the version of the averaging code, so a result computed by older code is never served.
+ * the version of the averaging code and the FFT in use (float64 fft.js or the float32 WebAssembly
+ * build, docs/decisions/fast-fft.md), so a result computed by other code is never served.
  */
 export function entryInputHash(settingsVersion: number, hits: readonly { id: string; version: number }[]): string {
   return createHash('sha256')
-    .update(JSON.stringify({ algorithm: FRF_ALGORITHM_VERSION, v: settingsVersion, hits: hits.map((h) => `${h.id}:${h.version}`) }))
+    .update(JSON.stringify({ algorithm: FRF_ALGORITHM_VERSION, fft: fftPathName(), v: settingsVersion, hits: hits.map((h) => `${h.id}:${h.version}`) }))
     .digest('hex');
 }
 
