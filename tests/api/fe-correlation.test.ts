@@ -79,7 +79,9 @@ describe('correlation of the fitted bar with a model 4 % stiffer', () => {
     expect(k.ok).toBe(true);
     expect(k.dofs).toHaveLength(21);
     expect(k.pairs).toHaveLength(4);
-    const zBendingHz = steelBar().model.modes.filter((m) => m.fnHz > 0 && Object.keys(m.shape).some((d) => d.endsWith(':+Z'))).map((m) => m.fnHz).sort((a, b) => a - b);
+    // Bending modes in Z only: the bar's rigid-body modes on its soft supports sit near 2 Hz
+    // (docs/methods.md#demo-bar), far below the fitted band and the first bending mode (53.17 Hz).
+    const zBendingHz = steelBar().model.modes.filter((m) => m.fnHz > 20 && Object.keys(m.shape).some((d) => d.endsWith(':+Z'))).map((m) => m.fnHz).sort((a, b) => a - b);
     for (const [i, p] of (k.pairs as { testMode: number; modelMode: number; mac: number; frequencyDifferencePercent: number; testHz: number; modelHz: number }[]).sort((a, b) => a.testMode - b.testMode).entries()) {
       console.log(`[figure] test mode ${p.testMode} ${p.testHz.toFixed(3)} Hz ↔ model mode ${p.modelMode} ${p.modelHz.toFixed(3)} Hz: Δf ${p.frequencyDifferencePercent.toFixed(3)} %, MAC ${p.mac.toFixed(4)}`);
       // the k-th test mode pairs with the model's k-th bending mode in Z: the simulator's f × √1.04 (f ∝ √k)

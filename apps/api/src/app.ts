@@ -13,6 +13,7 @@ import { resolveUser } from './context.ts';
 import { resolveApiToken, TokenFailureLimiter } from './http/api-token.ts';
 import { errorHandler, unknownApiRoute } from './errors.ts';
 import { DatabaseStatus } from './db-health.ts';
+import { postgresRateLimitStore } from './rate-limit-store.ts';
 import { noStore, sameOriginWrites } from './http/same-origin.ts';
 import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
@@ -104,7 +105,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   app.use('/api', sameOriginWrites({ allowedOrigins: config.allowedOrigins }));
 
   // better-auth reads the raw body itself, so it is mounted before express.json().
-  app.all('/api/auth/*splat', authHandler(auth, config.authRateLimit, databaseStatus));
+  app.all('/api/auth/*splat', authHandler(auth, config.authRateLimit, databaseStatus, postgresRateLimitStore(database.db)));
 
   const routes = new ApiRoutes(database.db, config.jsonBodyLimit);
   const events = new CampaignEvents(database.pool, config.databaseUrl);

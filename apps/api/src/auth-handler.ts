@@ -2,7 +2,7 @@
 // answer copied back; error answers are rewritten into the API's one error shape.
 import type { Request as ExpressRequest, RequestHandler } from 'express';
 import type { Auth } from './auth.ts';
-import { CLIENT_IP_HEADER, windowCounter } from './auth.ts';
+import { CLIENT_IP_HEADER } from './auth.ts';
 import { errorBody, sendDatabaseUnavailable } from './errors.ts';
 import type { DatabaseStatus } from './db-health.ts';
 
@@ -87,8 +87,12 @@ function addressIn(body: Buffer): string | null {
  * account only and never locks out colleagues on the same network. Counted whether or not the
  * address has an account, so the limit tells nothing about which ones do.
  */
-export function authHandler(auth: Auth, limit: { max: number; windowS: number }, database: DatabaseStatus): RequestHandler {
-  const perAddress = windowCounter();
+/** A check-and-count store (PostgreSQL in the app, so every API process counts against one limit). */
+export interface AttemptStore {
+  consume(key: string, rule: { window: number; max: number }): Promise<{ allowed: boolean; retryAfter: number | null }>;
+}
+
+export function authHandler(auth: Auth, limit: { max: number; windowS: number }, database: DatabaseStatus, perAddress: AttemptStore): RequestHandler {
   return async (req, res, next) => {
     try {
       const headers = new Headers();
@@ -111,7 +115,7 @@ export function authHandler(auth: Auth, limit: { max: number; windowS: number },
         const path = req.originalUrl.split('?')[0]!;
         const address = PER_ADDRESS.has(path) ? addressIn(body) : null;
         if (address) {
-          const verdict = await perAddress.consume(`${path}|${address}`, { window: limit.windowS, max: limit.max });
+          const verdict = await perAddress.consume(`address|${path}|${address}`, { window: limit.windowS, max: limit.max });
           if (!verdict.allowed) {
             res.setHeader('retry-after', String(verdict.retryAfter));
             res.status(429).json(errorBody('rate-limited', `Too many attempts for this e-mail address. Wait ${verdict.retryAfter} s and try again.`));

@@ -14,28 +14,6 @@ export const MIN_PASSWORD_LENGTH = 10;
 /** Header the API sets from the socket address (never from the client) for rate limiting. */
 export const CLIENT_IP_HEADER = 'x-resonote-client-ip';
 
-/**
- * Fixed-window request counter kept by this app instance (two instances in one process, as in
- * the tests, never share counts). Check and increment happen in one step.
- */
-export function windowCounter() {
-  const windows = new Map<string, { start: number; count: number }>();
-  return {
-    async consume(key: string, rule: { window: number; max: number }) {
-      const now = Date.now();
-      const entry = windows.get(key);
-      if (!entry || now - entry.start >= rule.window * 1000) {
-        windows.set(key, { start: now, count: 1 });
-        if (windows.size > 10_000) for (const [k, v] of windows) if (now - v.start >= rule.window * 1000) windows.delete(k);
-        return { allowed: true, retryAfter: null };
-      }
-      if (entry.count >= rule.max) return { allowed: false, retryAfter: Math.ceil((entry.start + rule.window * 1000 - now) / 1000) };
-      entry.count += 1;
-      return { allowed: true, retryAfter: null };
-    },
-  };
-}
-
 export function createAuth(db: Db, config: Config, mailer: Mailer, database: DatabaseStatus) {
   return betterAuth({
     appName: 'Resonote',
