@@ -50,11 +50,12 @@ const hasScipy = spawnSync('python3', ['-c', 'import scipy'], { stdio: 'ignore' 
 
 describe('reference fixtures', () => {
   it.skipIf(!hasScipy)(
-    'are reproduced by tests/reference/dsp_fixtures.py (skipped when python3 cannot import scipy)',
+    'are reproduced by tests/reference/dsp_fixtures.py and resample_fixture.py (skipped when python3 cannot import scipy)',
     () => {
       const dir = mkdtempSync(join(tmpdir(), 'dsp-fixtures-'));
       try {
-        execFileSync('python3', [resolve(repoRoot, 'tests/reference/dsp_fixtures.py'), dir], { stdio: 'pipe' });
+        // Every script that writes into tests/fixtures/dsp: together they must give exactly the committed files.
+        for (const script of ['dsp_fixtures.py', 'resample_fixture.py']) execFileSync('python3', [resolve(repoRoot, 'tests/reference', script), dir], { stdio: 'pipe' });
         const committed = readdirSync(fixtureDir).filter((f) => f.endsWith('.json')).sort();
         expect(readdirSync(dir).sort()).toEqual(committed);
         for (const name of committed) {
