@@ -1,5 +1,6 @@
 import { SpectralAverager, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
 import type { Complex, ExponentialWindowOptions, ForceWindowOptions } from './types.ts';
+import { removeOffsets } from './offsets.ts';
 import { checkFs, checkSameLength, checkSamples } from './validate.ts';
 import { exponentialWindow, forceWindow } from './windows.ts';
 
@@ -16,6 +17,11 @@ export interface AverageFrfOptions {
   exponentialWindow: ExponentialWindowOptions | null;
   /** Also compute the Hv (total least squares) estimator. Default false. */
   hv?: boolean;
+  /**
+   * Remove each channel's offset first: the mean of its first preTriggerSamples samples (`removeOffsets`,
+   * docs/methods.md#frf-averaging). Omit when the records are already offset-free.
+   */
+  offsets?: { preTriggerSamples: number };
 }
 
 export interface AveragedFrf {
@@ -51,7 +57,8 @@ export interface AveragedFrf {
  * Exactly H1/H2 = γ², so |H1| ≤ |H2|; one hit gives γ² ≡ 1. Lines whose denominator is exactly 0
  * (no force or no response energy at all) return 0 for H and γ², never NaN.
  * Inputs: hits with equal-length records (force in N, responses in their unit), fs in Hz.
- * The force offset is not removed here: subtract the pre-trigger mean before calling.
+ * Offsets: with `options.offsets` each channel's pre-trigger mean is subtracted first (`removeOffsets`);
+ * without it the records must already be offset-free.
  * Sources: Bendat & Piersol, Random Data (2010); Ewins, Modal Testing (2000) Ch. 3; Vold, Crowley &
  * Rocklin 1984 for Hv. Same sign as numpy.fft (e^{−j2πft}).
  */
@@ -76,7 +83,13 @@ export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrf
 
   const { fw, ew } = impactWindows(n, fs, options.forceWindow, options.exponentialWindow);
   const avg = pooledAverager(n, channels);
-  hits.forEach((h, i) => {
+  const pre = options.offsets?.preTriggerSamples;
+  hits.forEach((raw, i) => {
+    let h: Hit = raw;
+    if (pre !== undefined) {
+      const [force, ...responses] = removeOffsets([raw.force, ...raw.responses], pre);
+      h = { force: force!, responses };
+    }
     avg.add(h.force, h.responses, 0, fw, ew, {
       ref: `hits[${i}].force`,
       other: (c) => `hits[${i}].responses[${c}]`,

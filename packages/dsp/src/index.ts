@@ -27,6 +27,7 @@ export {
   type ResponseCheck,
 } from './hit-check.ts';
 export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
+export { removeOffsets } from './offsets.ts';
 export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';

@@ -19,7 +19,6 @@ import {
   forceWindowOf,
   mainChannel,
   recordSamples,
-  removeOffsets,
   unpackSamples,
   type CurrentSettings,
   type EntryResult,

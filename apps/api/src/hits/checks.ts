@@ -7,7 +7,7 @@ import { frfAxisFactor, sameAxis, type AcquisitionSettings } from '@resonote/con
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
-import { exponentialWindowOf, forceWindowOf, mainChannel, recordSamples, removeOffsets, unpackSamples } from './processing.ts';
+import { exponentialWindowOf, forceWindowOf, mainChannel, recordSamples, unpackSamples } from './processing.ts';
 
 export interface PeakDifference {
   fHz: number;
@@ -90,11 +90,11 @@ export async function entryLinearity(db: Db, entryId: string, responseDof: strin
   const frfOf = (g: typeof sorted) =>
     averageFrf(
       g.map((r) => {
-        const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
+        const chans = unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n);
         return { force: chans[0]!, responses: chans.slice(1) };
       }),
       s.sampleRateHz,
-      { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
+      { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null, offsets: { preTriggerSamples: pre } },
     );
   const lo = frfOf(low);
   const hi = frfOf(high);

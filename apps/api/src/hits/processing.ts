@@ -232,20 +232,6 @@ export function unpackSamples(buf: Buffer, channelCount: number, n: number): Flo
   return Array.from({ length: channelCount }, (_, c) => all.subarray(c * n, (c + 1) * n));
 }
 
-/** Subtracts each channel's pre-trigger mean (offset removal before the windows, docs/methods.md#force-window). */
-export function removeOffsets(channels: Float32Array[], preSamples: number): Float64Array[] {
-  const m = Math.max(1, preSamples);
-  return channels.map((ch) => {
-    let mean = 0;
-    const k = Math.min(m, ch.length);
-    for (let i = 0; i < k; i++) mean += ch[i]!;
-    mean /= k;
-    const out = new Float64Array(ch.length);
-    for (let i = 0; i < ch.length; i++) out[i] = ch[i]! - mean;
-    return out;
-  });
-}
-
 export interface ResultChannel {
   dof: string;
   unit: string;
@@ -396,11 +382,15 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   }
   const pre = Math.round(s.preTriggerS * s.sampleRateHz);
   const records = sameLayout.map((h) => {
-    const chans = removeOffsets(cache.samples.get(h.id)!, pre);
+    const chans = cache.samples.get(h.id)!;
     return { force: chans[0]!, responses: chans.slice(1) };
   });
   const exp = exponentialWindowOf(s);
-  const frf = averageFrf(records, s.sampleRateHz, { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null });
+  const frf = averageFrf(records, s.sampleRateHz, {
+    forceWindow: forceWindowOf(s),
+    exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null,
+    offsets: { preTriggerSamples: pre },
+  });
   const channels: ResultChannel[] = responseChannels.map((c, i) => ({ dof: c.dof, unit: c.unit, sign: c.sign, meanCoherence: meanOverBand(frf.coherence[i]!, frf.f, s.bandHz.low, s.bandHz.high) }));
   const computedAt = new Date();
   const values = {

@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
+import { averageFrf, forceWindow, removeOffsets, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
 import { AXIS_CONVENTION, idempotencyKeySchema, uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, uploadKey, user } from '@resonote/db/schema';
@@ -30,7 +30,6 @@ import {
   packSamples,
   recordSamples,
   rememberSamples,
-  removeOffsets,
   splitByTrigger,
   statusFrom,
   unpackSamples,
