@@ -15,8 +15,6 @@ import { DUPLICATE_RULE, rowView, tableMac, tableRows } from '../modes/mode-tabl
 import {
   currentSettings,
   entryResult,
-  exponentialWindowOf,
-  forceWindowOf,
   mainChannel,
   recordSamples,
   unpackSamples,

@@ -8,16 +8,14 @@ import {
   checkHit,
   defaultHitLimits,
   findTrigger,
-  tauFromEndLevel,
   type AveragedFrf,
-  type ExponentialWindowOptions,
-  type ForceWindowOptions,
   type HitCheck,
   type HitLimits,
 } from '@resonote/dsp';
 import { acquisitionSettingsSchema, defaultAcquisitionSettings, uuidSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, frfResult, hit, point, scheduleEntry } from '@resonote/db/schema';
 import { notFound } from '../errors.ts';
+import { dspExponentialWindowOf, frfWindowsOf } from './settings-to-dsp.ts';
 import { isDatabaseUnavailable } from '../db-health.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
@@ -126,22 +124,7 @@ export function recordSamples(s: AcquisitionSettings): number {
   return Math.round(s.recordLengthS * s.sampleRateHz);
 }
 
-/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (docs/methods.md#force-window). */
-export function forceWindowOf(s: AcquisitionSettings): ForceWindowOptions {
-  return { startS: 0, lengthS: s.forceWindow.lengthS, taperS: s.forceWindow.taperS };
-}
-
-/** Exponential window on every channel from the trigger point (docs/methods.md#exp-window), or null. */
-export function exponentialWindowOf(s: AcquisitionSettings): (ExponentialWindowOptions & { endLevelPercent: number }) | null {
-  const w = s.exponentialWindow;
-  if (w.mode === 'none') return null;
-  const startS = s.preTriggerS;
-  const tauS = w.mode === 'tau' ? w.tauS : tauFromEndLevel(s.recordLengthS, startS, w.endLevelPercent / 100);
-  return { startS, tauS, endLevelPercent: 100 * Math.exp(-(s.recordLengthS - startS) / tauS) };
-}
-
 export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
-  const exp = exponentialWindowOf(s);
   return {
     ...defaultHitLimits,
     forceRangeN: s.forceRangeN,
@@ -151,7 +134,7 @@ export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
     minPeakN: s.minPeakN,
     bandHz: [s.bandHz.low, s.bandHz.high],
     rollOffDb: s.rollOffDb,
-    exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null,
+    exponentialWindow: dspExponentialWindowOf(s),
   };
 }
 
@@ -385,10 +368,8 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
     const chans = cache.samples.get(h.id)!;
     return { force: chans[0]!, responses: chans.slice(1) };
   });
-  const exp = exponentialWindowOf(s);
   const frf = averageFrf(records, s.sampleRateHz, {
-    forceWindow: forceWindowOf(s),
-    exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null,
+    ...frfWindowsOf(s),
     offsets: { preTriggerSamples: pre },
   });
   const channels: ResultChannel[] = responseChannels.map((c, i) => ({ dof: c.dof, unit: c.unit, sign: c.sign, meanCoherence: meanOverBand(frf.coherence[i]!, frf.f, s.bandHz.low, s.bandHz.high) }));

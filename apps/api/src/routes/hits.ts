@@ -16,12 +16,11 @@ import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/chann
 import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
+import { exponentialWindowOf, forceWindowOf } from '../hits/settings-to-dsp.ts';
 import {
   currentSettings,
   entriesWithAcceptedHits,
   entryResult,
-  exponentialWindowOf,
-  forceWindowOf,
   judge,
   loadScheduleEntry,
   responsePoint,
