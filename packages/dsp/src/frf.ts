@@ -1,4 +1,4 @@
-import { SpectralAverager, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
+import { SpectralAverager, coherenceFromSums, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
 import type { Complex, ExponentialWindowOptions, ForceWindowOptions } from './types.ts';
 import { removeOffsets } from './offsets.ts';
 import { checkFs, checkSameLength, checkSamples } from './validate.ts';
@@ -125,7 +125,6 @@ function impactWindows(
 function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): AveragedFrf {
   const bins = avg.bins;
   const n = avg.n;
-  const last = n % 2 === 0 ? bins - 1 : -1; // Nyquist line, not doubled
   const dt = 1 / fs;
   const esdScale = (dt * dt) / avg.count;
   const h1: Complex[] = [];
@@ -143,10 +142,6 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
     const h1i = new Float64Array(bins);
     const h2r = new Float64Array(bins);
     const h2i = new Float64Array(bins);
-    const coh = new Float64Array(bins);
-    const gxxC = new Float64Array(bins);
-    const gfr = new Float64Array(bins);
-    const gfi = new Float64Array(bins);
     const hvr = withHv ? new Float64Array(bins) : null;
     const hvi = withHv ? new Float64Array(bins) : null;
     for (let k = 0; k < bins; k++) {
@@ -163,10 +158,6 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
       const q = p > 0 ? xx / p : 0;
       h2r[k] = q * cr;
       h2i[k] = q * ci;
-      // γ² = |G_fx|² / (G_ff·G_xx), clamped: rounding can put it a few ulps above 1
-      const den = ff * xx;
-      const g = den > 0 ? p / den : 0;
-      coh[k] = g > 1 ? 1 : g;
       if (hvr && hvi) {
         // Hv = [G_xx − G_ff + √((G_xx − G_ff)² + 4|G_fx|²)] / (2·conj(G_fx))
         const d = xx - ff;
@@ -174,17 +165,14 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
         hvr[k] = r * cr;
         hvi[k] = r * ci;
       }
-      const s = k === 0 || k === last ? esdScale : 2 * esdScale;
-      gxxC[k] = xx * s;
-      gfr[k] = cr * s;
-      gfi[k] = ci * s;
     }
     h1.push({ re: h1r, im: h1i });
     h2.push({ re: h2r, im: h2i });
     if (hvr && hvi) hv.push({ re: hvr, im: hvi });
-    coherence.push(coh);
-    gxx.push(gxxC);
-    gfx.push({ re: gfr, im: gfi });
+    // γ² = |G_fx|²/(G_ff·G_xx) and the one-sided ESD-per-hit fold: the engine's own (spectral-engine.ts)
+    coherence.push(coherenceFromSums(avg, c));
+    gxx.push(oneSided(xxs, n, esdScale));
+    gfx.push({ re: oneSided(crs, n, esdScale), im: oneSided(cis, n, esdScale) });
   }
   const result: AveragedFrf = {
     f: frequencyAxis(n, fs, bins),
