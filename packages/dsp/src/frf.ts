@@ -1,5 +1,6 @@
-import { SpectralAverager, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
+import { SpectralAverager, coherenceFromSums, frequencyAxis, oneSided, pooledAverager } from './spectral-engine.ts';
 import type { Complex, ExponentialWindowOptions, ForceWindowOptions } from './types.ts';
+import { removeOffsets } from './offsets.ts';
 import { checkFs, checkSameLength, checkSamples } from './validate.ts';
 import { exponentialWindow, forceWindow } from './windows.ts';
 
@@ -16,6 +17,11 @@ export interface AverageFrfOptions {
   exponentialWindow: ExponentialWindowOptions | null;
   /** Also compute the Hv (total least squares) estimator. Default false. */
   hv?: boolean;
+  /**
+   * Remove each channel's offset first: the mean of its first preTriggerSamples samples (`removeOffsets`,
+   * docs/methods.md#frf-averaging). Omit when the records are already offset-free.
+   */
+  offsets?: { preTriggerSamples: number };
 }
 
 export interface AveragedFrf {
@@ -51,7 +57,8 @@ export interface AveragedFrf {
  * Exactly H1/H2 = γ², so |H1| ≤ |H2|; one hit gives γ² ≡ 1. Lines whose denominator is exactly 0
  * (no force or no response energy at all) return 0 for H and γ², never NaN.
  * Inputs: hits with equal-length records (force in N, responses in their unit), fs in Hz.
- * The force offset is not removed here: subtract the pre-trigger mean before calling.
+ * Offsets: with `options.offsets` each channel's pre-trigger mean is subtracted first (`removeOffsets`);
+ * without it the records must already be offset-free.
  * Sources: Bendat & Piersol, Random Data (2010); Ewins, Modal Testing (2000) Ch. 3; Vold, Crowley &
  * Rocklin 1984 for Hv. Same sign as numpy.fft (e^{−j2πft}).
  */
@@ -76,7 +83,13 @@ export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrf
 
   const { fw, ew } = impactWindows(n, fs, options.forceWindow, options.exponentialWindow);
   const avg = pooledAverager(n, channels);
-  hits.forEach((h, i) => {
+  const pre = options.offsets?.preTriggerSamples;
+  hits.forEach((raw, i) => {
+    let h: Hit = raw;
+    if (pre !== undefined) {
+      const [force, ...responses] = removeOffsets([raw.force, ...raw.responses], pre);
+      h = { force: force!, responses };
+    }
     avg.add(h.force, h.responses, 0, fw, ew, {
       ref: `hits[${i}].force`,
       other: (c) => `hits[${i}].responses[${c}]`,
@@ -112,7 +125,6 @@ function impactWindows(
 function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): AveragedFrf {
   const bins = avg.bins;
   const n = avg.n;
-  const last = n % 2 === 0 ? bins - 1 : -1; // Nyquist line, not doubled
   const dt = 1 / fs;
   const esdScale = (dt * dt) / avg.count;
   const h1: Complex[] = [];
@@ -130,10 +142,6 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
     const h1i = new Float64Array(bins);
     const h2r = new Float64Array(bins);
     const h2i = new Float64Array(bins);
-    const coh = new Float64Array(bins);
-    const gxxC = new Float64Array(bins);
-    const gfr = new Float64Array(bins);
-    const gfi = new Float64Array(bins);
     const hvr = withHv ? new Float64Array(bins) : null;
     const hvi = withHv ? new Float64Array(bins) : null;
     for (let k = 0; k < bins; k++) {
@@ -150,10 +158,6 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
       const q = p > 0 ? xx / p : 0;
       h2r[k] = q * cr;
       h2i[k] = q * ci;
-      // γ² = |G_fx|² / (G_ff·G_xx), clamped: rounding can put it a few ulps above 1
-      const den = ff * xx;
-      const g = den > 0 ? p / den : 0;
-      coh[k] = g > 1 ? 1 : g;
       if (hvr && hvi) {
         // Hv = [G_xx − G_ff + √((G_xx − G_ff)² + 4|G_fx|²)] / (2·conj(G_fx))
         const d = xx - ff;
@@ -161,17 +165,14 @@ function frfFromSums(avg: SpectralAverager, fs: number, withHv: boolean): Averag
         hvr[k] = r * cr;
         hvi[k] = r * ci;
       }
-      const s = k === 0 || k === last ? esdScale : 2 * esdScale;
-      gxxC[k] = xx * s;
-      gfr[k] = cr * s;
-      gfi[k] = ci * s;
     }
     h1.push({ re: h1r, im: h1i });
     h2.push({ re: h2r, im: h2i });
     if (hvr && hvi) hv.push({ re: hvr, im: hvi });
-    coherence.push(coh);
-    gxx.push(gxxC);
-    gfx.push({ re: gfr, im: gfi });
+    // γ² = |G_fx|²/(G_ff·G_xx) and the one-sided ESD-per-hit fold: the engine's own (spectral-engine.ts)
+    coherence.push(coherenceFromSums(avg, c));
+    gxx.push(oneSided(xxs, n, esdScale));
+    gfx.push({ re: oneSided(crs, n, esdScale), im: oneSided(cis, n, esdScale) });
   }
   const result: AveragedFrf = {
     f: frequencyAxis(n, fs, bins),

@@ -28,6 +28,7 @@ export {
 } from './hit-check.ts';
 export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
 export { fftPathName } from './fft.ts';
+export { removeOffsets } from './offsets.ts';
 export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';

@@ -151,3 +151,18 @@ export function frequencyAxis(n: number, fs: number, bins: number): Float64Array
   for (let k = 0; k < bins; k++) f[k] = (k * fs) / n;
   return f;
 }
+
+/** γ² per line from the engine's raw sums (scalings cancel); 0 where the denominator is 0. */
+export function coherenceFromSums(avg: SpectralAverager, c: number): Float64Array {
+  const out = new Float64Array(avg.bins);
+  const cr = avg.crossRe[c];
+  const ci = avg.crossIm[c];
+  const gxx = avg.auto[c];
+  const gff = avg.refAuto;
+  for (let k = 0; k < avg.bins; k++) {
+    const den = gff[k] * gxx[k];
+    // Clamp: rounding can put |G_fx|² a few ulps above G_ff·G_xx when γ² = 1.
+    out[k] = den > 0 ? Math.min(1, (cr[k] * cr[k] + ci[k] * ci[k]) / den) : 0;
+  }
+  return out;
+}

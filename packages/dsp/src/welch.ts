@@ -1,4 +1,4 @@
-import { SpectralAverager, frequencyAxis, oneSided } from './spectral-engine.ts';
+import { SpectralAverager, coherenceFromSums, frequencyAxis, oneSided } from './spectral-engine.ts';
 import type { WindowName } from './types.ts';
 import { checkFs, checkInteger, checkSameLength, checkSamples } from './validate.ts';
 import { analysisWindow } from './windows.ts';
@@ -110,19 +110,4 @@ export function welchCoherence(
   const p = prepare(n, fs, options);
   const avg = run(x, y, p);
   return { f: frequencyAxis(p.nseg, fs, avg.bins), coherence: coherenceFromSums(avg, 0), segments: avg.count };
-}
-
-/** γ² per line from the engine's raw sums (scalings cancel); 0 where the denominator is 0. */
-export function coherenceFromSums(avg: SpectralAverager, c: number): Float64Array {
-  const out = new Float64Array(avg.bins);
-  const cr = avg.crossRe[c];
-  const ci = avg.crossIm[c];
-  const gxx = avg.auto[c];
-  const gff = avg.refAuto;
-  for (let k = 0; k < avg.bins; k++) {
-    const den = gff[k] * gxx[k];
-    // Clamp: rounding can put |G_fx|² a few ulps above G_ff·G_xx when γ² = 1.
-    out[k] = den > 0 ? Math.min(1, (cr[k] * cr[k] + ci[k] * ci[k]) / den) : 0;
-  }
-  return out;
 }

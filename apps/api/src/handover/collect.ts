@@ -17,11 +17,8 @@ import { DUPLICATE_RULE, rowView, tableMac, tableRows } from '../modes/mode-tabl
 import {
   currentSettings,
   entryResult,
-  exponentialWindowOf,
-  forceWindowOf,
   mainChannel,
   recordSamples,
-  removeOffsets,
   unpackSamples,
   type CurrentSettings,
   type EntryResult,

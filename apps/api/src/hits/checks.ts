@@ -7,7 +7,8 @@ import { frfAxisFactor, sameAxis, type AcquisitionSettings } from '@resonote/con
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
-import { exponentialWindowOf, forceWindowOf, mainChannel, recordSamples, removeOffsets, unpackSamples } from './processing.ts';
+import { mainChannel, recordSamples, unpackSamples } from './processing.ts';
+import { frfWindowsOf } from './settings-to-dsp.ts';
 
 export interface PeakDifference {
   fHz: number;
@@ -72,7 +73,6 @@ export function compareFrfs(ha: Complex, hb: Complex, f: Float64Array, band: { l
 export async function entryLinearity(db: Db, entryId: string, responseDof: string, s: AcquisitionSettings) {
   const n = recordSamples(s);
   const pre = Math.round(s.preTriggerS * s.sampleRateHz);
-  const exp = exponentialWindowOf(s);
   const rows = await db
     .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
     .from(hit)
@@ -90,11 +90,11 @@ export async function entryLinearity(db: Db, entryId: string, responseDof: strin
   const frfOf = (g: typeof sorted) =>
     averageFrf(
       g.map((r) => {
-        const chans = removeOffsets(unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n), pre);
+        const chans = unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n);
         return { force: chans[0]!, responses: chans.slice(1) };
       }),
       s.sampleRateHz,
-      { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null },
+      { ...frfWindowsOf(s), offsets: { preTriggerSamples: pre } },
     );
   const lo = frfOf(low);
   const hi = frfOf(high);

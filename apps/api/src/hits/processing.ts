@@ -9,16 +9,14 @@ import {
   checkHit,
   defaultHitLimits,
   findTrigger,
-  tauFromEndLevel,
   type AveragedFrf,
-  type ExponentialWindowOptions,
-  type ForceWindowOptions,
   type HitCheck,
   type HitLimits,
 } from '@resonote/dsp';
 import { acquisitionSettingsSchema, defaultAcquisitionSettings, uuidSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, frfResult, hit, point, scheduleEntry } from '@resonote/db/schema';
 import { notFound } from '../errors.ts';
+import { dspExponentialWindowOf, frfWindowsOf } from './settings-to-dsp.ts';
 import { isDatabaseUnavailable } from '../db-health.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
@@ -127,22 +125,7 @@ export function recordSamples(s: AcquisitionSettings): number {
   return Math.round(s.recordLengthS * s.sampleRateHz);
 }
 
-/** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (docs/methods.md#force-window). */
-export function forceWindowOf(s: AcquisitionSettings): ForceWindowOptions {
-  return { startS: 0, lengthS: s.forceWindow.lengthS, taperS: s.forceWindow.taperS };
-}
-
-/** Exponential window on every channel from the trigger point (docs/methods.md#exp-window), or null. */
-export function exponentialWindowOf(s: AcquisitionSettings): (ExponentialWindowOptions & { endLevelPercent: number }) | null {
-  const w = s.exponentialWindow;
-  if (w.mode === 'none') return null;
-  const startS = s.preTriggerS;
-  const tauS = w.mode === 'tau' ? w.tauS : tauFromEndLevel(s.recordLengthS, startS, w.endLevelPercent / 100);
-  return { startS, tauS, endLevelPercent: 100 * Math.exp(-(s.recordLengthS - startS) / tauS) };
-}
-
 export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
-  const exp = exponentialWindowOf(s);
   return {
     ...defaultHitLimits,
     forceRangeN: s.forceRangeN,
@@ -152,7 +135,7 @@ export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
     minPeakN: s.minPeakN,
     bandHz: [s.bandHz.low, s.bandHz.high],
     rollOffDb: s.rollOffDb,
-    exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null,
+    exponentialWindow: dspExponentialWindowOf(s),
   };
 }
 
@@ -231,20 +214,6 @@ export function unpackSamples(buf: Buffer, channelCount: number, n: number): Flo
   const all = new Float32Array(copy.buffer);
   if (all.length !== channelCount * n) throw new Error(`stored samples hold ${all.length} values, expected ${channelCount} × ${n}`);
   return Array.from({ length: channelCount }, (_, c) => all.subarray(c * n, (c + 1) * n));
-}
-
-/** Subtracts each channel's pre-trigger mean (offset removal before the windows, docs/methods.md#force-window). */
-export function removeOffsets(channels: Float32Array[], preSamples: number): Float64Array[] {
-  const m = Math.max(1, preSamples);
-  return channels.map((ch) => {
-    let mean = 0;
-    const k = Math.min(m, ch.length);
-    for (let i = 0; i < k; i++) mean += ch[i]!;
-    mean /= k;
-    const out = new Float64Array(ch.length);
-    for (let i = 0; i < ch.length; i++) out[i] = ch[i]! - mean;
-    return out;
-  });
 }
 
 export interface ResultChannel {
@@ -398,11 +367,13 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   }
   const pre = Math.round(s.preTriggerS * s.sampleRateHz);
   const records = sameLayout.map((h) => {
-    const chans = removeOffsets(cache.samples.get(h.id)!, pre);
+    const chans = cache.samples.get(h.id)!;
     return { force: chans[0]!, responses: chans.slice(1) };
   });
-  const exp = exponentialWindowOf(s);
-  const frf = averageFrf(records, s.sampleRateHz, { forceWindow: forceWindowOf(s), exponentialWindow: exp ? { startS: exp.startS, tauS: exp.tauS } : null });
+  const frf = averageFrf(records, s.sampleRateHz, {
+    ...frfWindowsOf(s),
+    offsets: { preTriggerSamples: pre },
+  });
   const channels: ResultChannel[] = responseChannels.map((c, i) => ({ dof: c.dof, unit: c.unit, sign: c.sign, meanCoherence: meanOverBand(frf.coherence[i]!, frf.f, s.bandHz.low, s.bandHz.high) }));
   const computedAt = new Date();
   const values = {

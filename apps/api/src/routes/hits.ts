@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { averageFrf, forceWindow, transientSpectrum, type HitCheck } from '@resonote/dsp';
+import { averageFrf, forceWindow, removeOffsets, transientSpectrum, type HitCheck } from '@resonote/dsp';
 import { createRng, hitSeries } from '@resonote/sim';
 import { AXIS_CONVENTION, idempotencyKeySchema, uuidSchema } from '@resonote/contracts';
 import { campaign, hit, point, scheduleEntry, uploadKey, user } from '@resonote/db/schema';
@@ -16,12 +16,11 @@ import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/chann
 import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
+import { exponentialWindowOf, forceWindowOf } from '../hits/settings-to-dsp.ts';
 import {
   currentSettings,
   entriesWithAcceptedHits,
   entryResult,
-  exponentialWindowOf,
-  forceWindowOf,
   judge,
   loadScheduleEntry,
   responsePoint,
@@ -30,7 +29,6 @@ import {
   packSamples,
   recordSamples,
   rememberSamples,
-  removeOffsets,
   splitByTrigger,
   statusFrom,
   unpackSamples,

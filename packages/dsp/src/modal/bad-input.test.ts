@@ -3,7 +3,7 @@ import { cmif, sumFrf } from './cmif.ts';
 import { classifyPoles, pickStablePoles, stabilizationDiagram } from './lscf.ts';
 import { estimateShapes, synthesize } from './lsfd.ts';
 import { macMatrix, mpc } from './shape-tools.ts';
-import { axis, twoDof63 } from './test-support.ts';
+import { axis, twoDof63 } from '../../test/modal-systems.ts';
 import type { FrfSet } from './types.ts';
 import { correctWindowDamping } from './window-correction.ts';
 

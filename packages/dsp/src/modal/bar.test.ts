@@ -4,7 +4,7 @@ import { mac } from '../assurance.ts';
 import { clusterStablePoles } from './clusters.ts';
 import { pickStablePoles, stabilizationDiagram } from './lscf.ts';
 import { estimateShapes } from './lsfd.ts';
-import { axis, freeFreeRoot, freeFreeShape, gaussian, loadModalFixture } from './test-support.ts';
+import { axis, freeFreeRoot, freeFreeShape, gaussianCosOnly, loadModalFixture } from '../../test/modal-systems.ts';
 import type { FrfSet } from './types.ts';
 import { correctWindowDamping } from './window-correction.ts';
 
@@ -27,7 +27,7 @@ function barFrfs(): { set: FrfSet; x: number[]; roots: number[] } {
   const wn = roots.map((b) => ((b * b) / (L * L)) * Math.sqrt(EI / rhoA));
   const x = Array.from({ length: 21 }, (_, i) => i * 0.05);
   const f = axis(0, 1 / T, 2001); // 0…1000 Hz
-  const rnd = gaussian(2024);
+  const rnd = gaussianCosOnly(2024);
   const frfs: FrfSet['frfs'] = x.map((xi) => {
     const re = new Float64Array(f.length);
     const im = new Float64Array(f.length);

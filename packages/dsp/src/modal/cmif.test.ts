@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { closeModes } from './close-modes.ts';
+import { closeModes } from '../../test/close-modes.ts';
 import { cmif, sumFrf } from './cmif.ts';
-import { axis, loadModalFixture, twoDof63 } from './test-support.ts';
+import { axis, loadModalFixture, twoDof63 } from '../../test/modal-systems.ts';
 
 const fx = loadModalFixture('close-modes-cmif.json');
 

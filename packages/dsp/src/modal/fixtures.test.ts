@@ -3,7 +3,7 @@ import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { loadModalFixture, modalFixtureDir, repoRoot } from './test-support.ts';
+import { loadModalFixture, modalFixtureDir, repoRoot } from '../../test/modal-systems.ts';
 
 const hasScipy = spawnSync('python3', ['-c', 'import scipy'], { stdio: 'ignore' }).status === 0;
 

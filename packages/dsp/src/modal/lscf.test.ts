@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { classifyPoles, pickStablePoles, stabilizationDiagram, type PoleForStability } from './lscf.ts';
-import { axis, loadModalFixture, threeDof, twoDof63 } from './test-support.ts';
-import { closeModes } from './close-modes.ts';
+import { axis, loadModalFixture, threeDof, twoDof63 } from '../../test/modal-systems.ts';
+import { closeModes } from '../../test/close-modes.ts';
 import type { Complex } from '../types.ts';
 
 const sys = loadModalFixture('systems.json');

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { mac } from '../assurance.ts';
 import { pickStablePoles, stabilizationDiagram } from './lscf.ts';
 import { estimateShapes, synthesize } from './lsfd.ts';
-import { axis, loadModalFixture, maxRelDiff, peakRelDiff, threeDof, twoDof63 } from './test-support.ts';
+import { axis, loadModalFixture, maxRelDiff, peakRelDiff, threeDof, twoDof63 } from '../../test/modal-systems.ts';
 
 const sys = loadModalFixture('systems.json');
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);

@@ -1,7 +1,7 @@
 // The test systems themselves are checked first: the TypeScript builders against numpy/scipy fixtures
 // (tests/reference/modal_fixtures.py → tests/fixtures/modal/) and against the check values of docs/methods.md#check-systems.
 import { describe, expect, it } from 'vitest';
-import { axis, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, twoDof63 } from './test-support.ts';
+import { axis, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, twoDof63 } from '../../test/modal-systems.ts';
 
 const sys = loadModalFixture('systems.json');
 const bar = loadModalFixture('free-free-bar.json');

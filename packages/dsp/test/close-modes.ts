@@ -1,7 +1,7 @@
 // Test support: two modes 1 % apart (100 and 101 Hz, ζ = 0.5 %) with distinct shapes on 6 DOFs, built in
 // closed form (receptance modal sum of docs/methods.md#modal-model), optionally with relative gaussian noise.
-import { axis, gaussian } from './test-support.ts';
-import type { FrfSet } from './types.ts';
+import type { FrfSet } from '../src/modal/types.ts';
+import { axis, gaussianCosOnly } from './modal-systems.ts';
 
 export const CLOSE_PSI = [
   [1.0, 0.8, 0.3, -0.2, -0.7, -1.0],
@@ -12,7 +12,7 @@ export function closeModes(refs: number[], noise: number, seed = 7) {
   const fHz = [100, 101];
   const zeta = 0.005;
   const f = axis(0, 0.1, 2001); // 0…200 Hz
-  const rnd = gaussian(seed);
+  const rnd = gaussianCosOnly(seed);
   const frfs: FrfSet['frfs'] = [];
   for (const j of refs) {
     for (let i = 0; i < 6; i++) {

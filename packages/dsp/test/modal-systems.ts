@@ -1,17 +1,16 @@
-// Test support for the modal tests: exact FRFs of small spring–mass–damper systems (direct inverse of the
-// dynamic stiffness), the free–free Euler–Bernoulli beam, a seeded PRNG and fixture loading. Not exported
-// from the package; Node APIs are fine here.
-import { readFileSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
-import { fileURLToPath } from 'node:url';
-import type { Complex } from '../types.ts';
-import type { FrfSet, ModalFrfKind } from './types.ts';
+// Test helpers for the modal tests: exact FRFs of small spring–mass–damper systems (direct inverse of the
+// dynamic stiffness), the free–free Euler–Bernoulli beam and modal fixture loading. Lives outside src/ so
+// nothing shipped can import it; the PRNG and fixture root come from ./helpers.ts.
+import { resolve } from 'node:path';
+import type { Complex } from '../src/types.ts';
+import type { FrfSet, ModalFrfKind } from '../src/modal/types.ts';
+import { loadFixture, mulberry32, repoRoot } from './helpers.ts';
 
-export const repoRoot = resolve(dirname(fileURLToPath(import.meta.url)), '../../../..');
+export { repoRoot };
 export const modalFixtureDir = resolve(repoRoot, 'tests/fixtures/modal');
 
 export function loadModalFixture<T = any>(name: string, dir = modalFixtureDir): T {
-  return JSON.parse(readFileSync(resolve(dir, name), 'utf8')) as T;
+  return loadFixture<T>(name, dir);
 }
 
 export function axis(f0: number, df: number, n: number): Float64Array {
@@ -178,20 +177,12 @@ export function freeFreeShape(betaL: number, L: number, rhoA: number, x: number)
   return (Math.cosh(b * x) + Math.cos(b * x) - sigma * (Math.sinh(b * x) + Math.sin(b * x))) / Math.sqrt(rhoA * L);
 }
 
-/** mulberry32: a small seeded 32-bit PRNG (public-domain generator by Tommy Ettinger), uniform in [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** Standard normal samples (Box–Muller) from a seeded uniform generator. */
-export function gaussian(seed: number): () => number {
+/**
+ * Standard normal samples (Box–Muller, cosine branch only: one normal per two uniforms) from mulberry32.
+ * Not the same sequence as helpers.ts `gaussian`, which also returns the sine branch; the modal tests and
+ * fixtures (close-modes, bar) were made with this one, so it keeps its own name.
+ */
+export function gaussianCosOnly(seed: number): () => number {
   const u = mulberry32(seed);
   return () => {
     let u1 = u();
