@@ -3,7 +3,7 @@
 // reduction (O'Callahan, Avitabile & Riemer 1989).
 import { describe, expect, it } from 'vitest';
 import { crossOrthogonality } from './cross-orthogonality.ts';
-import { expectClose, loadCorrelationFixture } from './test-support.ts';
+import { expectClose, loadCorrelationFixture } from '../../test/correlation-support.ts';
 
 const chain = loadCorrelationFixture('spring-chain.json');
 const M: number[][] = chain.M;

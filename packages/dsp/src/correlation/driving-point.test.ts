@@ -1,7 +1,7 @@
 // drivingPointMeasure on the simply supported beam, modes sin(nπx/L) (Blevins 1979): closed forms.
 import { describe, expect, it } from 'vitest';
 import { drivingPointMeasure } from './driving-point.ts';
-import { simplySupportedBeam } from './test-support.ts';
+import { simplySupportedBeam } from '../../test/correlation-support.ts';
 
 const shapes = simplySupportedBeam(3, 41);
 const x = (i: number) => i / 40;

@@ -3,7 +3,7 @@
 // (tests/reference/efi_reference.py → tests/fixtures/correlation/efi-beam.json).
 import { describe, expect, it } from 'vitest';
 import { effectiveIndependence } from './effective-independence.ts';
-import { expectClose, loadCorrelationFixture, simplySupportedBeam } from './test-support.ts';
+import { expectClose, loadCorrelationFixture, simplySupportedBeam } from '../../test/correlation-support.ts';
 
 const beam = loadCorrelationFixture('efi-beam.json');
 const shapes = simplySupportedBeam(3, 41);

@@ -3,8 +3,8 @@ import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { repoRoot } from '../modal/test-support.ts';
-import { correlationFixtureDir, loadCorrelationFixture } from './test-support.ts';
+import { repoRoot } from '../../test/modal-systems.ts';
+import { correlationFixtureDir, loadCorrelationFixture } from '../../test/correlation-support.ts';
 
 const hasScipy = spawnSync('python3', ['-c', 'import scipy'], { stdio: 'ignore' }).status === 0;
 

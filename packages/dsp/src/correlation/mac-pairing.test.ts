@@ -2,7 +2,7 @@
 // 5 % stiffer come from scipy.linalg.eigh (tests/reference/efi_reference.py → spring-chain.json).
 import { describe, expect, it } from 'vitest';
 import { autoMac, macPairs, type CorrelationMode } from './mac-pairing.ts';
-import { expectClose, loadCorrelationFixture, simplySupportedBeam } from './test-support.ts';
+import { expectClose, loadCorrelationFixture, simplySupportedBeam } from '../../test/correlation-support.ts';
 
 const chain = loadCorrelationFixture('spring-chain.json');
 const modesOf = (set: { fHz: number[]; shapes: number[][] }): CorrelationMode[] =>

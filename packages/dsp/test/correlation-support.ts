@@ -1,5 +1,5 @@
-// Test support for the correlation tests: fixture loading and the simply supported beam. Not exported.
-import { loadModalFixture, repoRoot } from '../modal/test-support.ts';
+// Test support for the correlation tests (src/correlation/*.test.ts): fixture loading and the simply supported beam.
+import { loadModalFixture, repoRoot } from './modal-systems.ts';
 import { resolve } from 'node:path';
 
 export const correlationFixtureDir = resolve(repoRoot, 'tests/fixtures/correlation');
