@@ -11,7 +11,7 @@ import { buildCampaign } from '@resonote/api/factory';
 import { signedInClient } from '@resonote/api/demo-client';
 import { DEMO_PASSWORD } from '@resonote/api/seed';
 import { startDemo, type DemoRun } from '../support/demo.ts';
-import { screenshot, viewports } from '../support/browser.ts';
+import { screenshot, settled, viewports } from '../support/browser.ts';
 
 let demo: DemoRun;
 let plateId: string;
@@ -112,11 +112,13 @@ describe('the Modes screen on a simply supported plate with 16 modes', () => {
 
     // One wide fit over all 16 modes (the form allows orders up to 80).
     await runFit(page, 100, 1450, 80);
+    await settled(page);
     await screenshot(page, 'modes-plate-wide-diagram-1366');
     await suggestComputeAdd(page, 16);
     const wide = await tableHz(page);
     console.log(`[plate] wide fit: ${wide.map((f) => f.toFixed(2)).join(', ')}`);
     expectEveryLeissaMode(wide);
+    await settled(page);
     await screenshot(page, 'modes-plate-wide-table-1366');
 
     // Empty the table, then two band fits that overlap at 650–700 Hz (mode (3,2) at 673.1 Hz is in both).
@@ -136,6 +138,7 @@ describe('the Modes screen on a simply supported plate with 16 modes', () => {
     const text = await page.getByTestId('mode-table').textContent();
     expect(text).toContain('100–700 Hz');
     expect(text).toContain('650–1450 Hz');
+    await settled(page);
     await screenshot(page, 'modes-plate-bands-table-1366');
     expect(errors).toEqual([]);
     await close();
@@ -144,6 +147,7 @@ describe('the Modes screen on a simply supported plate with 16 modes', () => {
     await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${plateId}/modes`);
     await tablet.page.getByTestId('mode-table').locator('tbody tr').nth(15).waitFor({ timeout: 30_000 });
     await tablet.page.locator('.stabilization-plot .scatterlayer').first().waitFor();
+    await settled(tablet.page);
     await screenshot(tablet.page, 'modes-plate-768');
     expect(await tablet.page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(768);
     expect(tablet.errors).toEqual([]);
