@@ -74,7 +74,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     body: z.strictObject({
       entryIds: z.array(uuidSchema).max(500).optional(),
       bandHz: z.strictObject({ low: z.number().min(0), high: z.number().positive() }).optional(),
-      maxOrder: z.number().int().min(2).max(80).default(40),
+      maxOrder: z.number().int().min(2).max(160).default(40),
       orderStep: z.number().int().min(1).max(10).default(2),
       tolerances: z.strictObject({ freqPercent: z.number().positive().max(20).default(1), dampingPercent: z.number().positive().max(100).default(5), macPercent: z.number().min(0).max(100).default(98) }).default({ freqPercent: 1, dampingPercent: 5, macPercent: 98 }),
     }),

@@ -37,7 +37,7 @@ export function FitForm({ entries, rovingSide, defaultBand, busy, onRun }: { ent
   const errors = {
     low: low.trim() === '' || !Number.isFinite(lowN) || lowN < 0 ? 'a frequency of 0 Hz or more' : undefined,
     high: high.trim() === '' || !Number.isFinite(highN) || highN <= lowN ? 'above the lower edge' : undefined,
-    order: !Number.isInteger(orderN) || orderN < 2 || orderN > 80 ? 'a whole number from 2 to 80' : undefined,
+    order: !Number.isInteger(orderN) || orderN < 2 || orderN > 160 ? 'a whole number from 2 to 160' : undefined,
     step: !Number.isInteger(stepN) || stepN < 1 || stepN > 10 ? 'a whole number from 1 to 10' : undefined,
     frfs: chosen.size < 2 ? 'pick at least 2 FRFs' : undefined,
   };
