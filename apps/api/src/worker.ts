@@ -9,7 +9,7 @@ import { ConfigError, loadConfig, type Config } from './config.ts';
 import { CampaignEvents } from './hits/events.ts';
 import { Jobs } from './jobs/queue.ts';
 import { registerJobHandlers } from './jobs/handlers.ts';
-import { flushResultWrites } from './hits/processing.ts';
+import { flushResultWrites } from './hits/result-cache.ts';
 import { stopFitThread } from './modes/jobs.ts';
 
 let config: Config;

@@ -2,6 +2,18 @@
 import { checkSamples } from './validate.ts';
 
 /**
+ * The offset of one channel: the mean of its first max(1, preTriggerSamples) samples (at most its
+ * length), the estimate `removeOffsets` subtracts and `splitRecords` triggers from (common practice;
+ * docs/methods.md#frf-averaging). In: samples in any unit; out: the mean in the same unit.
+ */
+export function channelOffset(ch: ArrayLike<number>, preTriggerSamples: number): number {
+  const k = Math.min(Math.max(1, Math.round(preTriggerSamples)), ch.length);
+  let mean = 0;
+  for (let i = 0; i < k; i++) mean += ch[i]!;
+  return mean / k;
+}
+
+/**
  * Subtracts each channel's pre-trigger mean from that channel.
  *
  * In: channels of one record (any unit: force in N, responses in their own unit, same or different
@@ -16,13 +28,9 @@ export function removeOffsets(channels: readonly ArrayLike<number>[], preTrigger
   if (!Number.isFinite(preTriggerSamples) || preTriggerSamples < 0) {
     throw new RangeError(`preTriggerSamples=${preTriggerSamples} must be a finite number ≥ 0`);
   }
-  const m = Math.max(1, Math.round(preTriggerSamples));
   return channels.map((ch, c) => {
     checkSamples(ch, `channels[${c}]`);
-    let mean = 0;
-    const k = Math.min(m, ch.length);
-    for (let i = 0; i < k; i++) mean += ch[i];
-    mean /= k;
+    const mean = channelOffset(ch, preTriggerSamples);
     const out = new Float64Array(ch.length);
     for (let i = 0; i < ch.length; i++) out[i] = ch[i] - mean;
     return out;

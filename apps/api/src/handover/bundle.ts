@@ -7,7 +7,7 @@ import { strToU8, Zip, ZipDeflate } from 'fflate';
 import { hit, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
-import { unpackSamples } from '../hits/processing.ts';
+import { unpackSamples } from '../hits/samples-codec.ts';
 import type { HandoverData } from './collect.ts';
 import { DB_REFERENCE } from './report-html.ts';
 

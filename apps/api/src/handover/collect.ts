@@ -3,26 +3,17 @@
 // entryResult the Review screens use, so every number carries its input hash), the validity
 // checks and the current modes. The report, the bundles and the shared link all render this.
 import { aliasedTable, and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
-import { averageFrf } from '@resonote/dsp';
 import { AXIS_CONVENTION, calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
 import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from '../hits/channel-map.ts';
-import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis, type Comparison } from '../hits/checks.ts';
+import { entriesWithResults, validityChecks, type EntryWithResult, type ValidityChecks } from '../hits/campaign-checks.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
 import { correlate, testModesForCorrelation, type Correlation } from '../fe/correlation.ts';
 import { latestModelId, loadModel } from '../fe/store.ts';
 import { DUPLICATE_RULE, rowView, tableMac, tableRows } from '../modes/mode-table.ts';
-import {
-  currentSettings,
-  entryResult,
-  mainChannel,
-  recordSamples,
-  unpackSamples,
-  type CurrentSettings,
-  type EntryResult,
-} from '../hits/processing.ts';
+import { currentSettings, type CurrentSettings } from '../hits/current-settings.ts';
 
 const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
@@ -41,12 +32,7 @@ export interface HandoverEntry {
   rejectedHits: number;
 }
 
-export interface HandoverFrf {
-  entry: HandoverEntry;
-  result: EntryResult;
-  /** Index of the response channel that measures the entry's own response DOF. */
-  main: number;
-}
+export type HandoverFrf = EntryWithResult<HandoverEntry>;
 
 export interface HandoverKitItem {
   id: string;
@@ -92,11 +78,7 @@ export async function correlationOf(db: Db, campaignId: string): Promise<Handove
   return { model: { id: r.id, name: r.name, versionLabel: r.versionLabel, normalisation: r.normalisation, uploadedAt: r.uploadedAt, nodeCount: r.nodeCount, modeCount: r.modeCount }, result: correlate(s.model, s.links, await testModesForCorrelation(db, campaignId)) };
 }
 
-export interface HandoverChecks {
-  reciprocity: ({ a: { response: string; excitation: string }; b: { response: string; excitation: string } } & Comparison)[];
-  linearity: ({ entry: { response: string; excitation: string }; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number } & Comparison)[];
-  note: string;
-}
+export type HandoverChecks = ValidityChecks;
 
 export interface HandoverData {
   generatedAt: Date;
@@ -147,15 +129,8 @@ export async function scheduleOf(db: Db, campaignId: string): Promise<HandoverEn
 }
 
 /** The averaged FRFs of every entry with accepted hits, in schedule order. */
-export async function frfsOf(db: Db, campaignId: string, schedule: HandoverEntry[], settings: CurrentSettings): Promise<HandoverFrf[]> {
-  const out: HandoverFrf[] = [];
-  for (const entry of schedule) {
-    if (entry.acceptedHits === 0) continue;
-    const result = await entryResult(db, campaignId, entry.id, settings);
-    if (!result) continue;
-    out.push({ entry, result, main: mainChannel(result.channels, entry.responseDof) });
-  }
-  return out;
+export function frfsOf(db: Db, campaignId: string, schedule: HandoverEntry[], settings: CurrentSettings): Promise<HandoverFrf[]> {
+  return entriesWithResults(db, campaignId, settings, schedule);
 }
 
 /** The campaign's mode table (null when it has no rows) with the fits its rows came from. */
@@ -174,35 +149,6 @@ export async function modesOf(db: Db, campaignId: string): Promise<HandoverModes
     }),
     duplicateRule: `The same mode twice: frequencies within ${DUPLICATE_RULE.freqPercent} % and MAC ≥ ${DUPLICATE_RULE.mac} over the DOFs both shapes share (common practice).`,
     axisConvention: AXIS_CONVENTION,
-  };
-}
-
-/**
- * Reciprocity and linearity, computed exactly as GET …/checks does (routes/hits.ts): reciprocity
- * pairs H_ij/H_ji on the H1 of the main channels; linearity splits an entry's accepted hits by
- * peak force into a low and a high half (force ratio ≥ 1.5, at least 4 hits) and compares the two
- * H1 averages.
- */
-export async function checksOf(db: Db, campaignId: string, schedule: HandoverEntry[], frfs: HandoverFrf[], settings: CurrentSettings): Promise<HandoverChecks> {
-  const s = settings.settings;
-  const byId = new Map(frfs.map((x) => [x.entry.id, x]));
-  const label = (e: HandoverEntry) => ({ response: e.responseDof, excitation: e.excitationDof });
-  const reciprocity: HandoverChecks['reciprocity'] = [];
-  for (const a of frfs) {
-    const b = frfs.find((x) => isReciprocal(a.entry, x.entry) && x.entry.id !== a.entry.id);
-    if (!b || a.entry.id > b.entry.id || a.result.samples !== b.result.samples) continue;
-    reciprocity.push({ a: label(a.entry), b: label(b.entry), ...compareFrfs(onPositiveAxis(a.result.frf.h1[a.main]!, a.entry.responseDof, a.entry.excitationDof), onPositiveAxis(b.result.frf.h1[b.main]!, b.entry.responseDof, b.entry.excitationDof), a.result.frf.f, s.bandHz) });
-  }
-  const linearity: HandoverChecks['linearity'] = [];
-  for (const e of schedule) {
-    if (!byId.has(e.id)) continue;
-    const result = await entryLinearity(db, e.id, e.responseDof, s);
-    if (result) linearity.push({ entry: label(e), ...result });
-  }
-  return {
-    reciprocity,
-    linearity,
-    note: 'No normative pass/fail threshold exists for these checks (reciprocity and linearity checks as in Ewins 2000, Modal Testing, ch. 3); each lab sets its own. FRAC is blind to a constant factor, so read it together with the dB differences.',
   };
 }
 
@@ -319,7 +265,7 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
   });
 
   const frfs = await frfsOf(db, campaignId, schedule, current);
-  const checks = options.checks === false ? null : await checksOf(db, campaignId, schedule, frfs, current);
+  const checks = options.checks === false ? null : await validityChecks(db, frfs, current);
   const modes = await modesOf(db, campaignId);
   const correlation = await correlationOf(db, campaignId);
 

@@ -1,7 +1,7 @@
 // The hand-over report as one self-contained, printable HTML page (A4, print CSS, inline SVG, no
 // external assets). The same page is served to members, through a shared link, and printed to PDF.
 import type { AcquisitionSettings } from '@resonote/contracts';
-import { recordSamples } from '../hits/processing.ts';
+import { recordSamples } from '../hits/current-settings.ts';
 import { exponentialWindowOf } from '../hits/settings-to-dsp.ts';
 import type { HandoverData } from './collect.ts';
 import { esc, frequencyPairSvg, frfThumbSvg, geometrySvg, modeShapeSvg } from './svg.ts';

@@ -7,7 +7,9 @@ import { frfAxisFactor, sameAxis, type AcquisitionSettings } from '@resonote/con
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
-import { mainChannel, recordSamples, unpackSamples } from './processing.ts';
+import { mainChannel } from './entry-result.ts';
+import { recordSamples } from './current-settings.ts';
+import { unpackSamples } from './samples-codec.ts';
 import { frfWindowsOf } from './settings-to-dsp.ts';
 
 export interface PeakDifference {

@@ -1,7 +1,7 @@
 // Shapes an entry's averaged spectra as JSON: frequency in Hz, complex H1/H2 per response
 // channel in the requested FRF kind, coherence, the force ESD, and units.
 import { convertFrf, type Complex } from '@resonote/dsp';
-import type { EntryResult } from './processing.ts';
+import type { EntryResult } from './entry-result.ts';
 
 export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
 export const frfUnits: Record<FrfKind, string> = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' };

@@ -1,7 +1,7 @@
 // The one adapter from the campaign's acquisition settings to the dsp window options. Every path that
 // windows hits (verdicts, entry FRFs, the linearity check, the hit plot, modal damping correction, the
 // hand-over report) takes its windows from here, so they cannot drift apart.
-import { tauFromEndLevel, type ExponentialWindowOptions, type ForceWindowOptions } from '@resonote/dsp';
+import { defaultHitLimits, tauFromEndLevel, type ExponentialWindowOptions, type ForceWindowOptions, type HitLimits } from '@resonote/dsp';
 import type { AcquisitionSettings } from '@resonote/contracts';
 
 /** Force window on the force channel: unity from the record start (pre-trigger included), then the taper (docs/methods.md#force-window). */
@@ -30,4 +30,19 @@ export function dspExponentialWindowOf(s: AcquisitionSettings): ExponentialWindo
 /** Both windows as `averageFrf` takes them (docs/methods.md#force-window, #exp-window). */
 export function frfWindowsOf(s: AcquisitionSettings): { forceWindow: ForceWindowOptions; exponentialWindow: ExponentialWindowOptions | null } {
   return { forceWindow: forceWindowOf(s), exponentialWindow: dspExponentialWindowOf(s) };
+}
+
+/** The limits of the hit checks (docs/methods.md#hit-checks) from the settings; the rest are dsp's defaults. */
+export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
+  return {
+    ...defaultHitLimits,
+    forceRangeN: s.forceRangeN,
+    responseRange: s.responseRangeMs2,
+    overloadFraction: s.overloadPercent / 100,
+    doubleHitRatio: s.doubleHitRatio,
+    minPeakN: s.minPeakN,
+    bandHz: [s.bandHz.low, s.bandHz.high],
+    rollOffDb: s.rollOffDb,
+    exponentialWindow: dspExponentialWindowOf(s),
+  };
 }

@@ -2,7 +2,10 @@
 // without hardware. The demo bar and baseplate use their own models; any other geometry gets a
 // beam-like model along its longest extent (the free-free bar's Euler–Bernoulli modes scaled to
 // that length) — invented, for trying the workflow, not a model of the real structure.
-import { pumpSkidBaseplate, steelBarModel, type ModalModel } from '@resonote/sim';
+import { createRng, hitSeries, pumpSkidBaseplate, steelBarModel, type ModalModel } from '@resonote/sim';
+import type { AcquisitionSettings } from '@resonote/contracts';
+import { badRequest } from '../errors.ts';
+import { recordSamples } from './current-settings.ts';
 
 export interface RigPoint {
   label: string;
@@ -33,3 +36,56 @@ export const rigTips = { soft: 2.0e-3, medium: 0.8e-3, hard: 0.3e-3 } as const;
 
 /** Noise floors of the rig's measurement chain, rms: invented for a plausible IEPE chain, not a datasheet value. */
 export const rigNoise = { forceN: 0.02, responseMs2: 0.005 } as const;
+
+export interface RigStrike {
+  count: number;
+  tip: keyof typeof rigTips;
+  peakForceN?: number;
+  seed: number;
+  doubleHitProbability: number;
+  overloadProbability: number;
+}
+
+/**
+ * `count` hits of the rig at one entry as one continuous recording, records back to back (as a
+ * front end streams them), one stream per channel of `map` in its order. 400 when the rig cannot
+ * strike there (the model has no such DOF).
+ */
+export function rigRecording(model: ModalModel, entry: { excitationDof: string }, map: readonly { channel: number; role: 'force' | 'response'; dof: string }[], s: AcquisitionSettings, strike: RigStrike): Float64Array[] {
+  const responses = map.filter((m) => m.role === 'response');
+  const n = recordSamples(s);
+  let hits;
+  try {
+    hits = hitSeries(
+      model,
+      {
+        excitationDof: entry.excitationDof,
+        responseDofs: responses.map((r) => r.dof),
+        fs: s.sampleRateHz,
+        samples: n,
+        preTriggerS: s.preTriggerS + 0.5 / s.sampleRateHz,
+        peakForceN: strike.peakForceN ?? Math.min(0.02 * s.forceRangeN, 100),
+        pulseWidthS: rigTips[strike.tip],
+        forceNoiseN: rigNoise.forceN,
+        responseNoise: rigNoise.responseMs2,
+        forceRangeN: s.forceRangeN,
+        responseRangeMs2: s.responseRangeMs2,
+        adcBits: 24,
+      },
+      strike.count,
+      createRng(strike.seed),
+      { doubleHitProbability: strike.doubleHitProbability, overloadProbability: strike.overloadProbability },
+    );
+  } catch (err) {
+    if (err instanceof RangeError) throw badRequest(`The simulated rig cannot strike here: ${err.message}`);
+    throw err;
+  }
+  return map.map((m) => {
+    const out = new Float64Array(n * hits.length);
+    hits.forEach((h, i) => {
+      const src = m.role === 'force' ? h.force : h.responses[responses.findIndex((r) => r.channel === m.channel)]!;
+      out.set(src, i * n);
+    });
+    return out;
+  });
+}

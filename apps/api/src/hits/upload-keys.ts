@@ -8,7 +8,7 @@ import { and, eq } from 'drizzle-orm';
 import { uploadKey } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { HttpError } from '../errors.ts';
-import { loadScheduleEntry } from './processing.ts';
+import { loadScheduleEntry } from './schedule-entry.ts';
 
 export type UploadKeyRow = typeof uploadKey.$inferSelect;
 

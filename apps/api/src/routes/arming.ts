@@ -6,7 +6,7 @@ import { armSchema } from '@resonote/contracts';
 import { armedDof, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import type { CampaignEvents } from '../hits/events.ts';
-import { excitationPoint, loadScheduleEntry, responsePoint } from '../hits/processing.ts';
+import { excitationPoint, loadScheduleEntry, responsePoint } from '../hits/schedule-entry.ts';
 
 export function registerArmingRoutes({ routes, db }: Deps, events: CampaignEvents): void {
   async function armedList(campaignId: string, me: string) {

@@ -1,0 +1,123 @@
+// The in-memory side of the hit path, per database: the newest entry results and the samples of
+// recent hits, and the delayed writes of results to frf_result. Memory is only a cache: every read
+// of a result first checks its input hash against PostgreSQL (hits/entry-result.ts), so nothing
+// stale is ever served, and a write lost here is recomputed on the next read.
+import { inArray } from 'drizzle-orm';
+import { hit } from '@resonote/db/schema';
+import type { Db } from '@resonote/db/client';
+import { isDatabaseUnavailable } from '../db-health.ts';
+import { unpackSamples } from './samples-codec.ts';
+import type { EntryResult } from './entry-result.ts';
+
+/** A small least-recently-used map. */
+export class Lru<K, V> {
+  private readonly map = new Map<K, V>();
+  constructor(private readonly max: number) {}
+  get(key: K): V | undefined {
+    const v = this.map.get(key);
+    if (v !== undefined) {
+      this.map.delete(key);
+      this.map.set(key, v);
+    }
+    return v;
+  }
+  set(key: K, value: V): void {
+    this.map.delete(key);
+    this.map.set(key, value);
+    if (this.map.size > this.max) this.map.delete(this.map.keys().next().value as K);
+  }
+  get size(): number {
+    return this.map.size;
+  }
+}
+
+/**
+ * The newest results and the samples of recent hits, so the hot path of a test day (hit in →
+ * updated average out) needs neither re-reading raw samples nor re-decoding stored spectra.
+ */
+interface Caches {
+  results: Lru<string, EntryResult>;
+  samples: Lru<string, Float32Array[]>;
+  pending: Set<Promise<unknown>>;
+  /** Result writes waiting for their DOF to go quiet, by entry id. */
+  scheduled: Map<string, { timer: ReturnType<typeof setTimeout>; run: () => Promise<void> }>;
+}
+
+/** A burst of hits at one DOF writes only its last result, this long after the last hit. */
+export const RESULT_WRITE_DELAY_MS = 400;
+
+const cachesByDb = new WeakMap<object, Caches>();
+function caches(db: Db): Caches {
+  let c = cachesByDb.get(db);
+  if (!c) {
+    // 256 hits × 4 channels × 16 384 samples × 4 bytes ≈ 64 MB at most.
+    c = { results: new Lru(64), samples: new Lru(256), pending: new Set(), scheduled: new Map() };
+    cachesByDb.set(db, c);
+  }
+  return c;
+}
+
+export function rememberedResult(db: Db, entryId: string): EntryResult | undefined {
+  return caches(db).results.get(entryId);
+}
+
+export function rememberResult(db: Db, entryId: string, result: EntryResult): void {
+  caches(db).results.set(entryId, result);
+}
+
+/** Remembers the samples of a hit just stored (storage order, engineering units). */
+export function rememberSamples(db: Db, hitId: string, channels: Float32Array[]): void {
+  caches(db).samples.set(hitId, channels);
+}
+
+/**
+ * The samples of stored hits (storage order, engineering units), from memory where they are and
+ * read from `hit.samples` once otherwise. Every path that averages stored hits reads them here.
+ */
+export async function hitSamples(db: Db, ids: readonly string[], channelCount: number, samplesPerChannel: number): Promise<Float32Array[][]> {
+  const cache = caches(db).samples;
+  const missing = ids.filter((id) => !cache.get(id));
+  if (missing.length) {
+    const rows = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(inArray(hit.id, missing));
+    for (const r of rows) cache.set(r.id, unpackSamples(r.samples, channelCount, samplesPerChannel));
+  }
+  return ids.map((id) => {
+    const chans = cache.get(id);
+    if (!chans) throw new Error(`hit ${id} has no stored samples`);
+    return chans;
+  });
+}
+
+/** Stores a result off the request path, once its entry has been quiet for RESULT_WRITE_DELAY_MS. */
+export function scheduleResultWrite(db: Db, entryId: string, write: () => Promise<void>): void {
+  const cache = caches(db);
+  const earlier = cache.scheduled.get(entryId);
+  if (earlier) clearTimeout(earlier.timer);
+  const run = () => {
+    cache.scheduled.delete(entryId);
+    const p: Promise<unknown> = write()
+      .catch((err: Error) =>
+        // The result is recomputed from the hits on the next read, so a write lost to a database
+        // outage costs nothing; the message never carries the query's parameters (raw spectra).
+        isDatabaseUnavailable(err)
+          ? console.log(`[resonote] the stored copy of entry ${entryId}'s result was not written (database unreachable); it is recomputed on the next read`)
+          : console.error(`[resonote] storing the result of entry ${entryId} failed: ${((err as { cause?: Error }).cause ?? err).message}`),
+      )
+      .finally(() => cache.pending.delete(p));
+    cache.pending.add(p);
+    return p.then(() => undefined);
+  };
+  const timer = setTimeout(run, RESULT_WRITE_DELAY_MS);
+  timer.unref?.();
+  cache.scheduled.set(entryId, { timer, run });
+}
+
+/** Writes the results still waiting and waits for every write under way (shutdown, tests). */
+export async function flushResultWrites(db: Db): Promise<void> {
+  const c = caches(db);
+  for (const { timer, run } of [...c.scheduled.values()]) {
+    clearTimeout(timer);
+    void run();
+  }
+  await Promise.all([...c.pending]);
+}
