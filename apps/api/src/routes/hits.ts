@@ -13,6 +13,7 @@ import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, HttpError, notFound } from '../errors.ts';
 import { channelMapFor, storageOrder, type ChannelSnapshot } from '../hits/channel-map.ts';
+import { refuseUncalibrated } from '../kit/policy.ts';
 import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis } from '../hits/checks.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { frfJson, frfUnits, type FrfKind } from '../hits/frf-json.ts';
@@ -220,6 +221,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
+      await refuseUncalibrated(db, access.campaignId, map);
       const { channels: eu, resampled } = uploadAtCampaignRate(file, map, fields, s);
       const { kind: _kind, idempotencyKey: _key, ...storing } = fields;
       const hash = requestSha256('hits:upload', storing, file.buffer);
@@ -256,6 +258,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, access.campaignId);
       const s = settings.settings;
       const map = await channelMapFor(db, access.campaignId, entry);
+      await refuseUncalibrated(db, access.campaignId, map);
       const responses = map.filter((m) => m.role === 'response');
       const model = rigModel(c!.simulator, points);
       const n = recordSamples(s);
