@@ -102,4 +102,16 @@ describe('notes and photos per DOF', () => {
     const withPhoto = events.body.events.find((e: { after: { photo: unknown } }) => e.after.photo);
     expect(withPhoto.after.photo.sha256).toMatch(/^[0-9a-f]{64}$/);
   });
+
+  it('puts every note, with its photo embedded as the stored bytes, into the hand-over report', async () => {
+    const report = await viewer.agent.get(`${base}/report.html`);
+    expect(report.status).toBe(200);
+    expect(report.text).toContain('<h3>Notes at the structure</h3>');
+    expect(report.text).toContain('Wax mount; the surface was oily, cleaned with solvent.');
+    expect(report.text).toContain('Changed to the hard tip: the soft one rolled off at 400 Hz.');
+    // The PNG of the first test, byte for byte, as a data URI.
+    expect(report.text).toContain(`data:image/png;base64,${platePng().toString('base64')}`);
+    const notes = (await viewer.agent.get(`${base}/notes`)).body.notes as unknown[];
+    expect(report.text.match(/<tr><td class="n">B21:\+Z \/ B04:\+Z<\/td>/g)).toHaveLength(notes.length);
+  });
 });
