@@ -41,21 +41,21 @@ function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
   const current = item.bookings.filter((b) => b.toOn >= today);
   return (
     <li className="space-y-2 border-b border-[var(--line)] py-3 last:border-0" data-testid="lab-item" data-serial={item.serial}>
-      <div className="flex flex-wrap items-start gap-x-6 gap-y-1">
-        <div className="min-w-48">
+      <div className="grid items-start gap-x-6 gap-y-2 sm:grid-cols-2 xl:grid-cols-[minmax(14rem,1.3fr)_minmax(11rem,1fr)_minmax(11rem,auto)_minmax(13rem,1.3fr)_auto]">
+        <div className="min-w-0">
           <p className="font-medium">
             {item.model} <span className="num text-[var(--muted)]">SN {item.serial}</span>
           </p>
           <p className="text-xs text-[var(--muted)]">{item.kind === 'hammer' ? `Tips: ${item.tips.join(', ') || 'none registered'}` : item.kind === 'accelerometer' ? `Axes: ${item.axes.join(', ')}` : item.notes || 'Signal conditioner'}</p>
         </div>
-        <div className="min-w-40 text-sm">
+        <div className="min-w-0 text-sm">
           <Sensitivity item={item} />
         </div>
-        <div className="flex min-w-40 flex-col gap-1">
+        <div className="flex min-w-0 flex-col items-start gap-1">
           <CalibrationBadge state={item.calibration.state} days={item.calibration.days} />
           {item.calibration.dueOn && <span className="num text-xs text-[var(--muted)]">due {item.calibration.dueOn}</span>}
         </div>
-        <div className="min-w-44 text-xs" data-testid="lab-bookings">
+        <div className="min-w-0 text-xs" data-testid="lab-bookings">
           {current.length === 0 ? (
             <span className="text-[var(--muted)]">Not booked</span>
           ) : (
@@ -72,7 +72,7 @@ function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
             </ul>
           )}
         </div>
-        <div className="ml-auto flex flex-wrap gap-2">
+        <div className="flex flex-wrap justify-end gap-2 sm:col-span-2 xl:col-span-1">
           <Button variant="ghost" onClick={() => setHistory((h) => !h)} aria-expanded={history} className="min-h-9 px-3 text-xs">
             History <span className="num">({item.calibrations.length})</span>
           </Button>

@@ -33,7 +33,7 @@ function ChangeDialog({ name, change, onAnswer }: { name: string; change: Sensit
           <span aria-hidden>⚠ </span>Sensitivity changes by <span className="num">{change.changePct.toFixed(1)} %</span>
         </h2>
         <p id="large-change-text" className="text-sm">
-          The new sensitivity of {name} differs from the previous one by more than the campaign’s tolerance of <span className="num">{fmt(change.tolerancePct)} %</span>. A step this large is more often a unit mix-up (mV/N against mV/lbf, mV/(m/s²) against mV/g) than a real change of the sensor.
+          The new sensitivity of {name} differs from the previous one by more than the tolerance of <span className="num">{fmt(change.tolerancePct)} %</span>. A step this large is more often a unit mix-up (mV/N against mV/lbf, mV/(m/s²) against mV/g) than a real change of the sensor.
         </p>
         <table className="w-full text-sm">
           <tbody>

@@ -102,8 +102,8 @@ export function LabBookings({ campaignId, canLead }: { campaignId: string; canLe
           ) : (
             <Select id="book-item" name="labItemId" label="Item" options={available.map((i) => [i.id, `${KIND[i.kind]} ${i.model} (SN ${i.serial})`])} error={errors.labItemId} />
           )}
-          <Field id="book-from" name="fromOn" type="date" label="From" error={errors.fromOn} />
-          <Field id="book-to" name="toOn" type="date" label="To (inclusive)" error={errors.toOn} />
+          <Field id="book-from" name="fromOn" type="date" label="Booked from" error={errors.fromOn} />
+          <Field id="book-to" name="toOn" type="date" label="Booked until (inclusive)" error={errors.toOn} />
           <div className="flex gap-2">
             <Button type="submit" disabled={busy || available.length === 0} data-testid="book-save">
               Book
