@@ -8,7 +8,7 @@ import { signUp } from '../support/accounts.ts';
 import { invite, type Person } from '../support/campaign.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
-type Access = 'public' | 'user' | 'admin' | 'viewer' | 'engineer' | 'lead';
+type Access = 'public' | 'user' | 'admin' | 'kit-keeper' | 'viewer' | 'engineer' | 'lead';
 
 /** Who may call each route. Adding a route means adding a line here. */
 const matrix: Record<string, Access> = {
@@ -107,6 +107,19 @@ const matrix: Record<string, Access> = {
   'POST /campaigns/:campaignId/jobs': 'lead',
   'GET /campaigns/:campaignId/jobs/:jobId': 'lead',
   'GET /campaigns/:campaignId/jobs/:jobId/file': 'lead',
+  'GET /campaigns/:campaignId/kit-policy': 'viewer',
+  'PUT /campaigns/:campaignId/kit-policy': 'lead',
+  'GET /campaigns/:campaignId/kit-readiness': 'viewer',
+  'GET /lab/items': 'user',
+  'POST /lab/items': 'kit-keeper',
+  'PATCH /lab/items/:itemId': 'kit-keeper',
+  'POST /lab/items/:itemId/calibrations': 'kit-keeper',
+  'GET /campaigns/:campaignId/bookings': 'viewer',
+  'POST /campaigns/:campaignId/bookings': 'lead',
+  'DELETE /campaigns/:campaignId/bookings/:bookingId': 'lead',
+  'GET /campaigns/:campaignId/notes': 'viewer',
+  'POST /campaigns/:campaignId/schedule/:entryId/notes': 'engineer',
+  'GET /campaigns/:campaignId/notes/:noteId/photo': 'viewer',
 };
 
 /** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */
@@ -188,6 +201,8 @@ function expected(access: Access, caller: Caller): 'allowed' | 401 | 403 | 404 {
   if (caller === 'signed-out') return 401;
   if (access === 'user') return 'allowed';
   if (access === 'admin') return caller === 'admin' ? 'allowed' : 403;
+  // The lab inventory: admins and whoever leads a campaign (the outsider leads the other one).
+  if (access === 'kit-keeper') return caller === 'admin' || caller === 'lead' || caller === 'outsider' ? 'allowed' : 403;
   if (caller === 'admin') return 'allowed';
   if (caller === 'outsider') return 404;
   return rank[caller] >= rank[access] ? 'allowed' : 403;

@@ -97,7 +97,9 @@ describe('registering kit items', () => {
 describe('changing kit items', () => {
   it('recomputes the base sensitivity when the sensitivity and unit change, and bumps the version', async () => {
     const item = await addAccelerometer({ sensitivity: 10, sensitivityUnit: 'mV/(m/s²)' });
-    const res = await crew.lead.agent.patch(`${kitPath}/${item.id}`).send({ version: item.version, sensitivity: 50, sensitivityUnit: 'mV/g' });
+    // 10 → 5.0986 mV/(m/s²) is a 49 % step: beyond the 5 % tolerance, so it is confirmed
+    // (tests/api/kit-calibration-policy.test.ts covers the refusal).
+    const res = await crew.lead.agent.patch(`${kitPath}/${item.id}`).send({ version: item.version, sensitivity: 50, sensitivityUnit: 'mV/g', confirmLargeChange: true });
     expect(res.status).toBe(200);
     expect(res.body.item).toMatchObject({ sensitivity: 50, sensitivityUnit: 'mV/g', version: item.version + 1 });
     // docs/methods.md#units: g_n = 9.80665 m/s² exactly, so 50 mV/g = 5.0986 mV/(m/s²).

@@ -37,6 +37,9 @@ import { registerHandoverRoutes } from './routes/handover.ts';
 import { registerTokenRoutes } from './routes/tokens.ts';
 import { registerArmingRoutes } from './routes/arming.ts';
 import { registerFeModelRoutes } from './routes/fe-models.ts';
+import { registerKitPolicyRoutes } from './routes/kit-policy.ts';
+import { registerLabRoutes } from './routes/lab.ts';
+import { registerNoteRoutes } from './routes/notes.ts';
 
 export interface AppHandle {
   app: Express;
@@ -131,6 +134,9 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerHandoverRoutes(deps);
   registerJobRoutes(deps);
   registerFeModelRoutes(deps);
+  registerKitPolicyRoutes(deps);
+  registerLabRoutes(deps);
+  registerNoteRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
   app.use('/api', routes.router);

@@ -99,3 +99,24 @@ export function requireCampaignRole(db: Db, minimum: CampaignRole): RequestHandl
     }
   };
 }
+
+/**
+ * The lab inventory is kept by the instance's admins and by anyone who leads a campaign (the
+ * people design.md has registering kit); everyone else reads it.
+ */
+export function requireKitKeeper(db: Db): RequestHandler {
+  return async (req: Request, _res: Response, next: NextFunction) => {
+    try {
+      if (!req.user) return next(unauthorized());
+      if (req.user.role === 'admin') return next();
+      const [row] = await db
+        .select({ id: campaignMember.campaignId })
+        .from(campaignMember)
+        .where(and(eq(campaignMember.userId, req.user.id), eq(campaignMember.role, 'lead')))
+        .limit(1);
+      next(row ? undefined : forbidden('The lab inventory is kept by admins and campaign leads; ask one of them to change it.'));
+    } catch (err) {
+      next(err);
+    }
+  };
+}

@@ -10,6 +10,7 @@ import { AppShell } from './layout/app-shell.tsx';
 import { CampaignsPage } from './pages/campaigns-page.tsx';
 import { AdminMailPage } from './pages/admin-mail-page.tsx';
 import { AccountPage } from './pages/account-page.tsx';
+import { LabKitPage } from './pages/lab-kit-page.tsx';
 import { NotFoundPage } from './pages/not-found-page.tsx';
 import { SignInPage } from './pages/auth/sign-in-page.tsx';
 import { SignUpPage } from './pages/auth/sign-up-page.tsx';
@@ -63,6 +64,7 @@ const router = createBrowserRouter([
       },
       { path: '/admin/mail', element: <AdminMailPage /> },
       { path: '/account', element: <AccountPage /> },
+      { path: '/lab', element: <LabKitPage /> },
       { path: '*', element: <NotFoundPage /> },
     ],
   },

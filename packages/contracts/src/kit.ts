@@ -71,6 +71,8 @@ export const kitItemPatchSchema = z.strictObject({
   massG: z.number().positive().max(50_000).nullable().optional(),
   notes: text(2000).optional(),
   retired: z.boolean().optional(),
+  /** Confirms a sensitivity change beyond the campaign's tolerance (lab.ts largeSensitivityChange). */
+  confirmLargeChange: z.boolean().optional(),
 });
 
 const isoDate = z.iso.date('use a date written YYYY-MM-DD');
@@ -83,6 +85,8 @@ export const calibrationCreateSchema = z
     performedBy: text(120).min(1, 'enter who calibrated it (lab or person)'),
     /** The sensitivity the certificate states, in the item's unit; updates the item when given. */
     sensitivity: sensitivity.optional(),
+    /** Confirms a sensitivity change beyond the campaign's tolerance (lab.ts largeSensitivityChange). */
+    confirmLargeChange: z.boolean().optional(),
   })
   .refine((c) => c.dueOn > c.calibratedOn, { message: 'the due date must be after the calibration date', path: ['dueOn'] });
 

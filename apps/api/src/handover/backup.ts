@@ -15,6 +15,7 @@ import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
 import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, feMode, feModel, fePointLink, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
+import { dofNote, dofPhoto, kitPolicy, labItem } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -48,6 +49,10 @@ const TABLES: TableSpec[] = [
   { name: 'calibration_record', table: calibrationRecord, userCols: ['recordedBy'], hasUuidId: true },
   { name: 'channel', table: channel, userCols: [], hasUuidId: true },
   { name: 'schedule_entry', table: scheduleEntry, userCols: ['assigneeId'], hasUuidId: true },
+  // Calibration policy and notes/photos per DOF; a backup from before them restores with none.
+  { name: 'kit_policy', table: kitPolicy, userCols: [], hasUuidId: false, addedLater: true },
+  { name: 'dof_note', table: dofNote, userCols: ['authorId'], hasUuidId: true, addedLater: true },
+  { name: 'dof_photo', table: dofPhoto, userCols: [], hasUuidId: false, addedLater: true },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true },
   { name: 'noise_check', table: noiseCheck, userCols: ['recordedBy'], hasUuidId: true, addedLater: true },
   { name: 'original_recording', table: originalRecording, userCols: ['storedBy'], hasUuidId: true, addedLater: true },
@@ -108,6 +113,9 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         calibration_record: kitIds.length ? ((await tx.select().from(calibrationRecord).where(inArray(calibrationRecord.kitItemId, kitIds)).orderBy(asc(calibrationRecord.createdAt))) as Row[]) : [],
         channel: await byCampaign(channel as never, asc(channel.channel)),
         schedule_entry: await byCampaign(scheduleEntry as never, asc(scheduleEntry.position)),
+        kit_policy: await byCampaign(kitPolicy as never),
+        dof_note: await byCampaign(dofNote as never, asc(dofNote.createdAt)),
+        dof_photo: (await tx.select({ photo: dofPhoto }).from(dofPhoto).innerJoin(dofNote, eq(dofNote.id, dofPhoto.noteId)).where(eq(dofNote.campaignId, campaignId))).map((r) => r.photo as Row),
         hit: await byCampaign(hit as never, asc(hit.recordedAt)),
         noise_check: await byCampaign(noiseCheck as never, asc(noiseCheck.recordedAt)),
         original_recording: await byCampaign(originalRecording as never, asc(originalRecording.storedAt)),
@@ -354,6 +362,10 @@ export async function restoreBackup(db: Db, file: Buffer, restorer: Restorer, op
       return out;
     });
   }
+  // Kit borrowed from a lab inventory stays linked only to an item of this instance's inventory.
+  const labIds = [...new Set(prepared.kit_item!.map((k) => k.labItemId).filter((v): v is string => typeof v === 'string' && z.uuid().safeParse(v).success))];
+  const localLab = new Set(labIds.length ? (await db.select({ id: labItem.id }).from(labItem).where(inArray(labItem.id, labIds))).map((r) => r.id) : []);
+  for (const k of prepared.kit_item!) if (k.labItemId !== undefined && !localLab.has(k.labItemId as string)) k.labItemId = null;
   const c = prepared.campaign![0]!;
   c.name = `${String(source.name)} (restored)`;
   c.updatedAt = now;

@@ -4,6 +4,7 @@
 // checks and the current modes. The report, the bundles and the shared link all render this.
 import { aliasedTable, and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { AXIS_CONVENTION, calibrationState, type AcquisitionSettings, type CalibrationState } from '@resonote/contracts';
+import { notesForHandover, type HandoverNote } from './notes.ts';
 import { acquisitionSettings, calibrationRecord, campaign, campaignMember, channel, hit, kitItem, line, modalFit, noiseCheck, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
@@ -107,6 +108,8 @@ export interface HandoverData {
   modes: HandoverModes | null;
   /** Correlation of the mode table with the campaign's newest FE model version; null without a model. */
   correlation: HandoverCorrelation | null;
+  /** Notes and photos per DOF, oldest first. */
+  notes: HandoverNote[];
 }
 
 const day = (d: Date) => d.toISOString().slice(0, 10);
@@ -294,6 +297,7 @@ export async function collectHandover(db: Db, campaignId: string, options: { che
     checks,
     modes,
     correlation,
+    notes: await notesForHandover(db, campaignId),
   };
 }
 

@@ -4,6 +4,7 @@ import type { AcquisitionSettings } from '@resonote/contracts';
 import { recordSamples } from '../hits/current-settings.ts';
 import { exponentialWindowOf } from '../hits/settings-to-dsp.ts';
 import type { HandoverData } from './collect.ts';
+import { notesSectionHtml, NOTES_CSS } from './notes.ts';
 import { esc, frequencyPairSvg, frfThumbSvg, geometrySvg, modeShapeSvg } from './svg.ts';
 
 export const DB_REFERENCE = 'dB re 1 (m/s²)/N';
@@ -180,7 +181,8 @@ ${histRows ? `<h3>Version history</h3><table class="grid"><thead><tr><th>Version
 <p>${mono(d.hits.total)} hits recorded: ${mono(d.hits.accepted)} accepted (✓), ${mono(d.hits.rejected)} rejected (✗), ${mono(d.hits.overridden)} with the automatic verdict overridden by hand. Rejected hits are kept with their reasons; nothing is deleted.</p>
 <div class="two keep"><div><h3>Rejected hits by reason</h3>${reasonRows ? `<table class="grid"><thead><tr><th>Reason</th><th>Hits</th></tr></thead><tbody>${reasonRows}</tbody></table><p class="small">A hit can have more than one reason.</p>` : '<p class="muted">None rejected.</p>'}</div>
 <div><h3>By engineer</h3>${engRows ? `<table class="grid"><thead><tr><th>Engineer</th><th>Hits</th><th>✓</th><th>✗</th><th>Rejected</th></tr></thead><tbody>${engRows}</tbody></table>` : '<p class="muted">No hits.</p>'}</div></div>
-${noiseSection(d)}</section>`);
+${noiseSection(d)}
+${notesSectionHtml(d.notes)}</section>`);
 
   // 7. FRFs
   const frfByEntry = new Map(d.frfs.map((x) => [x.entry.id, x]));
@@ -334,6 +336,7 @@ tr { break-inside: avoid; }
 figure { margin: 4px 0; break-inside: avoid; }
 figcaption { font-size: 7.8pt; color: #4a5552; }
 .thumbs { display: grid; grid-template-columns: 1fr 1fr; gap: 2mm 5mm; }
+${NOTES_CSS}
 .shapes { display: grid; grid-template-columns: 1fr 1fr 1fr; gap: 2mm 4mm; }
 .thumb, .shape { border: 1px solid #e4e7e5; padding: 1mm; }
 .keep { break-inside: avoid; }

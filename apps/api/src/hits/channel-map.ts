@@ -56,7 +56,8 @@ export async function channelMapFor(db: Db, campaignId: string, entry: { respons
       kitItemId: item.id,
       model: item.model,
       serial: item.serial,
-      sensitivityBase: item.sensitivityBase,
+      // A triaxial sensor may have one sensitivity per axis (lab inventory); else the item's one.
+      sensitivityBase: (ch.axis && item.axisSensitivities?.[ch.axis as 'X' | 'Y' | 'Z']) || item.sensitivityBase,
       unit: isForce ? 'N' : 'm/s²',
       dof: isForce ? entry.excitationDof : (ch.dof ?? entry.responseDof),
       sign: isForce ? 1 : ch.sign === -1 ? -1 : 1,

@@ -7,6 +7,7 @@ const accessText: Record<string, string> = {
   public: 'anyone',
   user: 'any signed-in person',
   admin: 'instance admins',
+  'kit-keeper': 'instance admins and leads of any campaign',
   viewer: 'campaign members (viewer and up)',
   engineer: 'engineers and leads of the campaign (and admins)',
   lead: 'leads of the campaign (and admins)',

@@ -5,10 +5,11 @@ import express, { Router, type Request, type RequestHandler, type Response } fro
 import { z, type ZodType } from 'zod';
 import type { CampaignRole } from '@resonote/contracts';
 import type { Db } from '@resonote/db/client';
-import { requireAdmin, requireCampaignRole, requireUser, type CampaignAccess, type SessionUser } from '../context.ts';
+import { requireAdmin, requireCampaignRole, requireKitKeeper, requireUser, type CampaignAccess, type SessionUser } from '../context.ts';
 import { HttpError, zodDetails, zodMessage } from '../errors.ts';
 
-export type Access = 'public' | 'user' | 'admin' | CampaignRole;
+/** `kit-keeper`: an admin, or a lead of any campaign (the lab inventory). */
+export type Access = 'public' | 'user' | 'admin' | 'kit-keeper' | CampaignRole;
 export type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 
 export interface RouteContext<B, Q> {
@@ -80,6 +81,7 @@ export class ApiRoutes {
     if (!spec.tokenAccess) guards.push(refuseApiToken);
     if (spec.access === 'user') guards.push(requireUser);
     else if (spec.access === 'admin') guards.push(requireAdmin);
+    else if (spec.access === 'kit-keeper') guards.push(requireKitKeeper(this.db));
     else if (spec.access !== 'public') {
       if (!spec.path.includes(':campaignId')) throw new Error(`route ${spec.path}: a campaign role needs :campaignId in the path`);
       guards.push(requireCampaignRole(this.db, spec.access));

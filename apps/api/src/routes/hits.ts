@@ -8,6 +8,7 @@ import { idempotencyKeySchema } from '@resonote/contracts';
 import { campaign, hit, point, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { channelMapFor } from '../hits/channel-map.ts';
+import { refuseUncalibrated } from '../kit/policy.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { currentSettings } from '../hits/current-settings.ts';
 import { loadScheduleEntry } from '../hits/schedule-entry.ts';
@@ -42,6 +43,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const { fields, key, file } = readUploadForm(req, z.strictObject({ ...uploadFields, kind: kindSchema }));
       const settings = await currentSettings(db, campaignId);
       const map = await channelMapFor(db, campaignId, entry);
+      await refuseUncalibrated(db, campaignId, map);
       const { channels, resampled } = uploadAtCampaignRate(file, map, fields, settings.settings);
       const { kind, idempotencyKey: _key, ...storing } = fields;
       // The file as made is kept before its hits are stored, so no hit exists without it.
@@ -77,6 +79,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const points = await db.select({ label: point.label, x: point.x, y: point.y, z: point.z }).from(point).where(eq(point.campaignId, campaignId));
       const settings = await currentSettings(db, campaignId);
       const map = await channelMapFor(db, campaignId, entry);
+      await refuseUncalibrated(db, campaignId, map);
       const seed = body.seed ?? Math.floor(Math.random() * 2 ** 31);
       const fileChannels = rigRecording(rigModel(c!.simulator, points), entry, map, settings.settings, { ...body, seed });
       const { kind, idempotencyKey: _key, ...asked } = body;

@@ -21,6 +21,7 @@ import type { Deps } from './deps.ts';
 import { audit, type Tx } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, conflict, notFound } from '../errors.ts';
+import { kitPolicyOf, refuseLargeChange } from '../kit/policy.ts';
 
 type KitItemRow = typeof kitItem.$inferSelect;
 type ChannelRow = typeof channel.$inferSelect;
@@ -236,7 +237,7 @@ export function registerKitRoutes({ routes, db }: Deps): void {
     summary: 'Change a kit item (model, serial, sensitivity, tips or axes, mass, notes, retired)',
     body: kitItemPatchSchema,
     handler: async ({ body, params, campaign: access, user: me }) => {
-      const { version, ...changes } = body;
+      const { version, confirmLargeChange, ...changes } = body;
       return db.transaction(async (tx) => {
         const before = await lockItem(tx, access.campaignId, params.itemId);
         if (before.version !== version) throw staleWrite(`${itemName(before)}`, withBaseUnit(before));
@@ -267,12 +268,17 @@ export function registerKitRoutes({ routes, db }: Deps): void {
 
         const sensitivity = changes.sensitivity ?? before.sensitivity;
         const unit = (changes.sensitivityUnit ?? before.sensitivityUnit) as SensitivityUnit;
+        let confirmedChange: ReturnType<typeof refuseLargeChange> = null;
+        if (changes.sensitivity !== undefined) {
+          const policy = await kitPolicyOf(tx, access.campaignId);
+          confirmedChange = refuseLargeChange(name, before.kind, before.sensitivityBase, toBaseSensitivity(sensitivity, unit), policy.changeTolerancePct, confirmLargeChange);
+        }
         const [after] = await tx
           .update(kitItem)
           .set({ ...changes, sensitivity, sensitivityUnit: unit, sensitivityBase: toBaseSensitivity(sensitivity, unit), version: before.version + 1, updatedAt: new Date() })
           .where(eq(kitItem.id, before.id))
           .returning();
-        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'kit-item', entityId: before.id, action: 'update', before, after });
+        await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'kit-item', entityId: before.id, action: 'update', before, after: confirmedChange ? { ...after, confirmedLargeChange: confirmedChange } : after });
         return { item: withBaseUnit(after!) };
       });
     },
@@ -289,6 +295,11 @@ export function registerKitRoutes({ routes, db }: Deps): void {
     handler: async ({ body, params, campaign: access, user: me }) => {
       return db.transaction(async (tx) => {
         const before = await lockItem(tx, access.campaignId, params.itemId);
+        let confirmedChange: ReturnType<typeof refuseLargeChange> = null;
+        if (body.sensitivity !== undefined) {
+          const policy = await kitPolicyOf(tx, access.campaignId);
+          confirmedChange = refuseLargeChange(itemName(before), before.kind, before.sensitivityBase, toBaseSensitivity(body.sensitivity, before.sensitivityUnit as SensitivityUnit), policy.changeTolerancePct, body.confirmLargeChange);
+        }
         const [record] = await tx
           .insert(calibrationRecord)
           .values({
@@ -312,7 +323,7 @@ export function registerKitRoutes({ routes, db }: Deps): void {
             .where(eq(kitItem.id, before.id))
             .returning();
           item = after!;
-          await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'kit-item', entityId: before.id, action: 'calibrate', before, after });
+          await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'kit-item', entityId: before.id, action: 'calibrate', before, after: confirmedChange ? { ...after, confirmedLargeChange: confirmedChange } : after });
         }
         const { state, days } = calibrationState(record!.dueOn, todayISO());
         return { calibration: record, item: withBaseUnit(item), state: { state, days, dueOn: record!.dueOn } };

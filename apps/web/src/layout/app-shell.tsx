@@ -44,6 +44,9 @@ export function AppShell() {
             <NavLink to="/campaigns" className={navClass}>
               Campaigns
             </NavLink>
+            <NavLink to="/lab" className={navClass}>
+              Lab kit
+            </NavLink>
             {user.role === 'admin' && (
               <NavLink to="/admin/mail" className={navClass}>
                 Mail

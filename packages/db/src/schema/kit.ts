@@ -4,6 +4,7 @@ import { sql } from 'drizzle-orm';
 import { date, doublePrecision, index, integer, jsonb, pgTable, smallint, text, timestamp, uniqueIndex, uuid, boolean } from 'drizzle-orm/pg-core';
 import { user } from './auth.ts';
 import { campaign } from './campaign.ts';
+import { labItem, type AxisSensitivities } from './lab.ts';
 
 export const kitKinds = ['hammer', 'accelerometer'] as const;
 
@@ -25,6 +26,10 @@ export const kitItem = pgTable(
     tips: text('tips').array().notNull().default([]),
     axes: text('axes').array().notNull().default([]),
     massG: doublePrecision('mass_g'),
+    /** The lab inventory item this was borrowed from (null: registered in this campaign only). */
+    labItemId: uuid('lab_item_id').references(() => labItem.id, { onDelete: 'set null' }),
+    /** Per-axis sensitivities of a triaxial sensor in mV/(m/s²); an axis not listed uses sensitivity_base. */
+    axisSensitivities: jsonb('axis_sensitivities').$type<AxisSensitivities>().notNull().default({}),
     notes: text('notes').notNull().default(''),
     retired: boolean('retired').notNull().default(false),
     version: integer('version').notNull().default(1),

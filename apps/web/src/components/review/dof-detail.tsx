@@ -8,6 +8,7 @@ import { FrfPlot, type FrfDisplay } from '../tap/frf-panel.tsx';
 import { HitList } from '../tap/hit-list.tsx';
 import { HitPlots } from '../tap/hit-plots.tsx';
 import { ReasonList, VerdictBadge } from '../tap/verdict.tsx';
+import { DofNotesSection } from '../notes/dof-notes.tsx';
 
 export function DofDetail({ campaignId, entry, display }: { campaignId: string; entry: ScheduleEntry; display: FrfDisplay }) {
   const frf = useEntryFrf(campaignId, entry.id, display.kind);
@@ -31,6 +32,7 @@ export function DofDetail({ campaignId, entry, display }: { campaignId: string; 
       {frf.isSuccess && !frf.data && <p className="text-sm text-[var(--muted)]">This DOF has no accepted hit yet, so there is no FRF to show.</p>}
       {frf.data && <FrfPlot frf={frf.data} display={display} height={display.view === 'nyquist' ? 480 : 520} showH2 uirevision={entry.id + display.view} />}
       {frf.data && <p className="text-xs text-[var(--muted)]">Solid: H1; dotted: H2 of the same channel (H1/H2 = γ²). Coherence on a linear 0–1 scale.</p>}
+      <DofNotesSection campaignId={campaignId} entryId={entry.id} />
       <section className="space-y-2">
         <h4 className="text-sm font-semibold">Hits</h4>
         {hits.isPending && <Spinner label="Loading the hits…" />}

@@ -7,6 +7,8 @@ import { WarningList } from './kit/warning-list.tsx';
 import { KitItems } from './kit/kit-items.tsx';
 import { ChannelMap } from './kit/channel-map.tsx';
 import { AcquisitionSettingsCard } from './kit/acquisition-settings.tsx';
+import { KitPolicyCard } from './kit/kit-policy-card.tsx';
+import { LabBookings } from './kit/lab-bookings.tsx';
 
 export function KitPage() {
   const { campaignId = '' } = useParams();
@@ -25,6 +27,8 @@ export function KitPage() {
           <KitItems campaignId={campaignId} items={kit.data.items} canLead={canLead} />
         </>
       )}
+      <LabBookings campaignId={campaignId} canLead={canLead} />
+      <KitPolicyCard campaignId={campaignId} canLead={canLead} />
       {channels.isPending && <Spinner label="Loading the channel map…" />}
       {channels.isError && <Notice tone="error">The channel map could not be loaded: {channels.error.message}</Notice>}
       {channels.data && kit.data && <ChannelMap campaignId={campaignId} channels={channels.data.channels} items={kit.data.items} canLead={canLead} />}

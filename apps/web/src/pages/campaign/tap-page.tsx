@@ -24,6 +24,8 @@ import { ServerBanner } from '../../components/tap/server-banner.tsx';
 import { useServerHealth } from '../../lib/server-health.ts';
 import { useCampaignContext } from './campaign-context.ts';
 import { ArmControl } from '../../components/tap/arm-control.tsx';
+import { CalibrationBanner } from '../../components/kit/calibration-banner.tsx';
+import { DofNotesButton } from '../../components/notes/dof-notes.tsx';
 
 const OPEN: ScheduleStatus[] = ['planned', 'in-progress'];
 const FRF_DISPLAY = { view: 'magphase', kind: 'accelerance', db: true, logF: false } as const;
@@ -174,6 +176,7 @@ export function TapPage() {
   return (
     <div className="space-y-4" data-testid="tap-page" data-entry={entry.id}>
       <ServerBanner waiting={record.waiting} health={health} onTryNow={record.tryNow} />
+      <CalibrationBanner campaignId={campaignId} />
       <section className="flex flex-wrap items-start justify-between gap-4 rounded-lg border border-accent/40 bg-[var(--panel)] p-4">
         <DofHeader entry={entry} accepted={accepted} required={required} index={index} total={entries.length} />
         <div className="flex flex-col items-end gap-1">
@@ -191,6 +194,7 @@ export function TapPage() {
           <p className="num text-xs text-[var(--muted)]">
             {upcoming ? `then ${upcoming.excitationDof} → ${upcoming.responseDof}` : 'no other DOF waiting'}
           </p>
+          <DofNotesButton campaignId={campaignId} entryId={entry.id} canAct={canAct} />
           <p className="text-xs text-[var(--muted)]" data-testid="live-state">
             {live === 'live' ? '● Live: others’ hits appear within seconds' : live === 'polling' ? '○ Refreshing every 5 s' : '○ Connecting…'}
           </p>

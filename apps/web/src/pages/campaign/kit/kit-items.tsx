@@ -11,6 +11,7 @@ import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Panel } from '../../../components/ui.tsx';
 import { Chips, NumberField, Select } from '../../../components/form-controls.tsx';
 import { CalibrationBadge } from '../../../components/status.tsx';
+import { useLargeChangeConfirm } from '../../../components/kit/large-change-dialog.tsx';
 
 type Kind = KitItem['kind'];
 const axesAll = ['X', 'Y', 'Z'] as const;
@@ -183,6 +184,7 @@ function ItemForm({ campaignId, kind, item, onClose }: { campaignId: string; kin
   const [busy, setBusy] = useState(false);
   const units = kind === 'hammer' ? hammerUnits : accelerometerUnits;
   const id = (n: string) => `${item?.id ?? `new-${kind}`}-${n}`;
+  const { withConfirmation, dialog } = useLargeChangeConfirm();
 
   async function submit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
@@ -214,7 +216,8 @@ function ItemForm({ campaignId, kind, item, onClose }: { campaignId: string; kin
     setErrors({});
     setBusy(true);
     try {
-      await api(`/campaigns/${campaignId}/kit${item ? `/${item.id}` : ''}`, { method: item ? 'PATCH' : 'POST', body });
+      const stored = await withConfirmation(`${values.model} (SN ${values.serial})`, (confirm) => api(`/campaigns/${campaignId}/kit${item ? `/${item.id}` : ''}`, { method: item ? 'PATCH' : 'POST', body: confirm ? { ...body, confirmLargeChange: true } : body }));
+      if (!stored) return;
       await refresh();
       toast('ok', `${values.model} (SN ${values.serial}) ${item ? 'saved' : 'registered'}.`);
       onClose();
@@ -244,6 +247,7 @@ function ItemForm({ campaignId, kind, item, onClose }: { campaignId: string; kin
         <NumberField id={id('mass')} name="massG" label="Mass" unit="g" defaultValue={item?.massG ?? ''} hint="Optional." error={errors.massG} />
       </div>
       <Field id={id('notes')} name="notes" label="Notes" defaultValue={item?.notes} error={errors.notes} />
+      {dialog}
       <div className="flex gap-2">
         <Button type="submit" disabled={busy}>
           {item ? 'Save' : kind === 'hammer' ? 'Register hammer' : 'Register accelerometer'}
@@ -262,6 +266,7 @@ function CalibrationForm({ campaignId, item, onClose }: { campaignId: string; it
   const fail = useFailure();
   const [errors, setErrors] = useState<FieldErrors>({});
   const [busy, setBusy] = useState(false);
+  const { withConfirmation, dialog } = useLargeChangeConfirm();
 
   async function submit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
@@ -278,7 +283,9 @@ function CalibrationForm({ campaignId, item, onClose }: { campaignId: string; it
     setErrors({});
     setBusy(true);
     try {
-      await api(`/campaigns/${campaignId}/kit/${item.id}/calibrations`, { body: parsed.data });
+      const body = parsed.data;
+      const stored = await withConfirmation(`${item.model} (SN ${item.serial})`, (confirm) => api(`/campaigns/${campaignId}/kit/${item.id}/calibrations`, { body: confirm ? { ...body, confirmLargeChange: true } : body }));
+      if (!stored) return;
       await refresh();
       toast('ok', `Calibration of ${item.model} (SN ${item.serial}) recorded, due ${parsed.data.dueOn}.`);
       onClose();
@@ -296,6 +303,7 @@ function CalibrationForm({ campaignId, item, onClose }: { campaignId: string; it
       <Field id={id('cert')} name="certificateRef" label="Certificate reference" error={errors.certificateRef} />
       <Field id={id('by')} name="performedBy" label="Calibrated by (lab or person)" error={errors.performedBy} />
       <NumberField id={id('sens')} name="sensitivity" label="Stated sensitivity" unit={item.sensitivityUnit} hint="Optional; updates the item when given." error={errors.sensitivity} />
+      {dialog}
       <div className="flex items-end gap-2">
         <Button type="submit" disabled={busy}>
           Save calibration

@@ -1,0 +1,174 @@
+// Notes and photos per DOF: a compact button with the count on Tap that opens a side panel (so
+// the FRF keeps its place), the list with small photos on Review, and the form to add one.
+import { useEffect, useMemo, useState, type FormEvent } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { NOTE_TOPIC_NAMES, noteTopics, PHOTO_MAX_BYTES, type NoteTopic } from '@resonote/contracts';
+import { labKeys, photoUrl, postNote, useNotes, type DofNote } from '../../lib/lab-data.ts';
+import { useChannels, useKit } from '../../lib/campaign-data.ts';
+import { useFailure } from '../../lib/mutation.ts';
+import { useToast } from '../../lib/toast.tsx';
+import { Button, Notice, Spinner } from '../ui.tsx';
+
+const MB = PHOTO_MAX_BYTES / 1024 / 1024;
+
+/** The notes of one schedule entry, oldest first, each with its photo as a small thumbnail that opens full size. */
+export function NoteList({ campaignId, notes }: { campaignId: string; notes: DofNote[] }) {
+  if (!notes.length) return <p className="text-sm text-[var(--muted)]">No notes at this DOF.</p>;
+  return (
+    <ul className="space-y-2" data-testid="note-list">
+      {notes.map((n) => (
+        <li key={n.id} className="flex gap-3 rounded-md border border-[var(--line)] p-2 text-sm" data-testid="note">
+          {n.photo && (
+            <a href={photoUrl(campaignId, n.id)} target="_blank" rel="noreferrer" className="shrink-0" title="Open the photo full size">
+              <img src={photoUrl(campaignId, n.id)} alt={`Photo at ${n.responseDof} / ${n.excitationDof}${n.text ? `: ${n.text.slice(0, 60)}` : ''}`} className="h-16 w-20 rounded border border-[var(--line)] object-cover" loading="lazy" data-testid="note-photo" />
+            </a>
+          )}
+          <div className="min-w-0">
+            <p className="text-xs text-[var(--muted)]">
+              <span className="font-medium text-[var(--ink)]">{NOTE_TOPIC_NAMES[n.topic]}</span> · {n.authorName ?? 'someone no longer here'} · {new Date(n.createdAt).toLocaleString()}
+            </p>
+            {n.text ? <p className="break-words whitespace-pre-wrap">{n.text}</p> : <p className="text-[var(--muted)] italic">Photo only.</p>}
+          </div>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
+function NoteForm({ campaignId, entryId, tips, onSaved }: { campaignId: string; entryId: string; tips: string[]; onSaved: () => void }) {
+  const client = useQueryClient();
+  const toast = useToast();
+  const fail = useFailure();
+  const [topic, setTopic] = useState<NoteTopic>('sensor-mounting');
+  const [text, setText] = useState('');
+  const [photo, setPhoto] = useState<File | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+
+  async function send(note: { topic: NoteTopic; text: string; photo: File | null }) {
+    setBusy(true);
+    try {
+      await postNote(campaignId, entryId, note);
+      await client.invalidateQueries({ queryKey: labKeys.notes(campaignId) });
+      toast('ok', 'Note saved at this DOF.');
+      setText('');
+      setPhoto(null);
+      onSaved();
+    } catch (err) {
+      fail(err);
+    } finally {
+      setBusy(false);
+    }
+  }
+  function submit(e: FormEvent) {
+    e.preventDefault();
+    if (!text.trim() && !photo) return setError('Write a note or attach a photo.');
+    if (photo && photo.size > PHOTO_MAX_BYTES) return setError(`The photo is ${(photo.size / 1024 / 1024).toFixed(1)} MB; at most ${MB} MB.`);
+    setError(null);
+    void send({ topic, text, photo });
+  }
+  return (
+    <form onSubmit={submit} className="space-y-2" aria-label="Add a note at this DOF" noValidate>
+      {tips.length > 0 && (
+        <div className="flex flex-wrap items-center gap-1.5 text-xs">
+          <span className="text-[var(--muted)]">Tip fitted:</span>
+          {tips.map((t) => (
+            <button key={t} type="button" disabled={busy} onClick={() => void send({ topic: 'tip', text: `Tip fitted: ${t}`, photo: null })} className="min-h-8 rounded-full border border-[var(--line)] px-2.5 hover:border-accent disabled:opacity-60" data-testid="tip-choice">
+              {t}
+            </button>
+          ))}
+        </div>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <label className="sr-only" htmlFor="note-topic">
+          Topic
+        </label>
+        <select id="note-topic" value={topic} onChange={(e) => setTopic(e.target.value as NoteTopic)} className="min-h-10 rounded-md border border-[var(--line)] bg-[var(--panel)] px-2 text-sm">
+          {noteTopics.map((t) => (
+            <option key={t} value={t}>
+              {NOTE_TOPIC_NAMES[t]}
+            </option>
+          ))}
+        </select>
+        <label className="inline-flex min-h-10 cursor-pointer items-center rounded-md border border-[var(--line)] px-3 text-sm hover:border-accent">
+          {photo ? `Photo: ${photo.name.slice(0, 24)}` : 'Add photo…'}
+          <input type="file" accept="image/jpeg,image/png,image/webp" className="sr-only" onChange={(e) => setPhoto(e.target.files?.[0] ?? null)} data-testid="note-photo-input" />
+        </label>
+      </div>
+      <label className="sr-only" htmlFor="note-text">
+        Note
+      </label>
+      <textarea id="note-text" value={text} onChange={(e) => setText(e.target.value)} maxLength={2000} rows={3} placeholder="Sensor mounting, the tip, anything odd…" className="w-full rounded-md border border-[var(--line)] bg-[var(--panel)] p-2 text-sm" />
+      {error && <p className="text-xs text-bad">{error}</p>}
+      <p className="text-xs text-[var(--muted)]">Photos: JPEG, PNG or WebP up to {MB} MB.</p>
+      <Button type="submit" disabled={busy} data-testid="note-save">
+        {busy ? 'Saving…' : 'Save note'}
+      </Button>
+    </form>
+  );
+}
+
+/** Tap: "Notes (n)" with a camera mark when a photo is there; opens a panel over the side of the page. */
+export function DofNotesButton({ campaignId, entryId, canAct }: { campaignId: string; entryId: string; canAct: boolean }) {
+  const notes = useNotes(campaignId);
+  // The tips registered for the hammer on the channel map (Kit, or the lab inventory it came from).
+  const kit = useKit(campaignId);
+  const channels = useChannels(campaignId);
+  const hammerId = channels.data?.channels.find((c) => c.kind === 'hammer')?.kitItemId;
+  const tips = kit.data?.items.find((i) => i.id === hammerId)?.tips ?? [];
+  const [open, setOpen] = useState(false);
+  const here = useMemo(() => (notes.data?.notes ?? []).filter((n) => n.entryId === entryId), [notes.data, entryId]);
+  const photos = here.filter((n) => n.photo).length;
+  useEffect(() => setOpen(false), [entryId]);
+  useEffect(() => {
+    if (!open) return;
+    const onKey = (e: KeyboardEvent) => e.key === 'Escape' && setOpen(false);
+    window.addEventListener('keydown', onKey);
+    return () => window.removeEventListener('keydown', onKey);
+  }, [open]);
+  return (
+    <>
+      <Button variant="secondary" onClick={() => setOpen(true)} className="min-h-9 px-3 text-xs" data-testid="notes-button" aria-haspopup="dialog">
+        <span aria-hidden>✎</span> Notes <span className="num">({here.length})</span>
+        {photos > 0 && (
+          <span className="num" title={`${photos} photo${photos === 1 ? '' : 's'}`}>
+            <span aria-hidden>▣</span> {photos}
+            <span className="sr-only"> photos</span>
+          </span>
+        )}
+      </Button>
+      {open && (
+        <div className="fixed inset-0 z-40 flex justify-end bg-black/30" onClick={() => setOpen(false)}>
+          <aside role="dialog" aria-modal="true" aria-label="Notes at this DOF" className="h-full w-full max-w-md space-y-3 overflow-y-auto border-l border-[var(--line)] bg-[var(--panel)] p-4 shadow-xl" onClick={(e) => e.stopPropagation()} data-testid="notes-panel">
+            <div className="flex items-center justify-between">
+              <h2 className="text-base font-semibold">Notes at this DOF</h2>
+              <Button variant="ghost" onClick={() => setOpen(false)} aria-label="Close the notes">
+                ✕
+              </Button>
+            </div>
+            {notes.isPending && <Spinner label="Loading the notes…" />}
+            {notes.isError && <Notice tone="error">The notes could not be loaded: {notes.error.message}</Notice>}
+            {notes.data && <NoteList campaignId={campaignId} notes={here} />}
+            {canAct && <NoteForm campaignId={campaignId} entryId={entryId} tips={tips} onSaved={() => undefined} />}
+          </aside>
+        </div>
+      )}
+    </>
+  );
+}
+
+/** Review: the notes of one entry inline. */
+export function DofNotesSection({ campaignId, entryId }: { campaignId: string; entryId: string }) {
+  const notes = useNotes(campaignId);
+  const here = (notes.data?.notes ?? []).filter((n) => n.entryId === entryId);
+  return (
+    <section className="space-y-2" data-testid="review-notes">
+      <h4 className="text-sm font-semibold">
+        Notes <span className="num font-normal text-[var(--muted)]">({here.length})</span>
+      </h4>
+      {notes.isPending && <Spinner label="Loading the notes…" />}
+      {notes.isError && <Notice tone="error">The notes could not be loaded: {notes.error.message}</Notice>}
+      {notes.data && <NoteList campaignId={campaignId} notes={here} />}
+    </section>
+  );
+}
