@@ -107,6 +107,14 @@ const matrix: Record<string, Access> = {
   'POST /campaigns/:campaignId/jobs': 'lead',
   'GET /campaigns/:campaignId/jobs/:jobId': 'lead',
   'GET /campaigns/:campaignId/jobs/:jobId/file': 'lead',
+  'POST /campaigns/:campaignId/members': 'lead',
+  'GET /account/invitations': 'user',
+  'POST /account/invitations/:invitationId/accept': 'user',
+  'POST /account/invitations/:invitationId/decline': 'user',
+  'POST /campaigns/:campaignId/archive': 'lead',
+  'POST /campaigns/:campaignId/unarchive': 'lead',
+  'DELETE /campaigns/:campaignId': 'lead',
+  'PATCH /campaigns/:campaignId/settings': 'lead',
 };
 
 /** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */

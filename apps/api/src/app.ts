@@ -18,6 +18,7 @@ import { noStore, sameOriginWrites } from './http/same-origin.ts';
 import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
+import { registerTeamRoutes } from './routes/team.ts';
 import { registerGeometryRoutes } from './routes/geometry.ts';
 import { registerHitRoutes } from './routes/hits.ts';
 import { CampaignEvents } from './hits/events.ts';
@@ -116,6 +117,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   const deps = { routes, db: database.db, config, mailer, databaseStatus, events, jobs };
   registerSystemRoutes(deps);
   registerCampaignRoutes(deps);
+  registerTeamRoutes(deps);
   registerGeometryRoutes(deps);
   registerScheduleRoutes(deps);
   registerKitRoutes(deps);

@@ -12,3 +12,6 @@ export * from './fe-map.ts';
 export * from './axis.ts';
 export * from './bridge.ts';
 export * from './fe-api.ts';
+export * from './team.ts';
+export * from './settings-patch.ts';
+export * from './settings-words.ts';
