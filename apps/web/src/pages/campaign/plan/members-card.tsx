@@ -11,6 +11,7 @@ import { useMe } from '../../../lib/session.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../../../components/ui.tsx';
 import { Select } from '../../../components/form-controls.tsx';
+import { formatWhen } from '../../../lib/format-date.ts';
 
 const roleOptions = campaignRoles.map((r) => [r, roleLabel[r]] as [string, string]);
 
@@ -127,7 +128,7 @@ export function MembersCard({ campaignId, members, canLead }: { campaignId: stri
                   <li key={i.id} className="flex flex-wrap items-center gap-2 py-1.5">
                     <span className="min-w-0 flex-1 truncate">{i.email}</span>
                     <span className="text-xs">{roleLabel[i.role]}</span>
-                    <span className="num text-xs text-[var(--muted)]">until {new Date(i.expiresAt).toISOString().slice(0, 10)}</span>
+                    <span className="num text-xs text-[var(--muted)]">until {formatWhen(i.expiresAt, 'date')}</span>
                     <Button variant="ghost" className="px-2" onClick={() => void withdraw(i.id, i.email)}>
                       Withdraw
                     </Button>
