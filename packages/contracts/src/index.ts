@@ -15,3 +15,4 @@ export * from './fe-api.ts';
 export * from './team.ts';
 export * from './settings-patch.ts';
 export * from './settings-words.ts';
+export * from './kit-name.ts';
