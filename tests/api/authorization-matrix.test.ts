@@ -115,6 +115,8 @@ const matrix: Record<string, Access> = {
   'POST /campaigns/:campaignId/unarchive': 'lead',
   'DELETE /campaigns/:campaignId': 'lead',
   'PATCH /campaigns/:campaignId/settings': 'lead',
+  'POST /campaigns/:campaignId/geometry/import/check': 'lead',
+  'POST /campaigns/:campaignId/schedule/:entryId/reciprocal': 'lead',
 };
 
 /** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */

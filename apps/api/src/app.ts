@@ -19,6 +19,7 @@ import { createMailer, type Mailer } from './mail.ts';
 import { ApiRoutes, type RegisteredRoute } from './http/route.ts';
 import { registerCampaignRoutes } from './routes/campaigns.ts';
 import { registerTeamRoutes } from './routes/team.ts';
+import { registerReciprocalRoutes } from './routes/reciprocal.ts';
 import { registerGeometryRoutes } from './routes/geometry.ts';
 import { registerHitRoutes } from './routes/hits.ts';
 import { CampaignEvents } from './hits/events.ts';
@@ -120,6 +121,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerTeamRoutes(deps);
   registerGeometryRoutes(deps);
   registerScheduleRoutes(deps);
+  registerReciprocalRoutes(deps);
   registerKitRoutes(deps);
   registerSettingsRoutes(deps);
   registerHitRoutes(deps, events);

@@ -11,3 +11,4 @@ export * from './bridge.ts';
 export * from './jobs.ts';
 export * from './fe-model.ts';
 export * from './campaign-archive.ts';
+export * from './schedule-extra.ts';
