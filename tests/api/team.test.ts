@@ -139,9 +139,9 @@ describe('archive, un-archive and delete', () => {
       crew.engineer.agent.put(`/api/campaigns/${archivedId}/arming`).send({}),
       crew.lead.agent.post(`/api/campaigns/${archivedId}/archive`).send({ version }),
     ];
-    for (const res of await Promise.all(attempts)) {
-      expect(res.status, `${res.req.method} ${res.req.path}`).toBe(409);
-      expect(res.body.error.code, `${res.req.method} ${res.req.path}`).toBe('campaign-archived');
+    for (const [i, res] of (await Promise.all(attempts)).entries()) {
+      expect(res.status, `attempt ${i}: ${JSON.stringify(res.body)}`).toBe(409);
+      expect(res.body.error.code, `attempt ${i}`).toBe('campaign-archived');
       expect(res.body.error.message).toMatch(/archived on \d{4}-\d{2}-\d{2} and is read-only/);
     }
     // The role check still comes first: an engineer is told about the role, not the archive.
