@@ -68,12 +68,12 @@ export function GeometryView({ points, lines, statusByPointId, highlightPointId,
         return [{ type: 'scatter3d', mode: 'markers+text', name, ...at, text: list.map((p) => p.label), ...labels, hovertemplate, marker: { symbol, color, size, line: { color, width: 1 } } }];
       }
       // plotly draws the 3D 'x' symbol as the emoji ❌ (its gl3d marker table), red whatever the colour and
-      // unlike the ✕ its legend shows. So the legend gets an empty 'x' trace, and the points are the ✕
+      // unlike the heavy ✖ its legend shows. So the legend gets an empty 'x' trace, and the points are the ✖
       // glyph itself in the status colour, with their labels above; all three toggle together.
       const group = `status-${name}`;
       return [
         { type: 'scatter3d', mode: 'markers', name, legendgroup: group, x: [null], y: [null], z: [null], hoverinfo: 'skip', marker: { symbol: 'x', color, size, line: { color, width: 1 } } },
-        { type: 'scatter3d', mode: 'text', name, legendgroup: group, showlegend: false, ...at, text: list.map(() => '✕'), textposition: 'middle center', textfont: { family: 'DejaVu Sans, sans-serif', size: 15, color }, hovertext: list.map((p) => p.label), hovertemplate: '%{hovertext}<br>x %{x} mm<br>y %{y} mm<br>z %{z} mm<extra>' + name + '</extra>' },
+        { type: 'scatter3d', mode: 'text', name, legendgroup: group, showlegend: false, ...at, text: list.map(() => '✖'), textposition: 'middle center', textfont: { family: 'DejaVu Sans, sans-serif', size: 16, color }, hovertext: list.map((p) => p.label), hovertemplate: '%{hovertext}<br>x %{x} mm<br>y %{y} mm<br>z %{z} mm<extra>' + name + '</extra>' },
         { type: 'scatter3d', mode: 'text', name, legendgroup: group, showlegend: false, ...at, text: list.map((p) => p.label), ...labels, hoverinfo: 'skip' },
       ];
     };

@@ -98,8 +98,8 @@ describe('phase and axis labels', () => {
     expect((fig(true).layout.yaxis2 as { range?: unknown }).range).toBeUndefined();
   });
 
-  it('labels a log frequency axis 10, 20, 50 … (tickformat ~g), never "10.00"', () => {
-    expect((fig(false, true).layout.xaxis as { tickformat?: string }).tickformat).toBe('~g');
+  it('labels a log frequency axis 10, 20, 50 … (tickformat ~g, dtick D2), never "10.00"', () => {
+    expect(fig(false, true).layout.xaxis).toMatchObject({ type: 'log', tickformat: '~g', dtick: 'D2' });
     expect((fig(false, false).layout.xaxis as { tickformat?: string }).tickformat).toBeUndefined();
   });
 });

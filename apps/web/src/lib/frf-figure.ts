@@ -115,8 +115,9 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     }
   }
 
-  // On a log axis plotly formats the decade labels with hoverformat unless tickformat is set ("10.00"); '~g' gives 10, 20, 50, 100.
-  const fAxis = axis(c, 'Frequency (Hz)', o.logF ? { type: 'log', hoverformat: '.2f', tickformat: '~g' } : { type: 'linear', hoverformat: '.2f' });
+  // On a log axis plotly formats the decade labels with hoverformat unless tickformat is set ("10.00");
+  // '~g' with dtick D2 labels 10, 20, 50, 100, 200 … (every 1-2-5; all digits crowd a narrow plot).
+  const fAxis = axis(c, 'Frequency (Hz)', o.logF ? { type: 'log', hoverformat: '.2f', tickformat: '~g', dtick: 'D2' } : { type: 'linear', hoverformat: '.2f' });
   const withCoh = o.coherence && o.view !== 'nyquist' && curves.some((x) => x.coherence);
   if (o.view === 'nyquist') {
     return {
