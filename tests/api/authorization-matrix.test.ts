@@ -120,6 +120,16 @@ const matrix: Record<string, Access> = {
   'GET /campaigns/:campaignId/notes': 'viewer',
   'POST /campaigns/:campaignId/schedule/:entryId/notes': 'engineer',
   'GET /campaigns/:campaignId/notes/:noteId/photo': 'viewer',
+  'POST /campaigns/:campaignId/members': 'lead',
+  'GET /account/invitations': 'user',
+  'POST /account/invitations/:invitationId/accept': 'user',
+  'POST /account/invitations/:invitationId/decline': 'user',
+  'POST /campaigns/:campaignId/archive': 'lead',
+  'POST /campaigns/:campaignId/unarchive': 'lead',
+  'DELETE /campaigns/:campaignId': 'lead',
+  'PATCH /campaigns/:campaignId/settings': 'lead',
+  'POST /campaigns/:campaignId/geometry/import/check': 'lead',
+  'POST /campaigns/:campaignId/schedule/:entryId/reciprocal': 'lead',
 };
 
 /** The routes a personal API token may call (the watched-folder bridge's); every other route refuses one with 403. */

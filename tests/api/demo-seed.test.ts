@@ -27,11 +27,30 @@ describe('demo seed', () => {
     const skid = list.find((c) => c.name === SKID_CAMPAIGN)!;
     expect(bar.myRole).toBe('lead');
     expect(bar.progress.done).toBe(21);
-    expect(skid.progress.done + skid.progress.flagged + skid.progress['in-progress']).toBe(13);
+    // 12 measured, the loose-cable DOF, and the reciprocal of the fourth entry.
+    expect(skid.progress.done + skid.progress.flagged + skid.progress['in-progress']).toBe(14);
     expect(skid.progress.flagged).toBeGreaterThanOrEqual(1);
     expect(skid.progress.planned).toBe(7);
     const progress = (await lead.get(`/api/campaigns/${skid.id}/progress`)).body;
     expect(Object.keys(progress.rejectedByReason).length).toBeGreaterThan(0);
+  });
+
+  it('gives the baseplate a measured reciprocity pair whose FRFs agree (Maxwell–Betti reciprocity: H_ij = H_ji, Ewins 2000)', async () => {
+    const lead = app.agent();
+    await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
+    const skid = ((await lead.get('/api/campaigns')).body.campaigns as { id: string; name: string }[]).find((c) => c.name === SKID_CAMPAIGN)!;
+    const checks = (await lead.get(`/api/campaigns/${skid.id}/checks`)).body;
+    expect(checks.reciprocity).toHaveLength(1);
+    const pair = checks.reciprocity[0];
+    expect(pair.a.excitation).toBe(pair.b.response);
+    expect(pair.a.response).toBe(pair.b.excitation);
+    // The simulator's model is symmetric, so only the chain noise separates the two: FRAC close to 1.
+    expect(pair.frac).toBeGreaterThan(0.95);
+    expect(pair.peaks.length).toBeGreaterThan(0);
+    for (const p of pair.peaks) expect(Math.abs(p.dbDifference)).toBeLessThan(1);
+    // The accelerometer went back to the reference after the reciprocal hits.
+    const channels = (await lead.get(`/api/campaigns/${skid.id}/channels`)).body.channels as { kind: string; dof: string }[];
+    expect(channels.find((c) => c.kind === 'accelerometer')!.dof).toBe('P07:+Z');
   });
 
   it('puts the bar’s first bending mode where the handbook says (53.17 Hz, docs/methods.md#free-free-beam)', async () => {

@@ -90,6 +90,20 @@ function skidSpec(): CampaignSpec {
   };
 }
 
+async function seedReciprocalPair(lead: Awaited<ReturnType<typeof signedInClient>>, engineer: Awaited<ReturnType<typeof signedInClient>>, base: string, entryId: string) {
+  const must = async (res: Promise<{ status: number; body: any }>, what: string) => {
+    const r = await res;
+    if (r.status >= 300) throw new Error(`demo reciprocal pair, ${what}: ${r.status} ${JSON.stringify(r.body)}`);
+    return r.body;
+  };
+  const { entry } = await must(lead.request('POST', `${base}/schedule/${entryId}/reciprocal`, {}), 'entry');
+  const { channels } = await must(lead.request('GET', `${base}/channels`, undefined), 'channels');
+  const accel = channels.find((c: { kind: string }) => c.kind === 'accelerometer');
+  const moved = await must(lead.request('PATCH', `${base}/channels/${accel.id}`, { version: accel.version, dof: entry.responseDof }), 'move the accelerometer');
+  await must(engineer.request('POST', `${base}/schedule/${entry.id}/simulate`, { count: 5, seed: 2900, tip: 'soft', peakForceN: 60, doubleHitProbability: 0, overloadProbability: 0, idempotencyKey: `demo-reciprocal-${entry.id}` }), 'hits');
+  await must(lead.request('PATCH', `${base}/channels/${accel.id}`, { version: moved.channel.version, dof: accel.dof }), 'accelerometer back');
+}
+
 export async function seedDemo(handle: AppHandle, options: { log?: (m: string) => void } = {}) {
   const log = options.log ?? ((m: string) => console.log(m));
   const db = handle.database.db;
@@ -165,6 +179,10 @@ export async function seedDemo(handle: AppHandle, options: { log?: (m: string) =
             }
           }
           await engineer.upload(`${base}/schedule/${entry.id}/hits`, encodeWav([force, accel], fs), 'p13-loose-cable.wav', { units: 'volts' }, `demo-flagged-${entry.id}`);
+          // A reciprocity pair: the reciprocal of the fourth entry (hammer at the reference P07, the
+          // accelerometer moved to the roving point for these hits and back afterwards), so Review's
+          // reciprocity check has H_ij and H_ji to compare (Ewins 2000, ch. 3).
+          await seedReciprocalPair(admin, engineer, base, built.entries[3]!.id);
         }
         log(`[resonote] demo campaign “${spec.name}” seeded in ${((Date.now() - started) / 1000).toFixed(1)} s`);
       }

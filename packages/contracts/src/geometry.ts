@@ -41,4 +41,11 @@ export const geometryImportSchema = z.strictObject({
   /** replace: retire or delete points not in the file; merge: add new labels and update existing ones. */
   mode: z.enum(['merge', 'replace']).default('merge'),
   directions: directionList.default([]),
+  /** refuse (default): any bad row refuses the whole file; skip: import the good rows only, the bad ones are listed in the answer. */
+  badRows: z.enum(['refuse', 'skip']).default('refuse'),
+});
+
+/** The check of a CSV before import: which rows would be refused, nothing stored. */
+export const geometryCheckSchema = z.strictObject({
+  csv: z.string().max(MAX_IMPORT_BYTES, `the CSV is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB`),
 });

@@ -13,3 +13,7 @@ export * from './axis.ts';
 export * from './bridge.ts';
 export * from './fe-api.ts';
 export * from './lab.ts';
+export * from './team.ts';
+export * from './settings-patch.ts';
+export * from './settings-words.ts';
+export * from './kit-name.ts';

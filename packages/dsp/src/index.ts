@@ -35,3 +35,4 @@ export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
 export { resamplePoly, resampleRatio, resampleFilter, type ResampleRatio } from './resample.ts';
 export * from './correlation/index.ts';
+export { unwrapPhase, unwrapPhaseDeg } from './unwrap.ts';

@@ -1,8 +1,9 @@
 // The hand-over report as one self-contained, printable HTML page (A4, print CSS, inline SVG, no
 // external assets). The same page is served to members, through a shared link, and printed to PDF.
-import type { AcquisitionSettings } from '@resonote/contracts';
+import { defaultAcquisitionSettings, settingsChangeInWords, type AcquisitionSettings } from '@resonote/contracts';
 import { recordSamples } from '../hits/current-settings.ts';
 import { exponentialWindowOf } from '../hits/settings-to-dsp.ts';
+import { diffSettings } from '../routes/settings.ts';
 import type { HandoverData } from './collect.ts';
 import { notesSectionHtml, NOTES_CSS } from './notes.ts';
 import { esc, frequencyPairSvg, frfThumbSvg, geometrySvg, modeShapeSvg } from './svg.ts';
@@ -168,11 +169,15 @@ ${d.kit.length ? `<table class="grid"><thead><tr><th>Kind</th><th>Model</th><th>
 ${d.channels.length ? `<h3>Channel map</h3><table class="grid"><thead><tr><th>Ch.</th><th>Kind</th><th>Sensor</th><th>Axis</th><th>DOF</th><th>Sign</th></tr></thead><tbody>${chRows}</tbody></table>` : ''}</section>`);
 
   // 5. Settings
-  const histRows = d.settings.history.map((h) => `<tr><td class="n">${h.version}</td><td class="n">${esc(dateTime(h.createdAt))}</td><td>${esc(h.createdBy ?? '–')}</td><td>${esc(h.reason || '–')}</td></tr>`).join('');
+  // What each version changed, in words with units ("force window length 20 → 40 ms"), against the one before (the defaults for the first).
+  const changesOf = (i: number) => diffSettings(i === 0 ? defaultAcquisitionSettings : d.settings.history[i - 1]!.settings, d.settings.history[i]!.settings).map(settingsChangeInWords);
+  const histRows = d.settings.history
+    .map((h, i) => `<tr><td class="n">${h.version}</td><td class="n">${esc(dateTime(h.createdAt))}</td><td>${esc(h.createdBy ?? '–')}</td><td>${esc(h.reason || '–')}</td><td>${esc(changesOf(i).join('; ') || '–')}</td></tr>`)
+    .join('');
   sec.push(`<section><h2>5. Acquisition settings</h2>
 <p>Current version ${mono(d.settings.version)} of ${mono(d.settings.history.length)} version${d.settings.history.length === 1 ? '' : 's'}${d.settings.version === 0 ? ' (defaults; never changed)' : ''}. Every FRF below was computed with this version.</p>
 <table class="kv">${settingsRows(s)}</table>
-${histRows ? `<h3>Version history</h3><table class="grid"><thead><tr><th>Version</th><th>Saved</th><th>By</th><th>Reason</th></tr></thead><tbody>${histRows}</tbody></table>` : ''}</section>`);
+${histRows ? `<h3>Version history</h3><table class="grid"><thead><tr><th>Version</th><th>Saved</th><th>By</th><th>Reason</th><th>Changes</th></tr></thead><tbody>${histRows}</tbody></table>` : ''}</section>`);
 
   // 6. Hits
   const reasonRows = d.hits.byReason.map((r) => `<tr><td>${esc(REASON[r.code] ?? r.code)}</td><td class="n r">${r.n}</td></tr>`).join('');

@@ -7,6 +7,7 @@ import type { CampaignRole } from '@resonote/contracts';
 import type { Db } from '@resonote/db/client';
 import { requireAdmin, requireCampaignRole, requireKitKeeper, requireUser, type CampaignAccess, type SessionUser } from '../context.ts';
 import { HttpError, zodDetails, zodMessage } from '../errors.ts';
+import { refuseWhenArchived } from './archived.ts';
 
 /** `kit-keeper`: an admin, or a lead of any campaign (the lab inventory). */
 export type Access = 'public' | 'user' | 'admin' | 'kit-keeper' | CampaignRole;
@@ -37,6 +38,8 @@ export interface RouteSpec<B = unknown, Q = unknown> {
   bodyLimit?: string;
   /** Personal API tokens (`Authorization: Bearer rn_…`) may call this route; every other route refuses them. */
   tokenAccess?: boolean;
+  /** A campaign route that is not a GET refuses an archived campaign (409 `campaign-archived`) unless this says 'allowed' (http/archived.ts). */
+  whileArchived?: 'allowed';
   /** Extra middleware before validation (multer for uploads). */
   before?: RequestHandler[];
   /** Status of a successful answer (default 200). */
@@ -85,6 +88,7 @@ export class ApiRoutes {
     else if (spec.access !== 'public') {
       if (!spec.path.includes(':campaignId')) throw new Error(`route ${spec.path}: a campaign role needs :campaignId in the path`);
       guards.push(requireCampaignRole(this.db, spec.access));
+      if (spec.method !== 'get' && spec.whileArchived !== 'allowed') guards.push(refuseWhenArchived(this.db));
     }
     const parsers: RequestHandler[] = [];
     if (spec.body && spec.method !== 'get') parsers.push(express.json({ limit: spec.bodyLimit ?? this.jsonLimit, strict: true }));

@@ -18,7 +18,12 @@ export interface CsvProblem {
   message: string;
 }
 
-export type CsvResult = { ok: true; points: CsvPoint[] } | { ok: false; message: string; problems: CsvProblem[] };
+/**
+ * `points` on a refusal are the rows that passed (empty when the file as a whole is unreadable:
+ * no header, binary, too many rows); `badRows` counts every row with a problem, `problems` lists
+ * the first MAX_PROBLEMS of them.
+ */
+export type CsvResult = { ok: true; points: CsvPoint[] } | { ok: false; message: string; problems: CsvProblem[]; points: CsvPoint[]; badRows: number; rows: number };
 
 const MAX_PROBLEMS = 50;
 
@@ -35,8 +40,8 @@ function parseDirections(text: string): Direction[] | string {
 
 export function parseGeometryCsv(text: string): CsvResult {
   const body = text.replace(/^\uFEFF/, '');
-  if (!body.trim()) return { ok: false, message: 'The file is empty: it needs a header line `label,x,y,z` and one line per point.', problems: [] };
-  if (looksBinary(body)) return { ok: false, message: 'This is not a text CSV: the file holds binary bytes. Export the geometry as CSV text (`label,x,y,z`, mm).', problems: [] };
+  if (!body.trim()) return { ok: false, message: 'The file is empty: it needs a header line `label,x,y,z` and one line per point.', problems: [], points: [], badRows: 0, rows: 0 };
+  if (looksBinary(body)) return { ok: false, message: 'This is not a text CSV: the file holds binary bytes. Export the geometry as CSV text (`label,x,y,z`, mm).', problems: [], points: [], badRows: 0, rows: 0 };
   const parsed = Papa.parse<string[]>(body, { skipEmptyLines: false, delimiter: '' });
   const rows = parsed.data;
   const header = (rows[0] ?? []).map((h) => h.trim().toLowerCase());
@@ -47,19 +52,23 @@ export function parseGeometryCsv(text: string): CsvResult {
       ok: false,
       message: `Line 1 (the header) lacks the column${missing.length > 1 ? 's' : ''} ${missing.join(', ')}. Expected a header like \`label,x,y,z\` (coordinates in mm).`,
       problems: [{ line: 1, message: `missing column${missing.length > 1 ? 's' : ''}: ${missing.join(', ')}` }],
+      points: [],
+      badRows: 0,
+      rows: 0,
     };
   }
   const dataRows = rows.slice(1).map((cells, i) => ({ cells, line: i + 2 })).filter((r) => r.cells.some((c) => c.trim() !== ''));
-  if (dataRows.length === 0) return { ok: false, message: 'The file has a header but no points.', problems: [] };
+  if (dataRows.length === 0) return { ok: false, message: 'The file has a header but no points.', problems: [], points: [], badRows: 0, rows: 0 };
   if (dataRows.length > MAX_IMPORT_ROWS) {
-    return { ok: false, message: `The file has ${dataRows.length.toLocaleString('en-US')} points; one import takes at most ${MAX_IMPORT_ROWS.toLocaleString('en-US')}. Split it into several files.`, problems: [] };
+    return { ok: false, message: `The file has ${dataRows.length.toLocaleString('en-US')} points; one import takes at most ${MAX_IMPORT_ROWS.toLocaleString('en-US')}. Split it into several files.`, problems: [], points: [], badRows: 0, rows: dataRows.length };
   }
   const dirCol = col('directions');
-  const problems: CsvProblem[] = [];
+  // Every row is read (the good ones may be imported on their own, `badRows: 'skip'`); the list keeps the first MAX_PROBLEMS.
+  const all: CsvProblem[] = [];
+  const problems = { push: (p: CsvProblem) => all.push(p) };
   const seen = new Map<string, number>();
   const points: CsvPoint[] = [];
   for (const { cells, line } of dataRows) {
-    if (problems.length >= MAX_PROBLEMS) break;
     const label = (cells[col('label')] ?? '').trim();
     const labelCheck = pointLabelSchema.safeParse(label);
     if (!labelCheck.success) {
@@ -102,9 +111,10 @@ export function parseGeometryCsv(text: string): CsvResult {
     }
     points.push({ line, label, x: coords[0]!, y: coords[1]!, z: coords[2]!, directions: dirs });
   }
-  if (problems.length) {
-    const more = problems.length >= MAX_PROBLEMS ? ` (showing the first ${MAX_PROBLEMS})` : '';
-    return { ok: false, message: `Nothing was imported: ${problems.length} line${problems.length > 1 ? 's have' : ' has'} a problem${more}. First: line ${problems[0]!.line}: ${problems[0]!.message}.`, problems };
+  if (all.length) {
+    const badLines = new Set(all.map((p) => p.line)).size;
+    const more = all.length > MAX_PROBLEMS ? ` (showing the first ${MAX_PROBLEMS})` : '';
+    return { ok: false, message: `Nothing was imported: ${badLines} line${badLines > 1 ? 's have' : ' has'} a problem${more}. First: line ${all[0]!.line}: ${all[0]!.message}.`, problems: all.slice(0, MAX_PROBLEMS), points, badRows: badLines, rows: dataRows.length };
   }
   return { ok: true, points };
 }

@@ -2,7 +2,7 @@
 // and by accepting a model-based plan (routes/fe-models.ts).
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm';
 import type { Direction } from '@resonote/contracts';
-import { acquisitionSettings, campaign, hit, point, scheduleEntry } from '@resonote/db/schema';
+import { acquisitionSettings, campaign, hit, point, scheduleEntry, scheduleExtra } from '@resonote/db/schema';
 import { audit, type Tx } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
 import { pairKey, planSchedule } from './schedule-plan.ts';
@@ -29,7 +29,9 @@ export async function generateSchedule(tx: Tx, campaignId: string, actorId: stri
   const existing = await tx.select().from(scheduleEntry).where(eq(scheduleEntry.campaignId, c.id));
   const wanted = new Set(plan.pairs.map(pairKey));
   const have = new Map(existing.map((e) => [pairKey(e), e]));
-  const stale = existing.filter((e) => !wanted.has(pairKey(e)));
+  // Entries a lead added beside the plan (a reciprocal pair) are kept while their points exist.
+  const extras = new Set((await tx.select({ id: scheduleExtra.entryId }).from(scheduleExtra).innerJoin(scheduleEntry, eq(scheduleEntry.id, scheduleExtra.entryId)).where(eq(scheduleEntry.campaignId, c.id))).map((r) => r.id));
+  const stale = existing.filter((e) => !wanted.has(pairKey(e)) && !extras.has(e.id));
   let removed = 0;
   if (stale.length) {
     const withHits = new Set(

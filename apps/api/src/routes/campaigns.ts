@@ -1,8 +1,8 @@
 // Campaigns, their members and invitations, and the audit trail (design.md, "Who uses it").
-import { and, asc, count, desc, eq, gt, inArray, isNull, lt, sql } from 'drizzle-orm';
+import { and, asc, count, desc, eq, gt, inArray, isNotNull, isNull, lt, sql } from 'drizzle-orm';
 import { z } from 'zod';
-import { campaignCreateSchema, campaignPatchSchema, invitationCreateSchema, memberPatchSchema } from '@resonote/contracts';
-import { auditEvent, campaign, campaignInvitation, campaignMember, scheduleEntry, user } from '@resonote/db/schema';
+import { campaignCreateSchema, campaignListFilters, campaignPatchSchema, invitationCreateSchema, memberPatchSchema } from '@resonote/contracts';
+import { auditEvent, campaign, campaignArchive, campaignInvitation, campaignMember, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
@@ -22,8 +22,8 @@ export function registerCampaignRoutes({ routes, db, config, mailer }: Deps): vo
     path: '/campaigns',
     tag: 'Campaigns',
     access: 'user',
-    summary: 'Campaigns the caller belongs to (every campaign for an admin), with progress and leads',
-    query: z.strictObject({ q: z.string().trim().max(100).optional() }),
+    summary: 'Campaigns the caller belongs to (every campaign for an admin), with progress and leads; ?status= active (default: not archived), archived, all, or one workflow status (not archived)',
+    query: z.strictObject({ q: z.string().trim().max(100).optional(), status: z.enum(campaignListFilters).default('active') }),
     handler: async ({ user: me, query }) => {
       const mine = db.select({ campaignId: campaignMember.campaignId, role: campaignMember.role }).from(campaignMember).where(eq(campaignMember.userId, me.id)).as('mine');
       const rows = await db
@@ -36,13 +36,17 @@ export function registerCampaignRoutes({ routes, db, config, mailer }: Deps): vo
           purpose: campaign.purpose,
           testType: campaign.testType,
           updatedAt: campaign.updatedAt,
+          archivedAt: campaignArchive.archivedAt,
           myRole: mine.role,
         })
         .from(campaign)
         .leftJoin(mine, eq(mine.campaignId, campaign.id))
+        .leftJoin(campaignArchive, eq(campaignArchive.campaignId, campaign.id))
         .where(
           and(
             me.role === 'admin' ? undefined : sql`${mine.role} IS NOT NULL`,
+            query.status === 'all' ? undefined : query.status === 'archived' ? isNotNull(campaignArchive.campaignId) : isNull(campaignArchive.campaignId),
+            query.status !== 'all' && query.status !== 'archived' && query.status !== 'active' ? eq(campaign.status, query.status) : undefined,
             query.q ? sql`(${campaign.name} ILIKE ${'%' + query.q + '%'} OR ${campaign.structure} ILIKE ${'%' + query.q + '%'} OR ${campaign.client} ILIKE ${'%' + query.q + '%'})` : undefined,
           ),
         )
@@ -92,8 +96,12 @@ export function registerCampaignRoutes({ routes, db, config, mailer }: Deps): vo
     path: '/campaigns/:campaignId',
     tag: 'Campaigns',
     access: 'viewer',
-    summary: 'One campaign with the caller’s role',
-    handler: async ({ campaign: access }) => ({ campaign: await loadCampaign(access.campaignId), myRole: access.role }),
+    summary: 'One campaign with the caller’s role; archivedAt is set while it is archived (read-only)',
+    handler: async ({ campaign: access }) => {
+      const row = await loadCampaign(access.campaignId);
+      const [archived] = await db.select().from(campaignArchive).where(eq(campaignArchive.campaignId, access.campaignId));
+      return { campaign: { ...row, archivedAt: archived?.archivedAt ?? null, archiveReason: archived?.reason ?? null }, myRole: access.role };
+    },
   });
 
   routes.add({

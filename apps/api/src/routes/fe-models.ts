@@ -254,6 +254,8 @@ export function registerFeModelRoutes({ routes, db }: Deps): void {
     path: '/campaigns/:campaignId/fe-models/:modelId/proposal',
     tag: 'Model',
     access: 'viewer',
+    // Computes and stores nothing, so an archived campaign answers it too.
+    whileArchived: 'allowed',
     summary: 'Propose where to measure and where to put the reference: Effective Independence (Kammer 1991) over the candidate DOFs for the modes of interest, the driving-point measure, and the auto-MAC of the kept set against a threshold (0.2 default, common practice). Stores nothing',
     body: feProposalSchema,
     returns: '{ modes, kept: [{ dof, node, x, y, z, ed, rank }], ranking, informationKept, reference, referenceAlternatives, referenceWords, autoMac: { matrix, maxOffDiagonal, above, threshold, words } }',

@@ -1,7 +1,7 @@
 // Geometry of a campaign: points (mm) with measured directions, lines, CSV import and export.
 import { and, eq, inArray, or, sql } from 'drizzle-orm';
 import type { RequestHandler } from 'express';
-import { geometryImportSchema, lineCreateSchema, MAX_IMPORT_BYTES, pointCreateSchema, pointPatchSchema, uuidSchema } from '@resonote/contracts';
+import { geometryCheckSchema, geometryImportSchema, lineCreateSchema, MAX_IMPORT_BYTES, pointCreateSchema, pointPatchSchema, uuidSchema } from '@resonote/contracts';
 import { campaign, channel, hit, line, point, scheduleEntry } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit, type Tx } from '../http/audit.ts';
@@ -195,6 +195,22 @@ export function registerGeometryRoutes({ routes, db }: Deps): void {
 
   routes.add({
     method: 'post',
+    path: '/campaigns/:campaignId/geometry/import/check',
+    tag: 'Geometry',
+    access: 'lead',
+    summary: 'Check a geometry CSV before importing it: which rows would be refused and why. Stores nothing',
+    body: geometryCheckSchema,
+    bodyLimit: `${Math.ceil((MAX_IMPORT_BYTES * 1.2) / 1024 / 1024)}mb`,
+    returns: '{ ok, rows, goodRows, badRows, message, problems: [{ line, message }] } — ok: the file imports as it is; problems lists the first 50',
+    handler: ({ body }) => {
+      const r = parseGeometryCsv(body.csv);
+      if (r.ok) return { ok: true, rows: r.points.length, goodRows: r.points.length, badRows: 0, message: null, problems: [] };
+      return { ok: false, rows: r.rows, goodRows: r.points.length, badRows: r.badRows, message: r.message, problems: r.problems };
+    },
+  });
+
+  routes.add({
+    method: 'post',
     path: '/campaigns/:campaignId/geometry/import',
     tag: 'Geometry',
     access: 'lead',
@@ -202,10 +218,15 @@ export function registerGeometryRoutes({ routes, db }: Deps): void {
     body: geometryImportSchema,
     bodyLimit: `${Math.ceil((MAX_IMPORT_BYTES * 1.2) / 1024 / 1024)}mb`,
     before: [csvUpload],
-    returns: '{ added, updated, removed, retired, total }; 400 with details: [{ line, message }] when any line is wrong (nothing written)',
+    returns: "{ added, updated, removed, retired, total, skipped: [{ line, message }] }; 400 with details: [{ line, message }] when any line is wrong (nothing written), unless badRows: 'skip' asks for the good rows only",
     handler: async ({ body, campaign: access, user: me }) => {
-      const result = parseGeometryCsv(body.csv);
-      if (!result.ok) throw new HttpError(400, 'invalid-csv', result.message, result.problems);
+      const parsed = parseGeometryCsv(body.csv);
+      // With badRows 'skip' the lead asked for the good rows only; a file unreadable as a whole, or with no good row, is still refused.
+      const skipping = !parsed.ok && body.badRows === 'skip' && parsed.points.length > 0;
+      if (!parsed.ok && !skipping) throw new HttpError(400, 'invalid-csv', parsed.message, parsed.problems);
+      if (!parsed.ok && skipping && body.mode === 'replace') throw new HttpError(400, 'invalid-csv', 'Replace needs a file without bad rows: skipping rows would delete the points they name. Fix the rows or use merge.', parsed.problems);
+      const result = { points: parsed.points };
+      const skipped = parsed.ok ? [] : parsed.problems;
       const defaultDirections = body.directions;
       const hasDirections = result.points.some((p) => p.directions !== null);
       return db.transaction(async (tx) => {
@@ -251,7 +272,7 @@ export function registerGeometryRoutes({ routes, db }: Deps): void {
             }
           }
         }
-        const summary = { added, updated, removed, retired, total: result.points.length, mode: body.mode };
+        const summary = { added, updated, removed, retired, total: result.points.length, mode: body.mode, skippedRows: parsed.ok ? 0 : parsed.badRows, skipped };
         await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'geometry', entityId: access.campaignId, action: 'import', after: summary });
         return summary;
       });

@@ -147,6 +147,8 @@ export function registerHandoverRoutes({ routes, db, config, mailer, jobs }: Dep
     access: 'lead',
     summary: 'Share the hand-over by e-mail: an expiring signed link to the report (report-link) or an invitation to join as viewer (viewer-invitation)',
     body: shareSchema,
+    // Sharing reads the campaign (a report link, or a viewer's seat): allowed on an archived one.
+    whileArchived: 'allowed',
     returns: '{ mode, expiresAt, sent: [email], skipped: [{ email, reason }], link? }',
     handler: async ({ body, campaign: access, user: me }) => {
       const [target] = await db.select().from(campaign).where(eq(campaign.id, access.campaignId));

@@ -7,6 +7,7 @@ import { uuidSchema } from '@resonote/contracts';
 import { backgroundJob } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
+import { assertNotArchived } from '../http/archived.ts';
 import { HttpError, notFound } from '../errors.ts';
 import { jobView, startProductJob, startReprocess } from '../jobs/campaign-jobs.ts';
 
@@ -27,8 +28,11 @@ export function registerJobRoutes({ routes, db, config, jobs }: Deps): void {
       'Start a background job: "reprocess" recomputes the averaged FRF of every DOF with accepted hits under the current settings (split into parts that several workers share); "report-pdf" prints the hand-over report; "backup" builds the campaign backup zip',
     body: z.strictObject({ kind: z.enum(['reprocess', 'report-pdf', 'backup']) }),
     status: 202,
+    // A report or a backup only reads; a reprocess writes results, so it checks the archive itself.
+    whileArchived: 'allowed',
     returns: '{ job: { id, kind, status, progress, … } } — poll GET …/jobs/:jobId',
     handler: async ({ body, campaign: access, user: me }) => {
+      if (body.kind === 'reprocess') await assertNotArchived(db, access.campaignId);
       if (body.kind === 'reprocess') return { job: jobView(await startReprocess({ db, jobs, config }, access.campaignId, me.id)) };
       if (body.kind === 'backup') await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'campaign', entityId: access.campaignId, action: 'backup', after: { by: me.email } });
       return { job: jobView(await startProductJob({ db, jobs }, body.kind, access.campaignId, me.id)) };

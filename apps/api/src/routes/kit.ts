@@ -15,6 +15,7 @@ import {
   toBaseSensitivity,
   type CalibrationState,
   type SensitivityUnit,
+  kitItemName,
 } from '@resonote/contracts';
 import { calibrationRecord, campaign, channel, kitItem, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
@@ -30,7 +31,6 @@ type Kind = KitItemRow['kind'];
 /** Base units Resonote stores sensitivities in (docs/methods.md#units). */
 const BASE_UNIT: Record<Kind, 'mV/N' | 'mV/(m/s²)'> = { hammer: 'mV/N', accelerometer: 'mV/(m/s²)' };
 const UNITS: Record<Kind, readonly string[]> = { hammer: hammerUnits, accelerometer: accelerometerUnits };
-const KIND_NAME: Record<Kind, string> = { hammer: 'Hammer', accelerometer: 'Accelerometer' };
 
 const uuid = z.uuid();
 /** A path id that is not a UUID names nothing: 404, like an id of another campaign. */
@@ -50,7 +50,7 @@ function isUniqueViolation(err: unknown): boolean {
 }
 
 const plural = (n: number, word: string) => `${n} ${word}${n === 1 ? '' : 's'}`;
-const itemName = (item: Pick<KitItemRow, 'kind' | 'model' | 'serial'>) => `${KIND_NAME[item.kind]} ${item.model} (SN ${item.serial})`;
+const itemName = (item: Pick<KitItemRow, 'kind' | 'model' | 'serial'>) => kitItemName(item);
 
 /** Plain-words calibration warning for an item, or null when nothing needs saying. */
 function calibrationWarning(item: KitItemRow, state: CalibrationState, days: number | null, dueOn: string | null): string | null {

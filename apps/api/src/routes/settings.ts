@@ -2,12 +2,12 @@
 // hits record the version they were taken under, and the history lists what changed
 // (design.md, "Kit"; docs/methods.md#traceability).
 import { desc, eq } from 'drizzle-orm';
-import { defaultAcquisitionSettings, settingsUpdateSchema, type AcquisitionSettings } from '@resonote/contracts';
+import { acquisitionSettingsSchema, applySettingsPatch, defaultAcquisitionSettings, settingsPatchSchema, settingsUpdateSchema, type AcquisitionSettings } from '@resonote/contracts';
 import { acquisitionSettings, campaign, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit, type Tx } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
-import { conflict, notFound } from '../errors.ts';
+import { conflict, HttpError, notFound, zodDetails, zodMessage } from '../errors.ts';
 
 export interface SettingsChange {
   /** Dotted path, e.g. `bandHz.high` or `exponentialWindow.mode`. */
@@ -91,6 +91,46 @@ export function registerSettingsRoutes({ routes, db }: Deps): void {
     },
   });
 
+  /**
+   * Stores `next` as a new version based on `baseVersion`, in one transaction that holds the
+   * campaign row as its lock. `make` turns the current settings into the wanted ones (PUT: the body;
+   * PATCH: the patch laid over the current ones and checked as a whole).
+   */
+  async function saveVersion(campaignId: string, me: { id: string; name: string }, baseVersion: number, reason: string, make: (current: AcquisitionSettings) => AcquisitionSettings) {
+    try {
+      return await db.transaction(async (tx) => {
+        // One writer per campaign at a time: the campaign row is the lock.
+        const [locked] = await tx.select({ id: campaign.id }).from(campaign).where(eq(campaign.id, campaignId)).for('no key update');
+        if (!locked) throw notFound('That campaign');
+        const row = await latest(tx, campaignId);
+        const current = currentOf(row);
+        if (baseVersion !== current.version) throw staleWrite('The acquisition settings', current);
+        const settings = make(current.settings);
+        if (diffSettings(current.settings, settings).length === 0) return { current, unchanged: true };
+        const version = current.version + 1;
+        const [created] = await tx.insert(acquisitionSettings).values({ campaignId, version, settings, reason, createdBy: me.id }).returning();
+        await audit(tx, {
+          campaignId,
+          actorId: me.id,
+          entity: 'settings',
+          entityId: campaignId,
+          action: 'update',
+          before: { version: current.version, settings: current.settings },
+          after: { version, settings, reason },
+        });
+        return {
+          current: { version, settings: created!.settings as AcquisitionSettings, reason: created!.reason, createdAt: created!.createdAt, createdBy: me.name },
+          unchanged: false,
+        };
+      });
+    } catch (err) {
+      // The unique (campaign, version) index is the last guard against a concurrent save.
+      const e = err as { code?: string; cause?: { code?: string } };
+      if (e?.code === '23505' || e?.cause?.code === '23505') throw conflict('The acquisition settings were saved by someone else at the same moment; reload and try again.');
+      throw err;
+    }
+  }
+
   routes.add({
     method: 'put',
     path: '/campaigns/:campaignId/settings',
@@ -99,41 +139,22 @@ export function registerSettingsRoutes({ routes, db }: Deps): void {
     summary: 'Save the acquisition settings as a new version (based on the version you read)',
     body: settingsUpdateSchema,
     returns: '{ current, unchanged } — unchanged: true when the settings equal the current ones (no new version)',
-    handler: async ({ body, campaign: access, user: me }) => {
-      try {
-        return await db.transaction(async (tx) => {
-          // One writer per campaign at a time: the campaign row is the lock.
-          const [locked] = await tx.select({ id: campaign.id }).from(campaign).where(eq(campaign.id, access.campaignId)).for('no key update');
-          if (!locked) throw notFound('That campaign');
-          const row = await latest(tx, access.campaignId);
-          const current = currentOf(row);
-          if (body.baseVersion !== current.version) throw staleWrite('The acquisition settings', current);
-          if (diffSettings(current.settings, body.settings).length === 0) return { current, unchanged: true };
-          const version = current.version + 1;
-          const [created] = await tx
-            .insert(acquisitionSettings)
-            .values({ campaignId: access.campaignId, version, settings: body.settings, reason: body.reason, createdBy: me.id })
-            .returning();
-          await audit(tx, {
-            campaignId: access.campaignId,
-            actorId: me.id,
-            entity: 'settings',
-            entityId: access.campaignId,
-            action: 'update',
-            before: { version: current.version, settings: current.settings },
-            after: { version, settings: body.settings, reason: body.reason },
-          });
-          return {
-            current: { version, settings: created!.settings as AcquisitionSettings, reason: created!.reason, createdAt: created!.createdAt, createdBy: me.name },
-            unchanged: false,
-          };
-        });
-      } catch (err) {
-        // The unique (campaign, version) index is the last guard against a concurrent save.
-        const e = err as { code?: string; cause?: { code?: string } };
-        if (e?.code === '23505' || e?.cause?.code === '23505') throw conflict('The acquisition settings were saved by someone else at the same moment; reload and try again.');
-        throw err;
-      }
-    },
+    handler: ({ body, campaign: access, user: me }) => saveVersion(access.campaignId, me, body.baseVersion, body.reason, () => body.settings),
+  });
+
+  routes.add({
+    method: 'patch',
+    path: '/campaigns/:campaignId/settings',
+    tag: 'Settings',
+    access: 'lead',
+    summary: 'Change some acquisition settings (only the fields sent; forceWindow and bandHz may be sent in part) as a new version based on the version you read',
+    body: settingsPatchSchema,
+    returns: '{ current, unchanged } — as PUT; 400 invalid-input when the merged settings break a rule (the field named in details)',
+    handler: ({ body, campaign: access, user: me }) =>
+      saveVersion(access.campaignId, me, body.baseVersion, body.reason, (current) => {
+        const merged = acquisitionSettingsSchema.safeParse(applySettingsPatch(current, body.settings));
+        if (!merged.success) throw new HttpError(400, 'invalid-input', `With this change the settings would not hold: ${zodMessage(merged.error)}`, zodDetails(merged.error));
+        return merged.data;
+      }),
   });
 }

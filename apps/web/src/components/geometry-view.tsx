@@ -60,33 +60,36 @@ export function GeometryView({ points, lines, statusByPointId, highlightPointId,
     const traces: Record<string, unknown>[] = [];
     if (lx.length) traces.push({ type: 'scatter3d', mode: 'lines', name: 'Lines', x: lx, y: ly, z: lz, hoverinfo: 'skip', line: { color: dark ? '#6f7b79' : '#98a3a1', width: 3 }, showlegend: false });
 
-    const marker = (list: ViewPoint[], name: string, symbol: string, color: string, size = 7) => ({
-      type: 'scatter3d',
-      mode: 'markers+text',
-      name,
-      x: list.map((p) => p.x),
-      y: list.map((p) => p.y),
-      z: list.map((p) => p.z),
-      text: list.map((p) => p.label),
-      customdata: list.map((p) => p.id),
-      textposition: 'top center',
-      textfont: { family: 'JetBrains Mono Variable, monospace', size: 11, color: ink },
-      hovertemplate: '%{text}<br>x %{x} mm<br>y %{y} mm<br>z %{z} mm<extra>' + name + '</extra>',
-      marker: { symbol, color, size, line: { color, width: 1 } },
-    });
+    const marker = (list: ViewPoint[], name: string, symbol: string, color: string, size = 7): Record<string, unknown>[] => {
+      const at = { x: list.map((p) => p.x), y: list.map((p) => p.y), z: list.map((p) => p.z), customdata: list.map((p) => p.id) };
+      const hovertemplate = '%{text}<br>x %{x} mm<br>y %{y} mm<br>z %{z} mm<extra>' + name + '</extra>';
+      const labels = { textposition: 'top center', textfont: { family: 'JetBrains Mono Variable, monospace', size: 11, color: ink } };
+      if (symbol !== 'x') {
+        return [{ type: 'scatter3d', mode: 'markers+text', name, ...at, text: list.map((p) => p.label), ...labels, hovertemplate, marker: { symbol, color, size, line: { color, width: 1 } } }];
+      }
+      // plotly draws the 3D 'x' symbol as the emoji ❌ (its gl3d marker table), red whatever the colour and
+      // unlike the heavy ✖ its legend shows. So the legend gets an empty 'x' trace, and the points are the ✖
+      // glyph itself in the status colour, with their labels above; all three toggle together.
+      const group = `status-${name}`;
+      return [
+        { type: 'scatter3d', mode: 'markers', name, legendgroup: group, x: [null], y: [null], z: [null], hoverinfo: 'skip', marker: { symbol: 'x', color, size, line: { color, width: 1 } } },
+        { type: 'scatter3d', mode: 'text', name, legendgroup: group, showlegend: false, ...at, text: list.map(() => '✖'), textposition: 'middle center', textfont: { family: 'DejaVu Sans, sans-serif', size: 16, color }, hovertext: list.map((p) => p.label), hovertemplate: '%{hovertext}<br>x %{x} mm<br>y %{y} mm<br>z %{z} mm<extra>' + name + '</extra>' },
+        { type: 'scatter3d', mode: 'text', name, legendgroup: group, showlegend: false, ...at, text: list.map((p) => p.label), ...labels, hoverinfo: 'skip' },
+      ];
+    };
 
     if (statusByPointId) {
       for (const status of statusRank) {
         const list = points.filter((p) => statusByPointId[p.id] === status);
         if (list.length) {
           const look = scheduleLook[status];
-          traces.push(marker(list, look.label, look.symbol, dark ? look.dark : look.light));
+          traces.push(...marker(list, look.label, look.symbol, dark ? look.dark : look.light));
         }
       }
       const unscheduled = points.filter((p) => !statusByPointId[p.id]);
-      if (unscheduled.length) traces.push(marker(unscheduled, 'Not in schedule', 'square', dark ? '#56615f' : '#b5bebc', 4));
+      if (unscheduled.length) traces.push(...marker(unscheduled, 'Not in schedule', 'square', dark ? '#56615f' : '#b5bebc', 4));
     } else if (points.length) {
-      traces.push(marker(points, 'Points', 'circle', dark ? '#3fb3ac' : '#0e6b67'));
+      traces.push(...marker(points, 'Points', 'circle', dark ? '#3fb3ac' : '#0e6b67'));
     }
     const hi = highlightPointId ? byId.get(highlightPointId) : undefined;
     if (hi) {

@@ -18,6 +18,9 @@ export interface Campaign {
   simulator: 'steel-bar' | 'pump-skid' | 'generic';
   version: number;
   updatedAt: string;
+  /** Set while the campaign is archived (read-only). */
+  archivedAt: string | null;
+  archiveReason: string | null;
 }
 
 export interface GeometryPoint {

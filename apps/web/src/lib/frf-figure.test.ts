@@ -77,3 +77,29 @@ describe('the band of a plotly_relayout event', () => {
     expect(bandFromRelayout({ 'xaxis.range[0]': 'abc', 'xaxis.range[1]': 3 }, false)).toBeUndefined();
   });
 });
+
+describe('phase and axis labels', () => {
+  // A pure delay H = e^(−j·2π·f·τ), τ = 2.5 ms: the phase is −360°·f·τ = −0.9°·f exactly (shift theorem),
+  // −360° at 400 Hz, so the wrapped phase jumps at 200 Hz and the unwrapped one is a straight line.
+  const f = Float64Array.from({ length: 801 }, (_, k) => k * 0.5);
+  const re = f.map((v) => Math.cos(-2 * Math.PI * v * 0.0025));
+  const im = f.map((v) => Math.sin(-2 * Math.PI * v * 0.0025));
+  const colours = plotColours(false);
+  const fig = (unwrap: boolean, logF = false) => frfFigure([{ name: 'H1 P1:+Z / P1:+Z', f, h: { re, im }, colour: '#000' }], { kind: 'accelerance', view: 'magphase', db: true, logF, colours, coherence: false, unwrap });
+
+  it('draws the phase continuous through ±180° when unwrapped, and wrapped to (−180°, 180°] otherwise', () => {
+    const wrapped = fig(false).data[1]!.y as Float64Array;
+    const unwrapped = fig(true).data[1]!.y as Float64Array;
+    const jumps = (y: Float64Array) => y.slice(1).filter((v, i) => Math.abs(v - y[i]!) > 180).length;
+    expect(jumps(wrapped)).toBeGreaterThan(0);
+    expect(jumps(unwrapped)).toBe(0);
+    expect(Math.max(...wrapped)).toBeLessThanOrEqual(180);
+    f.forEach((v, k) => expect(unwrapped[k]).toBeCloseTo(-0.9 * v, 9));
+    expect((fig(true).layout.yaxis2 as { range?: unknown }).range).toBeUndefined();
+  });
+
+  it('labels a log frequency axis 10, 20, 50 … (tickformat ~g, dtick D2), never "10.00"', () => {
+    expect(fig(false, true).layout.xaxis).toMatchObject({ type: 'log', tickformat: '~g', dtick: 'D2' });
+    expect((fig(false, false).layout.xaxis as { tickformat?: string }).tickformat).toBeUndefined();
+  });
+});

@@ -1,7 +1,7 @@
 // Plotly figures of FRFs, for one DOF (Tap, Review) and for overlays of up to 100 (Review):
 // magnitude + phase (+ coherence), real + imaginary, or Nyquist (Re against Im). All the complex
 // arithmetic goes through frf-math.ts; here only traces, axes and labels.
-import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
+import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, phasesDegUnwrapped, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
 import { axis, baseLayout, baseMargin, type PlotColours } from './plot-style.ts';
 import { minMaxDecimate } from './decimate.ts';
 
@@ -40,6 +40,8 @@ export interface FrfFigureOptions {
    * in the magnitude/phase and re/im views: a zoomed overlay spends its buckets on what is visible.
    */
   bandHz?: readonly [number, number] | null;
+  /** Phase unwrapped (continuous through ±180°, frf-math `phasesDegUnwrapped`) instead of wrapped to (−180°, 180°]. */
+  unwrap?: boolean;
 }
 
 function slice(a: ArrayLike<number>, from: number, to = a.length): Float64Array {
@@ -95,7 +97,7 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     if (o.view === 'magphase') {
       const mag = o.db ? magnitudesDb(h) : magnitudes(h);
       data.push({ ...common, ...xy(f, mag), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name}: %{y:.${o.db ? 2 : 4}${o.db ? 'f' : 'g'}}${magSuffix}<extra></extra>` });
-      data.push({ ...common, ...xy(f, phasesDeg(h)), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
+      data.push({ ...common, ...xy(f, o.unwrap ? phasesDegUnwrapped(h) : phasesDeg(h)), yaxis: 'y2', hovertemplate: `${curve.name}: %{y:.1f}°<extra></extra>` });
       if (o.coherence && curve.coherence) data.push({ ...common, x: f, y: slice(curve.coherence, from, to), yaxis: 'y3', hovertemplate: `${curve.name} γ²: %{y:.3f}<extra></extra>` });
     } else if (o.view === 'reim') {
       data.push({ ...common, ...xy(f, h.re), yaxis: 'y', showlegend: showLegend && curve.legend !== false, hovertemplate: `${curve.name} Re: %{y:.4g} ${unit}<extra></extra>` });
@@ -113,7 +115,9 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     }
   }
 
-  const fAxis = axis(c, 'Frequency (Hz)', { type: o.logF ? 'log' : 'linear', hoverformat: '.2f' });
+  // On a log axis plotly formats the decade labels with hoverformat unless tickformat is set ("10.00");
+  // '~g' with dtick D2 labels 10, 20, 50, 100, 200 … (every 1-2-5; all digits crowd a narrow plot).
+  const fAxis = axis(c, 'Frequency (Hz)', o.logF ? { type: 'log', hoverformat: '.2f', tickformat: '~g', dtick: 'D2' } : { type: 'linear', hoverformat: '.2f' });
   const withCoh = o.coherence && o.view !== 'nyquist' && curves.some((x) => x.coherence);
   if (o.view === 'nyquist') {
     return {
@@ -136,8 +140,9 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     showlegend: showLegend,
     uirevision: o.uirevision,
     xaxis: { ...fAxis, anchor: withCoh ? 'y3' : 'y2' },
-    yaxis: axis(c, top, { domain: domains[0], exponentformat: 'power' }),
-    yaxis2: axis(c, mid, o.view === 'magphase' ? { domain: domains[1], range: [-185, 185], tickvals: [-180, -90, 0, 90, 180] } : { domain: domains[1], exponentformat: 'power' }),
+    // nticks: plotly's default allows one label per 40 px, too few on a short magnitude row of an overlay.
+    yaxis: axis(c, top, { domain: domains[0], exponentformat: 'power', nticks: 10 }),
+    yaxis2: axis(c, mid, o.view !== 'magphase' ? { domain: domains[1], exponentformat: 'power' } : o.unwrap ? { domain: domains[1], nticks: 6 } : { domain: domains[1], range: [-185, 185], tickvals: [-180, -90, 0, 90, 180] }),
     ...(withCoh ? { yaxis3: axis(c, 'Coherence γ²', { domain: domains[2], range: [0, 1.05], tickvals: [0, 0.5, 1] }) } : {}),
   });
   return { data, layout };

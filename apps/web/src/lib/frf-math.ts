@@ -3,6 +3,8 @@
 // 20·log10, FRF plots print their reference ("dB re 1 (m/s²)/N"), phase is wrapped to (−180, 180].
 // Typed arrays throughout: an overlay of 100 FRFs × 8193 lines runs through here.
 
+import { unwrapPhaseDeg } from '@resonote/dsp';
+
 export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
 
 /** SI unit of each FRF kind (ISO 7626-1:2011 names). */
@@ -77,6 +79,14 @@ export function phasesDeg(h: ComplexArrays): Float64Array {
   const out = new Float64Array(n);
   for (let k = 0; k < n; k++) out[k] = phaseDeg(h.re[k]!, h.im[k]!);
   return out;
+}
+
+/**
+ * Phase of H at every line in degrees, unwrapped: continuous through ±180° (dsp `unwrapPhaseDeg`,
+ * numpy.unwrap's rule). The one place the screens unwrap a phase.
+ */
+export function phasesDegUnwrapped(h: ComplexArrays): Float64Array {
+  return unwrapPhaseDeg(phasesDeg(h));
 }
 
 export function toFloat64(values: ArrayLike<number>): Float64Array {

@@ -9,6 +9,7 @@ import { useMe } from '../lib/session.ts';
 import { useToast } from '../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../components/ui.tsx';
 import { Select } from '../components/form-controls.tsx';
+import { formatWhen } from '../lib/format-date.ts';
 
 interface TokenRow {
   id: string;
@@ -25,7 +26,7 @@ interface TokenRow {
 }
 
 const rank: Record<MyRole, number> = { viewer: 1, engineer: 2, lead: 3, admin: 3 };
-const when = (iso: string | null) => (iso ? new Date(iso).toLocaleString() : '—');
+const when = (iso: string | null) => formatWhen(iso);
 
 export function AccountPage() {
   const me = useMe();

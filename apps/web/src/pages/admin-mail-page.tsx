@@ -3,6 +3,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { api } from '../lib/api.ts';
 import { Notice, Panel, Spinner } from '../components/ui.tsx';
+import { formatWhen } from '../lib/format-date.ts';
 
 interface Mail {
   id: string;
@@ -32,7 +33,7 @@ export function AdminMailPage() {
             {mail.data.mail.map((m) => (
               <li key={m.id} className="py-2">
                 <button className="flex w-full items-baseline gap-3 text-left" onClick={() => setOpenId(openId === m.id ? undefined : m.id)} aria-expanded={openId === m.id}>
-                  <span className="num w-40 shrink-0 text-xs text-[var(--muted)]">{new Date(m.receivedAt).toLocaleString()}</span>
+                  <span className="num w-40 shrink-0 text-xs text-[var(--muted)]">{formatWhen(m.receivedAt)}</span>
                   <span className="w-56 shrink-0 truncate text-sm">{m.toAddresses.join(', ')}</span>
                   <span className="truncate text-sm font-medium">{m.subject}</span>
                 </button>

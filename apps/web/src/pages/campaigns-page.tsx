@@ -3,7 +3,9 @@
 import { useEffect, useState, type FormEvent } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { campaignCreateSchema, type CampaignStatus } from '@resonote/contracts';
+import { campaignCreateSchema, campaignListFilterLabels, campaignListFilters, type CampaignListFilter, type CampaignStatus } from '@resonote/contracts';
+import { MyInvitations } from '../components/my-invitations.tsx';
+import { formatWhen } from '../lib/format-date.ts';
 import { api, ApiError } from '../lib/api.ts';
 import { useMe } from '../lib/session.ts';
 import { useToast } from '../lib/toast.tsx';
@@ -23,26 +25,39 @@ interface CampaignRow {
   updatedAt: string;
   leads: string[];
   progress: { planned: number; 'in-progress': number; done: number; flagged: number; skipped: number; total: number };
+  archivedAt: string | null;
 }
 
-const listCampaigns = (q: string) => api<{ campaigns: CampaignRow[] }>(`/campaigns${q ? `?q=${encodeURIComponent(q)}` : ''}`);
+const listCampaigns = (q: string, status: CampaignListFilter) => {
+  const params = new URLSearchParams({ status });
+  if (q) params.set('q', q);
+  return api<{ campaigns: CampaignRow[] }>(`/campaigns?${params}`);
+};
+const isFilter = (v: string | null): v is CampaignListFilter => v !== null && (campaignListFilters as readonly string[]).includes(v);
 
 export function CampaignsPage() {
   const me = useMe();
   const [params, setParams] = useSearchParams();
   const q = params.get('q') ?? '';
+  const rawStatus = params.get('status');
+  const status: CampaignListFilter = isFilter(rawStatus) ? rawStatus : 'active';
   const [typed, setTyped] = useState(q);
   const [creating, setCreating] = useState(false);
+  const setFilter = (next: { q?: string; status?: CampaignListFilter }) => {
+    const nq = next.q ?? q;
+    const ns = next.status ?? status;
+    setParams({ ...(nq ? { q: nq } : {}), ...(ns !== 'active' ? { status: ns } : {}) }, { replace: true });
+  };
   useEffect(() => {
     const t = setTimeout(() => {
-      if (typed.trim() !== q) setParams(typed.trim() ? { q: typed.trim() } : {}, { replace: true });
+      if (typed.trim() !== q) setFilter({ q: typed.trim() });
     }, 250);
     return () => clearTimeout(t);
-  }, [typed, q, setParams]);
+  });
 
-  const campaigns = useQuery({ queryKey: ['campaigns', q], queryFn: () => listCampaigns(q) });
+  const campaigns = useQuery({ queryKey: ['campaigns', q, status], queryFn: () => listCampaigns(q, status) });
   // Unfiltered list, to know whether the caller leads any campaign (and so may create one).
-  const all = useQuery({ queryKey: ['campaigns', ''], queryFn: () => listCampaigns('') });
+  const all = useQuery({ queryKey: ['campaigns', '', 'all'], queryFn: () => listCampaigns('', 'all') });
   const isAdmin = me.data?.user.role === 'admin';
   const canCreate = isAdmin || Boolean(all.data?.campaigns.some((c) => c.myRole === 'lead'));
 
@@ -65,27 +80,48 @@ export function CampaignsPage() {
               className="min-h-10 w-72 max-w-full rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm outline-none focus:border-accent focus:ring-2 focus:ring-accent/30"
             />
           </label>
+          <label className="flex flex-col gap-1 text-sm font-medium">
+            <span className="sr-only">Show campaigns</span>
+            <select
+              aria-label="Show campaigns"
+              value={status}
+              onChange={(e) => setFilter({ status: e.target.value as CampaignListFilter })}
+              className="min-h-10 rounded-md border border-[var(--line)] bg-[var(--panel)] px-2 text-sm"
+            >
+              {campaignListFilters.map((f) => (
+                <option key={f} value={f}>
+                  {campaignListFilterLabels[f]}
+                </option>
+              ))}
+            </select>
+          </label>
           {canCreate && !creating && <Button onClick={() => setCreating(true)}>New campaign</Button>}
         </div>
       </div>
+      <MyInvitations />
       {creating && <NewCampaignForm onClose={() => setCreating(false)} />}
       <Panel>
         {campaigns.isPending && <Spinner label="Loading campaigns…" />}
         {campaigns.isError && <Notice tone="error">The campaigns could not be loaded: {campaigns.error.message}</Notice>}
         {campaigns.data && campaigns.data.campaigns.length === 0 && (
           <div className="py-10 text-center" data-testid="campaigns-empty">
-            {q ? (
+            {q || status !== 'active' ? (
               <>
-                <p className="text-base font-medium">No campaign matches “{q}”</p>
-                <p className="mt-1 text-sm text-[var(--muted)]">Search looks at the name, the structure and the client.</p>
+                <p className="text-base font-medium">{q ? `No campaign matches “${q}”` : `No campaigns under “${campaignListFilterLabels[status]}”`}</p>
+                <p className="mt-1 text-sm text-[var(--muted)]">
+                  {q ? 'Search looks at the name, the structure and the client. ' : ''}
+                  {status !== 'all' ? 'Choose “All” to see every campaign, archived ones too.' : ''}
+                </p>
               </>
             ) : (
               <>
                 <p className="text-base font-medium">No campaigns yet</p>
-                <p className="mx-auto mt-1 max-w-md text-sm text-[var(--muted)]">
+                <p className="mx-auto mt-1 max-w-md text-sm text-[var(--muted)]" data-testid="next-step">
                   {isAdmin
                     ? 'As admin you see every campaign of this instance once one exists. Use “New campaign” to start one.'
-                    : 'A test lead adds you to a campaign with a role: lead, engineer or viewer. Ask your lead for an invitation.'}
+                    : canCreate
+                      ? 'Use “New campaign” to start one; you will be its lead and can add your team on its Plan tab.'
+                      : `A test lead adds you to a campaign with a role (lead, engineer or viewer). Ask your lead to add ${me.data?.user.email ?? 'your address'} on the campaign's Plan tab, or to send you an invitation; it shows above as soon as it is sent. Only admins and leads start new campaigns.`}
                 </p>
               </>
             )}
@@ -116,6 +152,7 @@ export function CampaignsPage() {
                     <td className="py-2.5 pr-3">{c.client || '—'}</td>
                     <td className="py-2.5 pr-3">
                       <CampaignStatusBadge status={c.status} />
+                      {c.archivedAt && <span className="ml-1.5 rounded border border-[var(--line)] px-1.5 py-0.5 text-xs" title={`Archived on ${formatWhen(c.archivedAt, 'date')}: read-only`}>Archived</span>}
                     </td>
                     <td className="py-2.5 pr-3">
                       <ProgressBar done={c.progress.done} total={c.progress.total} />

@@ -8,6 +8,7 @@ import { roleLabel } from '../lib/campaign-data.ts';
 import { useToast } from '../lib/toast.tsx';
 import { Button, Notice, Spinner } from '../components/ui.tsx';
 import { AuthLayout } from './auth/auth-layout.tsx';
+import { formatWhen } from '../lib/format-date.ts';
 
 interface InvitationView {
   campaignName: string;
@@ -77,7 +78,7 @@ export function InvitationPage() {
           <dt className="text-[var(--muted)]">For</dt>
           <dd>{inv.email}</dd>
           <dt className="text-[var(--muted)]">Valid until</dt>
-          <dd className="num">{new Date(inv.expiresAt).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })}</dd>
+          <dd className="num">{formatWhen(inv.expiresAt, 'date')}</dd>
         </dl>
         {error && <Notice tone="error">{error}</Notice>}
         {sameAddress && (

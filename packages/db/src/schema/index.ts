@@ -11,3 +11,5 @@ export * from './bridge.ts';
 export * from './jobs.ts';
 export * from './fe-model.ts';
 export * from './lab.ts';
+export * from './campaign-archive.ts';
+export * from './schedule-extra.ts';

@@ -8,6 +8,7 @@ import { useToast } from '../../lib/toast.tsx';
 import { parseRecipients } from '../../lib/transfer.ts';
 import { Button } from '../ui.tsx';
 import { NumberField, Select, TextArea } from '../form-controls.tsx';
+import { formatWhen } from '../../lib/format-date.ts';
 
 type ShareMode = 'report-link' | 'viewer-invitation';
 interface ShareAnswer {
@@ -38,7 +39,7 @@ export function SharePanel({ campaignId }: { campaignId: string }) {
       const n = answer.sent?.length ?? 0;
       const what = answer.mode === 'viewer-invitation' ? 'Viewer invitation' : 'Report link';
       const skipped = answer.skipped?.length ? ` Not sent to ${answer.skipped.map((x) => `${x.email} (${x.reason})`).join(', ')}.` : '';
-      toast(n ? 'ok' : 'info', `${what} sent to ${n} recipient${n === 1 ? '' : 's'}${answer.expiresAt ? `; it expires on ${new Date(answer.expiresAt).toLocaleDateString()}` : ''}.${skipped}`);
+      toast(n ? 'ok' : 'info', `${what} sent to ${n} recipient${n === 1 ? '' : 's'}${answer.expiresAt ? `; it expires on ${formatWhen(answer.expiresAt, 'date')}` : ''}.${skipped}`);
       setRecipients('');
       setMessage('');
       setTouched(false);

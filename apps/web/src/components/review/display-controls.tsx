@@ -1,4 +1,4 @@
-// How FRFs are shown on Review: view, FRF kind, dB or linear magnitude, log or linear frequency.
+// How FRFs are shown on Review: view, FRF kind, dB or linear magnitude, wrapped or unwrapped phase, log or linear frequency.
 import type { ReactNode } from 'react';
 import type { FrfView } from '../../lib/frf-figure.ts';
 import { frfKindLabel, frfUnit, type FrfKind } from '../../lib/frf-math.ts';
@@ -57,6 +57,18 @@ export function DisplayControls({ value, onChange }: { value: FrfDisplay; onChan
           ]}
           onChange={(v) => onChange({ ...value, db: v === 'db' })}
           testId="magnitude-choice"
+        />
+      )}
+      {value.view === 'magphase' && (
+        <Segmented
+          label="Phase"
+          value={value.unwrap ? 'unwrapped' : 'wrapped'}
+          options={[
+            ['wrapped', '±180°'],
+            ['unwrapped', 'Unwrapped'],
+          ]}
+          onChange={(v) => onChange({ ...value, unwrap: v === 'unwrapped' })}
+          testId="phase-choice"
         />
       )}
       {value.view !== 'nyquist' && (

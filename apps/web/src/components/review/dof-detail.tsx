@@ -9,6 +9,7 @@ import { HitList } from '../tap/hit-list.tsx';
 import { HitPlots } from '../tap/hit-plots.tsx';
 import { ReasonList, VerdictBadge } from '../tap/verdict.tsx';
 import { DofNotesSection } from '../notes/dof-notes.tsx';
+import { formatWhen } from '../../lib/format-date.ts';
 
 export function DofDetail({ campaignId, entry, display }: { campaignId: string; entry: ScheduleEntry; display: FrfDisplay }) {
   const frf = useEntryFrf(campaignId, entry.id, display.kind);
@@ -45,7 +46,7 @@ export function DofDetail({ campaignId, entry, display }: { campaignId: string; 
           <div className="flex flex-wrap items-center gap-2">
             <h4 className="num text-sm font-semibold">Hit {chosen.sequence}</h4>
             <VerdictBadge verdict={chosen.verdict} overridden={chosen.overridden} />
-            <span className="text-xs text-[var(--muted)]">{chosen.recordedBy ? `by ${chosen.recordedBy}, ` : ''}{new Date(chosen.recordedAt).toLocaleString()}</span>
+            <span className="text-xs text-[var(--muted)]">{chosen.recordedBy ? `by ${chosen.recordedBy}, ` : ''}{formatWhen(chosen.recordedAt)}</span>
           </div>
           <ReasonList hit={chosen} compact />
           <HitPlots campaignId={campaignId} hitId={chosen.id} compact />

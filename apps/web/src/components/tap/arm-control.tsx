@@ -6,6 +6,7 @@ import { useState } from 'react';
 import { api } from '../../lib/api.ts';
 import { useFailure } from '../../lib/mutation.ts';
 import { Button, Notice, Spinner } from '../ui.tsx';
+import { formatWhen } from '../../lib/format-date.ts';
 
 interface Armed {
   userId: string;
@@ -63,7 +64,7 @@ export function ArmControl({ campaignId, entryId, label, canAct }: { campaignId:
           {arming.data.armed.length === 0 && <li>No one has armed a DOF.</li>}
           {arming.data.armed.map((a) => (
             <li key={a.userId} className="num">
-              {a.name}: {a.excitationDof} → {a.responseDof} since {new Date(a.armedAt).toLocaleTimeString()}
+              {a.name}: {a.excitationDof} → {a.responseDof} since {formatWhen(a.armedAt, 'time')}
             </li>
           ))}
         </ul>

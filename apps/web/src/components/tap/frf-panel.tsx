@@ -13,6 +13,8 @@ export interface FrfDisplay {
   kind: FrfKind;
   db: boolean;
   logF: boolean;
+  /** Unwrapped phase (continuous through ±180°) instead of wrapped. */
+  unwrap?: boolean;
 }
 
 export function FrfPlot({ frf, display, height = 460, showH2 = false, uirevision }: { frf: FrfAnswer; display: FrfDisplay; height?: number; showH2?: boolean; uirevision?: string }) {

@@ -5,6 +5,7 @@ import { roleLabel, useCampaign } from '../../lib/campaign-data.ts';
 import { Notice, Spinner } from '../../components/ui.tsx';
 import { CampaignStatusBadge } from '../../components/status.tsx';
 import type { CampaignContext } from './campaign-context.ts';
+import { ArchivedBanner } from './campaign-lifecycle.tsx';
 
 const tabs = [
   { to: '', label: 'Overview', end: true },
@@ -36,7 +37,9 @@ export function CampaignLayout() {
     return <Notice tone="error">The campaign could not be loaded: {query.error.message}</Notice>;
   }
   const { campaign, myRole } = query.data;
-  const context: CampaignContext = { campaign, myRole, canLead: myRole === 'lead' || myRole === 'admin' };
+  const isLead = myRole === 'lead' || myRole === 'admin';
+  const archived = Boolean(campaign.archivedAt);
+  const context: CampaignContext = { campaign, myRole, isLead, archived, canLead: isLead && !archived };
 
   return (
     <div className="space-y-4">
@@ -60,6 +63,7 @@ export function CampaignLayout() {
               <dt className="text-xs text-[var(--muted)]">Status</dt>
               <dd>
                 <CampaignStatusBadge status={campaign.status} />
+                {archived && <span className="ml-2 rounded border border-[var(--line)] px-1.5 py-0.5 text-xs">Archived</span>}
               </dd>
             </div>
             <div>
@@ -83,6 +87,7 @@ export function CampaignLayout() {
           ))}
         </nav>
       </header>
+      {archived && <ArchivedBanner campaign={campaign} isLead={isLead} />}
       <Outlet context={context} />
     </div>
   );

@@ -11,7 +11,8 @@ import { useCampaignContext } from './campaign-context.ts';
 
 export function HandoverPage() {
   const { campaignId = '' } = useParams();
-  const { canLead } = useCampaignContext();
+  // Exports and sharing only read the campaign, so a lead has them on an archived campaign too.
+  const { isLead: canLead } = useCampaignContext();
 
   return (
     <div className="space-y-4" data-testid="handover">

@@ -21,6 +21,7 @@ import { CorrelationPanel } from '../../components/model/correlation-panel.tsx';
 import { SynthesisPlot } from '../../components/modes/synthesis-plot.tsx';
 import { ModeAnimation } from '../../components/modes/mode-animation.tsx';
 import { useCampaignContext } from './campaign-context.ts';
+import { formatWhen } from '../../lib/format-date.ts';
 
 export function ModesPage() {
   const { campaignId = '' } = useParams();
@@ -214,7 +215,7 @@ function FitPicker({ fits, value, onChange }: { fits: FitSummary[]; value: strin
       <select id="fit-picker" className="num min-h-9 rounded-md border border-[var(--line)] bg-[var(--panel)] px-2 text-sm" value={value ?? ''} onChange={(e) => onChange(e.target.value)}>
         {fits.map((f) => (
           <option key={f.id} value={f.id}>
-            {f.bandHz[0]}–{f.bandHz[1]} Hz · order ≤ {f.maxOrder} · {f.frfCount} FRFs · {new Date(f.createdAt).toLocaleString()} · {f.status}
+            {f.bandHz[0]}–{f.bandHz[1]} Hz · order ≤ {f.maxOrder} · {f.frfCount} FRFs · {formatWhen(f.createdAt)} · {f.status}
             {f.modeCount ? ` · ${f.modeCount} shapes` : ''}
           </option>
         ))}

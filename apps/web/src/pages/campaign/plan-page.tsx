@@ -11,6 +11,7 @@ import { GeometryImport } from './plan/geometry-import.tsx';
 import { ScheduleList } from './plan/schedule-list.tsx';
 import { MembersCard } from './plan/members-card.tsx';
 import { ModelSection } from './plan/model-section.tsx';
+import { LifecycleCard } from './campaign-lifecycle.tsx';
 
 export function PlanPage() {
   const { campaignId = '' } = useParams();
@@ -53,6 +54,7 @@ export function PlanPage() {
       {members.isPending && <Spinner label="Loading the members…" />}
       {members.isError && <Notice tone="error">The members could not be loaded: {members.error.message}</Notice>}
       {members.data && <MembersCard campaignId={campaignId} members={members.data.members} canLead={canLead} />}
+      {canLead && <LifecycleCard campaign={campaign} />}
     </div>
   );
 }

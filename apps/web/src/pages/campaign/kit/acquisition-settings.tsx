@@ -3,7 +3,7 @@
 // history lists what each version changed. Others see the values only.
 import { useMemo, useState, type FormEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
-import { acquisitionSettingsSchema, type AcquisitionSettings } from '@resonote/contracts';
+import { acquisitionSettingsSchema, settingsChangeInWords, type AcquisitionSettings } from '@resonote/contracts';
 import { api } from '../../../lib/api.ts';
 import { keys, type SettingsAnswer } from '../../../lib/campaign-data.ts';
 import { issuesToErrors, numberOrUndefined, type FieldErrors } from '../../../lib/forms.ts';
@@ -11,6 +11,7 @@ import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Panel } from '../../../components/ui.tsx';
 import { NumberField, Select } from '../../../components/form-controls.tsx';
+import { formatWhen } from '../../../lib/format-date.ts';
 
 interface Spec {
   path: string;
@@ -60,12 +61,6 @@ function set(o: Record<string, unknown>, path: string, value: unknown) {
   cur[parts.at(-1)!] = value;
 }
 const fmtValue = (v: unknown) => (v === null || v === undefined ? '—' : typeof v === 'object' ? JSON.stringify(v) : String(v));
-const unitOf = (field: string) => {
-  if (field === 'exponentialWindow.tauS') return 's';
-  if (field === 'exponentialWindow.endLevelPercent') return '%';
-  for (const g of groups) for (const f of g.fields) if (f.path === field) return f.unit;
-  return '';
-};
 
 export function AcquisitionSettingsCard({ campaignId, data, canLead }: { campaignId: string; data: SettingsAnswer; canLead: boolean }) {
   const cur = data.current;
@@ -278,16 +273,14 @@ function History({ history }: { history: SettingsAnswer['history'] }) {
           <li key={h.version} className="rounded-md border border-[var(--line)] px-3 py-2">
             <div className="flex flex-wrap gap-x-3 text-xs text-[var(--muted)]">
               <span className="num font-semibold text-[var(--ink)]">Version {h.version}</span>
-              <span className="num">{new Date(h.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</span>
+              <span className="num">{formatWhen(h.createdAt)}</span>
               <span>{h.createdBy ?? 'unknown'}</span>
             </div>
             <p className="mt-0.5">{h.reason || <span className="text-[var(--muted)]">No reason given.</span>}</p>
             {h.changes.length > 0 && (
               <ul className="num mt-1 space-y-0.5 text-xs">
                 {h.changes.map((c) => (
-                  <li key={c.field}>
-                    {c.field}: {fmtValue(c.before)} → {fmtValue(c.after)} {unitOf(c.field)}
-                  </li>
+                  <li key={c.field}>{settingsChangeInWords(c)}</li>
                 ))}
               </ul>
             )}

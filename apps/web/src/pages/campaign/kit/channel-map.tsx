@@ -2,7 +2,7 @@
 // and its sign. Leads add, edit and remove rows.
 import { useState, type FormEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
-import { channelCreateSchema, channelPatchSchema } from '@resonote/contracts';
+import { channelCreateSchema, channelPatchSchema, kitModelName } from '@resonote/contracts';
 import { api } from '../../../lib/api.ts';
 import { keys, type Channel, type KitItem } from '../../../lib/campaign-data.ts';
 import { issuesToErrors, numberOrUndefined, type FieldErrors } from '../../../lib/forms.ts';
@@ -145,7 +145,7 @@ function ChannelForm({ campaignId, items, channel, nextNumber, onClose }: { camp
         <select form={form} aria-label="Sensor" value={itemId} onChange={(e) => setItemId(e.target.value)} className={cell}>
           {items.map((i) => (
             <option key={i.id} value={i.id}>
-              {i.kind === 'hammer' ? 'Hammer' : 'Accel.'} {i.model} SN {i.serial}
+              {kitModelName(i.kind, i.model)} SN {i.serial}
             </option>
           ))}
         </select>

@@ -1,5 +1,6 @@
-// CSV import of points (label,x,y,z in mm; optional directions): drop or pick a file, check the
-// preview, import all or nothing; the server's row-numbered problems are listed when it refuses.
+// CSV import of points (label,x,y,z in mm; optional directions): drop or pick a file; the server
+// checks it at once (…/geometry/import/check) so the preview marks the bad rows before Import; the
+// import is all or nothing unless the lead ticks "import the good rows only" (badRows: 'skip').
 import { useRef, useState, type DragEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { MAX_IMPORT_BYTES } from '@resonote/contracts';
@@ -13,6 +14,15 @@ interface Loaded {
   text: string;
   rows: string[][];
   count: number;
+}
+
+interface CheckAnswer {
+  ok: boolean;
+  rows: number;
+  goodRows: number;
+  badRows: number;
+  message: string | null;
+  problems: { line: number; message: string }[];
 }
 
 function preview(text: string): { rows: string[][]; count: number } {
@@ -30,6 +40,8 @@ export function GeometryImport({ campaignId }: { campaignId: string }) {
   const [over, setOver] = useState(false);
   const [problems, setProblems] = useState<{ message: string; lines: { line: number; message: string }[] }>();
   const [busy, setBusy] = useState(false);
+  const [check, setCheck] = useState<CheckAnswer | { failed: string }>();
+  const [skipBad, setSkipBad] = useState(false);
 
   async function load(f: File | undefined) {
     if (!f) return;
@@ -41,7 +53,17 @@ export function GeometryImport({ campaignId }: { campaignId: string }) {
     }
     const text = await f.text();
     setFile({ name: f.name, text, ...preview(text) });
+    setSkipBad(false);
+    setCheck(undefined);
+    try {
+      setCheck(await api<CheckAnswer>(`/campaigns/${campaignId}/geometry/import/check`, { body: { csv: text } }));
+    } catch (err) {
+      setCheck({ failed: err instanceof ApiError ? err.message : 'The file could not be checked.' });
+    }
   }
+  const checked = check && !('failed' in check) ? check : undefined;
+  const importCount = checked && !checked.ok && skipBad ? checked.goodRows : (file?.count ?? 0);
+
   function drop(event: DragEvent) {
     event.preventDefault();
     setOver(false);
@@ -52,10 +74,11 @@ export function GeometryImport({ campaignId }: { campaignId: string }) {
     setBusy(true);
     setProblems(undefined);
     try {
-      const r = await api<{ added: number; updated: number; removed: number; retired: number; total: number }>(`/campaigns/${campaignId}/geometry/import`, { body: { csv: file.text, mode } });
+      const r = await api<{ added: number; updated: number; removed: number; retired: number; total: number; skippedRows: number }>(`/campaigns/${campaignId}/geometry/import`, { body: { csv: file.text, mode, badRows: skipBad ? 'skip' : 'refuse' } });
       await Promise.all([client.invalidateQueries({ queryKey: keys.points(campaignId) }), client.invalidateQueries({ queryKey: keys.schedule(campaignId) })]);
-      toast('ok', `Imported ${file.name}: ${r.added} added, ${r.updated} updated, ${r.removed} removed${r.retired ? `, ${r.retired} retired (they have hits)` : ''}.`);
+      toast('ok', `Imported ${file.name}: ${r.added} added, ${r.updated} updated, ${r.removed} removed${r.retired ? `, ${r.retired} retired (they have hits)` : ''}${r.skippedRows ? `; ${r.skippedRows} bad row${r.skippedRows === 1 ? '' : 's'} skipped` : ''}.`);
       setFile(undefined);
+      setCheck(undefined);
       if (input.current) input.current.value = '';
     } catch (err) {
       if (err instanceof ApiError) {
@@ -100,19 +123,50 @@ export function GeometryImport({ campaignId }: { campaignId: string }) {
             <div className="overflow-x-auto">
               <table className="num text-xs">
                 <tbody>
-                  {file.rows.map((r, i) => (
-                    <tr key={i} className={i === 0 ? 'font-semibold' : 'border-t border-[var(--line)]'}>
-                      <td className="pr-3 text-[var(--muted)]">{i + 1}</td>
-                      {r.map((c, j) => (
-                        <td key={j} className="pr-4 py-0.5">
-                          {c}
+                  {file.rows.map((r, i) => {
+                    const problem = checked?.problems.find((p) => p.line === i + 1);
+                    return (
+                      <tr key={i} className={`${i === 0 ? 'font-semibold' : 'border-t border-[var(--line)]'} ${problem ? 'bg-bad/8 text-bad' : ''}`} data-bad-row={problem ? i + 1 : undefined}>
+                        <td className="pr-3 text-[var(--muted)]">{i + 1}</td>
+                        <td className="w-4 pr-1" aria-label={problem ? 'bad row' : undefined}>
+                          {problem ? '✕' : ''}
                         </td>
-                      ))}
-                    </tr>
-                  ))}
+                        {r.map((c, j) => (
+                          <td key={j} className="pr-4 py-0.5">
+                            {c}
+                          </td>
+                        ))}
+                        <td className="font-sans">{problem?.message}</td>
+                      </tr>
+                    );
+                  })}
                 </tbody>
               </table>
             </div>
+            {check && 'failed' in check && <Notice tone="error">{check.failed}</Notice>}
+            {checked && checked.ok && <p className="text-sm text-ok" data-testid="csv-check">✓ Every row reads well: {checked.rows} point{checked.rows === 1 ? '' : 's'}.</p>}
+            {checked && !checked.ok && (
+              <div className="space-y-2 rounded-md border border-bad/40 bg-bad/8 px-3 py-2 text-sm" data-testid="csv-check">
+                <p className="font-medium text-bad">
+                  ✕ {checked.goodRows > 0 ? `${checked.badRows} of ${checked.rows} rows have a problem; ${checked.goodRows} are good.` : checked.message}
+                </p>
+                {checked.problems.length > 0 && (
+                  <ul className="num max-h-40 list-none space-y-0.5 overflow-y-auto text-xs">
+                    {checked.problems.map((p, i) => (
+                      <li key={i}>
+                        <span className="font-semibold">Line {p.line}:</span> <span className="font-sans">{p.message}</span>
+                      </li>
+                    ))}
+                  </ul>
+                )}
+                {checked.goodRows > 0 && (
+                  <label className="flex items-center gap-2">
+                    <input type="checkbox" checked={skipBad} onChange={(e) => setSkipBad(e.target.checked)} disabled={mode === 'replace'} data-testid="skip-bad-rows" />
+                    Import the {checked.goodRows} good rows only and skip the bad ones{mode === 'replace' ? ' (merge only: replace would delete the points of skipped rows)' : ''}
+                  </label>
+                )}
+              </div>
+            )}
             <fieldset className="flex flex-wrap gap-4 text-sm">
               <legend className="sr-only">Import mode</legend>
               <label className="flex items-center gap-2">
@@ -123,10 +177,16 @@ export function GeometryImport({ campaignId }: { campaignId: string }) {
               </label>
             </fieldset>
             <div className="flex gap-2">
-              <Button onClick={submit} disabled={busy}>
-                {busy ? 'Importing…' : `Import ${file.count} point${file.count === 1 ? '' : 's'}`}
+              <Button onClick={submit} disabled={busy || !checked || (!checked.ok && !(skipBad && mode === 'merge' && checked.goodRows > 0))}>
+                {busy ? 'Importing…' : `Import ${importCount} point${importCount === 1 ? '' : 's'}`}
               </Button>
-              <Button variant="ghost" onClick={() => setFile(undefined)}>
+              <Button
+                variant="ghost"
+                onClick={() => {
+                  setFile(undefined);
+                  setCheck(undefined);
+                }}
+              >
                 Discard
               </Button>
             </div>

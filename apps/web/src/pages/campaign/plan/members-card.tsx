@@ -3,7 +3,7 @@
 import { useState, type FormEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { campaignRoles, invitationCreateSchema, type CampaignRole } from '@resonote/contracts';
-import { api } from '../../../lib/api.ts';
+import { api, ApiError } from '../../../lib/api.ts';
 import { keys, roleLabel, useInvitations, type Member } from '../../../lib/campaign-data.ts';
 import { issuesToErrors, type FieldErrors } from '../../../lib/forms.ts';
 import { useFailure } from '../../../lib/mutation.ts';
@@ -11,6 +11,7 @@ import { useMe } from '../../../lib/session.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../../../components/ui.tsx';
 import { Select } from '../../../components/form-controls.tsx';
+import { formatWhen } from '../../../lib/format-date.ts';
 
 const roleOptions = campaignRoles.map((r) => [r, roleLabel[r]] as [string, string]);
 
@@ -49,17 +50,26 @@ export function MembersCard({ campaignId, members, canLead }: { campaignId: stri
     event.preventDefault();
     const el = event.currentTarget;
     const f = new FormData(el);
+    // Two buttons: add an account that exists here at once, or mail an invitation link.
+    const direct = ((event.nativeEvent as SubmitEvent).submitter as HTMLButtonElement | null)?.value === 'add';
     const parsed = invitationCreateSchema.safeParse({ email: String(f.get('email') ?? ''), role: f.get('role') });
     if (!parsed.success) return setErrors(issuesToErrors(parsed.error));
     setErrors({});
     setBusy(true);
     try {
-      await api(`/campaigns/${campaignId}/invitations`, { body: parsed.data });
-      await client.invalidateQueries({ queryKey: keys.invitations(campaignId) });
-      toast('ok', `Invitation sent to ${parsed.data.email} as ${roleLabel[parsed.data.role].toLowerCase()}.`);
+      if (direct) {
+        const added = await api<{ member: { name: string } }>(`/campaigns/${campaignId}/members`, { body: parsed.data });
+        await Promise.all([refresh(), client.invalidateQueries({ queryKey: keys.invitations(campaignId) })]);
+        toast('ok', `${added.member.name} added as ${roleLabel[parsed.data.role].toLowerCase()}.`);
+      } else {
+        await api(`/campaigns/${campaignId}/invitations`, { body: parsed.data });
+        await client.invalidateQueries({ queryKey: keys.invitations(campaignId) });
+        toast('ok', `Invitation sent to ${parsed.data.email} as ${roleLabel[parsed.data.role].toLowerCase()}.`);
+      }
       el.reset();
     } catch (err) {
-      fail(err);
+      if (err instanceof ApiError && err.code === 'no-account') setErrors({ email: err.message });
+      else fail(err);
     } finally {
       setBusy(false);
     }
@@ -109,12 +119,18 @@ export function MembersCard({ campaignId, members, canLead }: { campaignId: stri
       </ul>
       {canLead && (
         <div className="mt-4 space-y-3 border-t border-[var(--line)] pt-3">
-          <form onSubmit={invite} noValidate className="grid items-start gap-3 sm:grid-cols-[1fr_10rem_auto]" aria-label="Invite someone">
-            <Field id="invite-email" name="email" type="email" label="Invite by e-mail" placeholder="name@lab.example" error={errors.email} />
+          <form onSubmit={invite} noValidate className="grid items-start gap-3 sm:grid-cols-[1fr_10rem]" aria-label="Add or invite someone">
+            <Field id="invite-email" name="email" type="email" label="E-mail address" placeholder="name@lab.example" error={errors.email} />
             <Select id="invite-role" name="role" label="Role" options={roleOptions} defaultValue="engineer" error={errors.role} />
-            <Button type="submit" disabled={busy} className="sm:mt-6">
-              {busy ? 'Sending…' : 'Invite'}
-            </Button>
+            <div className="flex flex-wrap items-center gap-2 sm:col-span-2">
+              <Button type="submit" name="mode" value="add" disabled={busy}>
+                Add now
+              </Button>
+              <Button type="submit" name="mode" value="invite" variant="secondary" disabled={busy}>
+                {busy ? 'Working…' : 'Send invitation'}
+              </Button>
+              <span className="text-xs text-[var(--muted)]">“Add now” needs an account with this address here; an invitation mails a link to sign up or join, and shows in the app once they sign in.</span>
+            </div>
           </form>
           <div>
             <h3 className="mb-1 text-sm font-semibold">Open invitations</h3>
@@ -127,7 +143,7 @@ export function MembersCard({ campaignId, members, canLead }: { campaignId: stri
                   <li key={i.id} className="flex flex-wrap items-center gap-2 py-1.5">
                     <span className="min-w-0 flex-1 truncate">{i.email}</span>
                     <span className="text-xs">{roleLabel[i.role]}</span>
-                    <span className="num text-xs text-[var(--muted)]">until {new Date(i.expiresAt).toISOString().slice(0, 10)}</span>
+                    <span className="num text-xs text-[var(--muted)]">until {formatWhen(i.expiresAt, 'date')}</span>
                     <Button variant="ghost" className="px-2" onClick={() => void withdraw(i.id, i.email)}>
                       Withdraw
                     </Button>

@@ -12,6 +12,7 @@ import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../../../components/ui.tsx';
 import { MatrixHeatmap } from '../../../components/model/matrix-heatmap.tsx';
+import { formatWhen } from '../../../lib/format-date.ts';
 
 const where = (p: FeProblem) => (p.row !== null ? `line ${p.row}${p.column ? `, ${p.column}` : ''}` : (p.path ?? 'the file'));
 
@@ -427,7 +428,7 @@ export function ModelSection({ campaignId, campaign, canLead }: { campaignId: st
                       {m.fileUnits.length}, {m.fileUnits.frequency}, {m.fileUnits.mass}
                     </td>
                     <td className="pr-4">{m.normalisation === 'mass' ? 'mass-normalised' : 'any scale'}</td>
-                    <td className="num pr-4">{new Date(m.uploadedAt).toLocaleString()}</td>
+                    <td className="num pr-4">{formatWhen(m.uploadedAt)}</td>
                     <td className="whitespace-nowrap">
                       <a className="text-sm text-accent-strong hover:underline" href={`/api/campaigns/${campaignId}/fe-models/${m.id}/source`}>
                         File

@@ -58,6 +58,19 @@ export function ScheduleList({ campaignId, entries, members, canLead }: { campai
     }
   }
   const assignable = members.filter((m) => m.role !== 'viewer');
+  const pairs = new Set(entries.map((e) => `${e.responseDof}|${e.excitationDof}`));
+  async function addReciprocal(entry: ScheduleEntry) {
+    setBusy(true);
+    try {
+      const r = await api<{ entry: ScheduleEntry }>(`/campaigns/${campaignId}/schedule/${entry.id}/reciprocal`, { body: {} });
+      put([...entries, r.entry]);
+      toast('ok', `Added ${r.entry.responseDof} / ${r.entry.excitationDof} at the end: with ${entry.responseDof} / ${entry.excitationDof} it makes a reciprocity pair for Review.`);
+    } catch (err) {
+      fail(err, [keys.schedule(campaignId)]);
+    } finally {
+      setBusy(false);
+    }
+  }
 
   return (
     <Panel
@@ -139,6 +152,23 @@ export function ScheduleList({ campaignId, entries, members, canLead }: { campai
                   </td>
                   {canLead && (
                     <td className="py-1 text-right whitespace-nowrap">
+                      {!e.drivingPoint && !pairs.has(`${e.excitationDof}|${e.responseDof}`) && (
+                        <button
+                          type="button"
+                          disabled={busy}
+                          onClick={() => void addReciprocal(e)}
+                          className="mr-1 h-10 rounded-md border border-[var(--line)] px-2 text-xs hover:border-accent disabled:opacity-30"
+                          title={`Add ${e.excitationDof} / ${e.responseDof}, the reciprocal, for a reciprocity check`}
+                          aria-label={`Add the reciprocal of ${e.responseDof} / ${e.excitationDof}`}
+                        >
+                          ⇄ reciprocal
+                        </button>
+                      )}
+                      {pairs.has(`${e.excitationDof}|${e.responseDof}`) && !e.drivingPoint && (
+                        <span className="mr-2 text-xs text-[var(--muted)]" title="The reciprocal entry is in the schedule">
+                          ⇄ pair
+                        </span>
+                      )}
                       <button type="button" disabled={busy || i === 0} onClick={() => void move(i, -1)} className="h-10 w-10 rounded-md border border-[var(--line)] hover:border-accent disabled:opacity-30" aria-label={`Move ${e.responseDof} / ${e.excitationDof} up`}>
                         ↑
                       </button>
