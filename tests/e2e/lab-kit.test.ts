@@ -161,6 +161,10 @@ describe('calibration and notes at the structure', () => {
     await page.goto(`${app.baseUrl}/campaigns/${crew.campaignId}/tap`);
     await page.waitForURL(/\/tap\?entry=/);
     const entryId = new URL(page.url()).searchParams.get('entry')!;
+    // The calibration banner (the seeded accelerometer is overdue) arrives with its own query and
+    // moves the header down: wait for it so the click lands on the button.
+    await expect(page.getByTestId('calibration-banner')).toBeDefinedAndVisible();
+    await settled(page);
     const button = page.getByTestId('notes-button');
     await expect(button).toBeDefinedAndVisible();
     expect(await button.textContent()).toMatch(/Notes \(0\)/);
