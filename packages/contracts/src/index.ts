@@ -17,3 +17,4 @@ export * from './team.ts';
 export * from './settings-patch.ts';
 export * from './settings-words.ts';
 export * from './kit-name.ts';
+export * from './fit-selection.ts';

@@ -29,6 +29,7 @@ import { checkGeometryAgainstModel } from '../fe/geometry-check.ts';
 import { proposePlan } from '../fe/proposal.ts';
 import { correlate, testModesForCorrelation } from '../fe/correlation.ts';
 import { generateSchedule } from '../plan/schedule-generate.ts';
+import { moveReferenceChannel } from '../fe/reference-channel.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
 
 const uniqueViolation = (err: unknown) => (err as { code?: string; cause?: { code?: string } })?.code === '23505' || (err as { cause?: { code?: string } })?.cause?.code === '23505';
@@ -271,9 +272,9 @@ export function registerFeModelRoutes({ routes, db }: Deps): void {
     path: '/campaigns/:campaignId/fe-models/:modelId/proposal/accept',
     tag: 'Model',
     access: 'lead',
-    summary: "Accept a plan: points missing from the geometry are created at their model node's coordinates, each gets the chosen directions, the reference DOF is set, points are linked to their nodes, and the schedule is generated. One transaction, audited",
+    summary: "Accept a plan: points missing from the geometry are created at their model node's coordinates, each gets the chosen directions, the reference DOF is set (in a roving-hammer test the accelerometer channel at the former reference moves with it), points are linked to their nodes, and the schedule is generated. One transaction, audited",
     body: feAcceptSchema,
-    returns: '{ pointsAdded, pointsUpdated, referenceDofs, schedule: { added, removed, kept }, entries }',
+    returns: '{ pointsAdded, pointsUpdated, referenceDofs, schedule: { added, removed, kept }, channelsMoved: [{ channel, from, to }], channelNote, entries }',
     handler: async ({ body, params, campaign: access, user: me }) => {
       const result = await db.transaction(async (tx) => {
         const [c] = await tx.select().from(campaign).where(eq(campaign.id, access.campaignId)).for('update');
@@ -316,10 +317,11 @@ export function registerFeModelRoutes({ routes, db }: Deps): void {
         const refLabel = `${pointBy.get(refPoint)?.label ?? nodeBy.get(refPoint)!.label}:${parseDof(body.reference.trim()).direction}`;
         await tx.update(campaign).set({ referenceDofs: [refLabel], version: c!.version + 1, updatedAt: new Date() }).where(eq(campaign.id, c!.id));
         await audit(tx, { campaignId: c!.id, actorId: me.id, entity: 'campaign', entityId: c!.id, action: 'update', before: { referenceDofs: c!.referenceDofs }, after: { referenceDofs: [refLabel] } });
+        const channels = await moveReferenceChannel(tx, { campaignId: c!.id, actorId: me.id, testType: c!.testType, before: c!.referenceDofs, next: refLabel });
         await writeLinks(tx, access.campaignId, row.id, links);
         await tx.update(feModel).set({ mapVersion: row.mapVersion + 1 }).where(eq(feModel.id, row.id));
         const schedule = await generateSchedule(tx, access.campaignId, me.id, body.requiredHits);
-        const summary = { pointsAdded, pointsUpdated, referenceDofs: [refLabel], dofs: body.dofs, schedule };
+        const summary = { pointsAdded, pointsUpdated, referenceDofs: [refLabel], dofs: body.dofs, schedule, channelsMoved: channels.moved, channelNote: channels.note };
         await audit(tx, { campaignId: access.campaignId, actorId: me.id, entity: 'fe-model', entityId: row.id, action: 'accept-plan', after: summary });
         return summary;
       });

@@ -14,6 +14,7 @@ import { badRequest, conflict, notFound } from '../errors.ts';
 import { currentSettings } from '../hits/current-settings.ts';
 import { entriesWithAcceptedHits } from '../hits/schedule-status.ts';
 import { entryResult } from '../hits/entry-result.ts';
+import { defaultFitEntries } from '../modes/fit-selection.ts';
 import { exponentialWindowOf } from '../hits/settings-to-dsp.ts';
 import type { FitQueue } from '../modes/jobs.ts';
 import type { FitResult } from '../modes/fit-types.ts';
@@ -27,11 +28,12 @@ const units = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N'
 
 export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void {
   /** The accelerance FRFs (H1) of the chosen entries, one per (response DOF, excitation DOF) pair. */
-  async function frfSetFor(campaignId: string, entryIds: string[] | undefined) {
+  async function frfSetFor(campaignId: string, entryIds: string[] | undefined, every = false) {
     const settings = await currentSettings(db, campaignId);
-    const ids = entryIds?.length
-      ? entryIds
-      : await entriesWithAcceptedHits(db, campaignId);
+    // Without a pick: the current plan's entries with accepted hits, flagged ones left out (modes/fit-selection.ts).
+    // `every`: all FRFs with accepted hits (the synthesis reads any measured FRF).
+    const selection = entryIds?.length || every ? null : await defaultFitEntries(db, campaignId);
+    const ids = entryIds?.length ? entryIds : every ? await entriesWithAcceptedHits(db, campaignId) : selection!.chosen;
     const frfs: FrfSet['frfs'] = [];
     const seen = new Set<string>();
     const hashes: string[] = [];
@@ -57,7 +59,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
         frfs.push({ response, reference, h: k === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) } });
       });
     }
-    return { set: { f: f ?? new Float64Array(0), frfs, kind: 'accelerance' as const }, settings, resultHashes: hashes, entryIds: ids };
+    return { set: { f: f ?? new Float64Array(0), frfs, kind: 'accelerance' as const }, settings, resultHashes: hashes, entryIds: ids, leftOut: selection?.leftOut ?? [] };
   }
 
   async function loadFit(campaignId: string, fitId: string) {
@@ -72,7 +74,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     path: '/campaigns/:campaignId/modes/fits',
     tag: 'Modes',
     access: 'lead',
-    summary: 'Start a modal fit (background job): CMIF and the LSCF stabilization diagram over the chosen FRFs (default: every FRF with accepted hits) and band. An identical request returns the earlier fit',
+    summary: 'Start a modal fit (background job): CMIF and the LSCF stabilization diagram over the chosen FRFs (default: the FRFs of the current plan with accepted hits, flagged ones and ones from an earlier reference left out and listed in leftOut) and band. An identical request returns the earlier fit',
     body: z.strictObject({
       entryIds: z.array(uuidSchema).max(500).optional(),
       bandHz: z.strictObject({ low: z.number().min(0), high: z.number().positive() }).optional(),
@@ -81,10 +83,10 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       tolerances: z.strictObject({ freqPercent: z.number().positive().max(20).default(1), dampingPercent: z.number().positive().max(100).default(5), macPercent: z.number().min(0).max(100).default(98) }).default({ freqPercent: 1, dampingPercent: 5, macPercent: 98 }),
     }),
     status: 202,
-    returns: '{ fit: { id, status, progress } } — poll GET …/modes/fits/:fitId',
+    returns: '{ fit: { id, status, progress }, leftOut: [{ id, responseDof, excitationDof, reason }] } — poll GET …/modes/fits/:fitId',
     handler: async ({ body, res, campaign: access, user: me }) => {
-      const { set, settings, resultHashes, entryIds } = await frfSetFor(access.campaignId, body.entryIds);
-      if (set.frfs.length < 2) throw badRequest(`A modal fit needs at least 2 FRFs with accepted hits; this selection has ${set.frfs.length}.`);
+      const { set, settings, resultHashes, entryIds, leftOut } = await frfSetFor(access.campaignId, body.entryIds);
+      if (set.frfs.length < 2) throw badRequest(`A modal fit needs at least 2 FRFs with accepted hits; this selection has ${set.frfs.length}.${leftOut.length ? ` ${leftOut.length} flagged or earlier-reference FRF${leftOut.length > 1 ? 's were' : ' was'} left out; pick them by name to include them.` : ''}`);
       const band = body.bandHz ?? settings.settings.bandHz;
       if (band.low >= band.high) throw badRequest(`The band ${band.low}–${band.high} Hz is empty.`);
       const lines = Array.from(set.f).filter((x) => x >= band.low && x <= band.high).length;
@@ -97,10 +99,10 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
       const [earlier] = await db.select().from(modalFit).where(and(eq(modalFit.campaignId, access.campaignId), eq(modalFit.inputHash, inputHash), inArray(modalFit.status, ['queued', 'running', 'done']))).orderBy(desc(modalFit.createdAt)).limit(1);
       if (earlier) {
         res.locals.status = 200;
-        return { fit: { id: earlier.id, status: earlier.status, progress: earlier.progress, reused: true } };
+        return { fit: { id: earlier.id, status: earlier.status, progress: earlier.progress, reused: true }, leftOut };
       }
       const [fit] = await db.insert(modalFit).values({ campaignId: access.campaignId, inputHash, request, createdBy: me.id }).returning();
-      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'modal-fit', entityId: fit!.id, action: 'start', after: { bandHz: request.bandHz, orders: `${orders[0]}–${orders.at(-1)}`, frfs: set.frfs.length } });
+      await audit(db, { campaignId: access.campaignId, actorId: me.id, entity: 'modal-fit', entityId: fit!.id, action: 'start', after: { bandHz: request.bandHz, orders: `${orders[0]}–${orders.at(-1)}`, frfs: set.frfs.length, leftOut: leftOut.map((e) => ({ entryId: e.id, reason: e.reason })) } });
       queue.enqueue(fit!.id, {
         f: set.f,
         kind: set.kind,
@@ -109,7 +111,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
         orders,
         tolerances,
       });
-      return { fit: { id: fit!.id, status: fit!.status, progress: fit!.progress, reused: false } };
+      return { fit: { id: fit!.id, status: fit!.status, progress: fit!.progress, reused: false }, leftOut };
     },
   });
 
@@ -416,7 +418,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     handler: async ({ query, campaign: access }) => {
       const rows = await tableRows(db, access.campaignId);
       if (rows.length === 0) throw conflict("The campaign's mode table is empty: add modes from a fit first.");
-      const { set } = await frfSetFor(access.campaignId, undefined);
+      const { set } = await frfSetFor(access.campaignId, undefined, true);
       const response = canonicalLabel(query.response);
       const reference = canonicalLabel(query.reference);
       const measured = set.frfs.find((x) => x.response === response && x.reference === reference);

@@ -1,5 +1,5 @@
 // FE model versions, their point ↔ node map, the plan proposal and the correlation, as the API serves them.
-import { useQuery } from '@tanstack/react-query';
+import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { api } from './api.ts';
 
 export interface FeModelSummary {
@@ -79,5 +79,6 @@ export const feKeys = {
 export const useFeModels = (campaignId: string) => useQuery({ queryKey: feKeys.list(campaignId), queryFn: () => api<{ models: FeModelSummary[] }>(`/campaigns/${campaignId}/fe-models`) });
 export const useFeModel = (campaignId: string, modelId: string | undefined) =>
   useQuery({ queryKey: feKeys.one(campaignId, modelId ?? ''), queryFn: () => api<FeModelDetail>(`/campaigns/${campaignId}/fe-models/${modelId}`), enabled: Boolean(modelId) });
-export const useCorrelation = (campaignId: string, modelId: string | undefined) =>
-  useQuery({ queryKey: feKeys.correlation(campaignId, modelId ?? ''), queryFn: () => api<{ correlation: FeCorrelation }>(`/campaigns/${campaignId}/fe-models/${modelId}/correlation`), enabled: Boolean(modelId) });
+/** The correlation against one model version; `tableVersion` (the mode table's) is in the key, so a change of the table refetches it. */
+export const useCorrelation = (campaignId: string, modelId: string | undefined, tableVersion: number | undefined) =>
+  useQuery({ queryKey: [...feKeys.correlation(campaignId, modelId ?? ''), tableVersion ?? -1], queryFn: () => api<{ correlation: FeCorrelation }>(`/campaigns/${campaignId}/fe-models/${modelId}/correlation`), enabled: Boolean(modelId) && tableVersion !== undefined, placeholderData: keepPreviousData });

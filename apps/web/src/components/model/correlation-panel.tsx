@@ -7,15 +7,22 @@ import { Notice, Panel, Spinner } from '../ui.tsx';
 import { axis, baseLayout, plotColours, plotConfig } from '../../lib/plot-style.ts';
 import { useThemeName } from '../../lib/theme-name.ts';
 import { useCorrelation, useFeModels, type FeCorrelation } from '../../lib/fe-model-data.ts';
-import { MatrixHeatmap } from './matrix-heatmap.tsx';
+import { useCurrentModes } from '../../lib/modes-data.ts';
+import { MacMatrix } from '../mac-matrix.tsx';
 
 function FrequencyPlot({ pairs }: { pairs: Extract<FeCorrelation, { ok: true }>['pairs'] }) {
   const dark = useThemeName() === 'dark';
   const c = plotColours(dark);
-  const top = Math.max(1, ...pairs.flatMap((p) => [p.testHz, p.modelHz])) * 1.08;
+  // The same range on both axes (so f test = f model is the diagonal), around the paired modes rather than from 0,
+  // and a square plot area (scaleanchor with constrain 'domain' keeps the range and shrinks the width instead).
+  const all = pairs.flatMap((p) => [p.testHz, p.modelHz]);
+  const top = Math.max(1, ...all) * 1.08;
+  const bottom = all.length ? Math.min(...all) / 1.08 : 0;
+  const span = top - bottom;
+  const lo = Math.max(0, bottom - 0.05 * span);
   const data = useMemo(
     () => [
-      { type: 'scatter', mode: 'lines', x: [0, top], y: [0, top], name: 'f test = f model', line: { color: c.muted, dash: 'dash', width: 1 }, hoverinfo: 'skip' },
+      { type: 'scatter', mode: 'lines', x: [lo, top], y: [lo, top], name: 'f test = f model', line: { color: c.muted, dash: 'dash', width: 1 }, hoverinfo: 'skip' },
       {
         type: 'scatter',
         mode: 'markers+text',
@@ -23,22 +30,27 @@ function FrequencyPlot({ pairs }: { pairs: Extract<FeCorrelation, { ok: true }>[
         y: pairs.map((p) => p.testHz),
         text: pairs.map((p) => `${p.testMode}`),
         textposition: 'top left',
+        textfont: { size: 11 },
         name: 'paired modes',
         marker: { size: 8, color: dark ? '#6fa8e8' : '#1f5fa8' },
         hovertemplate: 'model %{x:.2f} Hz<br>test %{y:.2f} Hz<extra></extra>',
       },
     ],
-    [pairs, top, c.muted, dark],
+    [pairs, lo, top, c.muted, dark],
   );
-  const layout = useMemo(() => baseLayout(c, { hovermode: 'closest', xaxis: axis(c, 'model frequency (Hz)', { range: [0, top] }), yaxis: axis(c, 'test frequency (Hz)', { range: [0, top], scaleanchor: 'x' }) }), [c, top]);
-  return <Plot label="Test against model natural frequencies, with the line where they are equal" data={data} layout={layout} config={plotConfig} height={320} className="frequency-plot" />;
+  const layout = useMemo(
+    () => baseLayout(c, { hovermode: 'closest', xaxis: axis(c, 'model frequency (Hz)', { range: [lo, top], constrain: 'domain' }), yaxis: axis(c, 'test frequency (Hz)', { range: [lo, top], scaleanchor: 'x', constrain: 'domain' }) }),
+    [c, lo, top],
+  );
+  return <Plot label="Test against model natural frequencies, with the line where they are equal; the numbers are the test modes" data={data} layout={layout} config={plotConfig} height={320} className="frequency-plot" />;
 }
 
 export function CorrelationPanel({ campaignId }: { campaignId: string }) {
   const models = useFeModels(campaignId);
   const [picked, setPicked] = useState<string>();
   const modelId = picked ?? models.data?.models[0]?.id;
-  const corr = useCorrelation(campaignId, modelId);
+  const table = useCurrentModes(campaignId);
+  const corr = useCorrelation(campaignId, modelId, table.data?.version);
   const title = 'Test against the model';
   if (models.isPending) return <Panel title={title}><Spinner label="Loading the model versions…" /></Panel>;
   if (models.isError) return <Panel title={title}><Notice tone="error">The model versions could not be loaded: {models.error.message}</Notice></Panel>;
@@ -60,7 +72,8 @@ export function CorrelationPanel({ campaignId }: { campaignId: string }) {
         </label>
       }
     >
-      {corr.isPending && <Spinner label="Correlating…" />}
+      {table.isError && <Notice tone="error">The mode table could not be loaded: {table.error.message}</Notice>}
+      {corr.isPending && !table.isError && <Spinner label="Correlating…" />}
       {corr.isError && <Notice tone="error">The correlation could not be computed: {corr.error.message}</Notice>}
       {k && !k.ok && <Notice tone="info">{k.why}</Notice>}
       {k && k.ok && (
@@ -99,12 +112,14 @@ export function CorrelationPanel({ campaignId }: { campaignId: string }) {
           <div className="grid gap-4 lg:grid-cols-2">
             <div className="min-w-0">
               <h3 className="mb-1 text-sm font-medium">MAC, test (rows) against model (columns)</h3>
-              <MatrixHeatmap
+              <MacMatrix
                 matrix={k.mac}
-                rows={k.testModes.map((t) => `test ${t.mode} (${t.fHz.toFixed(1)} Hz)`)}
-                columns={k.modelModes.map((m) => `FE ${m.number} (${m.frequencyHz.toFixed(1)} Hz)`)}
+                rows={k.testModes.map((t) => ({ name: `test ${t.mode} (${t.fHz.toFixed(1)} Hz)`, short: `T${t.mode}` }))}
+                columns={k.modelModes.map((m) => ({ name: `FE ${m.number} (${m.frequencyHz.toFixed(1)} Hz)`, short: `FE${m.number}` }))}
+                rowTitle="test mode (number in the mode table)"
+                columnTitle="model mode (number)"
                 label={`MAC matrix of ${k.testModes.length} test modes against ${k.modelModes.length} model modes`}
-                height={Math.max(260, 120 + 40 * k.testModes.length)}
+                className="matrix-heatmap"
               />
             </div>
             <div className="min-w-0">

@@ -1,6 +1,8 @@
-// What a lead sets before a fit: which FRFs (by DOF, default every one with accepted hits), the
-// band in Hz and the highest model order. Only leads see it.
+// What a lead sets before a fit: which FRFs (by DOF; default the current plan's FRFs with accepted
+// hits, flagged ones left out — contracts' defaultFitSelection, the same rule as the API), the band in
+// Hz and the highest model order. Only leads see it.
 import { useMemo, useState } from 'react';
+import { defaultFitSelection, leftOutSummary } from '@resonote/contracts';
 import type { ScheduleEntry } from '../../lib/campaign-data.ts';
 import { Button } from '../ui.tsx';
 import { NumberField } from '../form-controls.tsx';
@@ -12,22 +14,24 @@ export interface FitRequest {
   orderStep: number;
 }
 
-export function FitForm({ entries, rovingSide, defaultBand, busy, onRun }: { entries: ScheduleEntry[]; rovingSide: 'response' | 'excitation'; defaultBand?: { low: number; high: number }; busy: boolean; onRun: (req: FitRequest) => void }) {
+export function FitForm({ entries, campaign, defaultBand, busy, onRun }: { entries: ScheduleEntry[]; campaign: { testType: 'roving-hammer' | 'roving-response'; referenceDofs: string[] }; defaultBand?: { low: number; high: number }; busy: boolean; onRun: (req: FitRequest) => void }) {
+  const rovingSide = campaign.testType === 'roving-response' ? 'response' : 'excitation';
   const measured = useMemo(() => entries.filter((e) => e.acceptedHits > 0), [entries]);
-  const [picked, setPicked] = useState<Set<string> | null>(null); // null: every measured FRF
+  const selection = useMemo(() => defaultFitSelection(measured, campaign), [measured, campaign]);
+  const [picked, setPicked] = useState<Set<string> | null>(null); // null: the default selection
   const [low, setLow] = useState(defaultBand ? String(defaultBand.low) : '');
   const [high, setHigh] = useState(defaultBand ? String(defaultBand.high) : '');
   const [maxOrder, setMaxOrder] = useState('30');
   const [orderStep, setOrderStep] = useState('2');
   const [open, setOpen] = useState(false);
 
-  const chosen = picked ?? new Set(measured.map((e) => e.id));
+  const chosen = picked ?? new Set(selection.chosen);
   const label = (e: ScheduleEntry) => (rovingSide === 'response' ? e.responseDof : e.excitationDof);
   const toggle = (id: string) => {
     const next = new Set(chosen);
     if (next.has(id)) next.delete(id);
     else next.add(id);
-    setPicked(next.size === measured.length ? null : next);
+    setPicked(next.size === selection.chosen.length && selection.chosen.every((x) => next.has(x)) ? null : next);
   };
 
   const lowN = Number(low);
@@ -56,17 +60,27 @@ export function FitForm({ entries, rovingSide, defaultBand, busy, onRun }: { ent
       <div>
         <button type="button" className="flex w-full min-h-10 items-center justify-between gap-2 rounded-md border border-[var(--line)] px-3 text-left text-sm hover:border-accent" aria-expanded={open} aria-controls="fit-frfs" onClick={() => setOpen((o) => !o)}>
           <span>
-            FRFs: <span className="num font-medium">{picked ? `${chosen.size} of ${measured.length}` : `all ${measured.length}`}</span> with accepted hits
+            FRFs: <span className="num font-medium">{picked || selection.leftOut.length ? `${chosen.size} of ${measured.length}` : `all ${measured.length}`}</span> with accepted hits
           </span>
           <span aria-hidden className="text-[var(--muted)]">{open ? '▴' : '▾'}</span>
         </button>
         {errors.frfs && <p className="mt-1 text-xs text-bad">Choose at least 2 FRFs.</p>}
+        {!picked && selection.leftOut.length > 0 && (
+          <p className="mt-1 text-xs text-[var(--muted)]" data-testid="fit-left-out">
+            Left out: {leftOutSummary(selection.leftOut, campaign.testType)}. Pick {selection.leftOut.length === 1 ? 'it' : 'them'} in the list to include {selection.leftOut.length === 1 ? 'it' : 'them'}.
+          </p>
+        )}
         {open && (
           <div id="fit-frfs" className="mt-2 space-y-2 rounded-md border border-[var(--line)] p-2">
             <div className="flex gap-2 text-xs">
               <button type="button" className="text-accent hover:underline" onClick={() => setPicked(null)}>
-                All
+                Default
               </button>
+              {selection.leftOut.length > 0 && (
+                <button type="button" className="text-accent hover:underline" onClick={() => setPicked(new Set(measured.map((e) => e.id)))}>
+                  All
+                </button>
+              )}
               <button type="button" className="text-accent hover:underline" onClick={() => setPicked(new Set())}>
                 None
               </button>
@@ -81,12 +95,13 @@ export function FitForm({ entries, rovingSide, defaultBand, busy, onRun }: { ent
                     key={e.id}
                     type="button"
                     aria-pressed={on}
-                    title={`${e.responseDof} / ${e.excitationDof}, ${e.acceptedHits} accepted hits`}
+                    title={`${e.responseDof} / ${e.excitationDof}, ${e.acceptedHits} accepted hits${e.status === 'flagged' ? ', flagged (low coherence)' : ''}`}
                     onClick={() => toggle(e.id)}
                     className={`num inline-flex min-h-8 items-center gap-1 rounded-md border px-1.5 text-xs ${on ? 'border-accent bg-accent-soft font-semibold text-accent-strong' : 'border-[var(--line)] text-[var(--muted)]'}`}
                   >
                     <span aria-hidden>{on ? '✓' : '·'}</span>
                     {label(e)}
+                    {e.status === 'flagged' && <span className="text-warn" title="flagged: low coherence">⚑<span className="sr-only"> flagged</span></span>}
                   </button>
                 );
               })}

@@ -85,11 +85,12 @@ export function StabilizationPlot({ cmif, orders, bandHz, chosen, onTogglePole, 
     const maxOrder = Math.max(2, ...orders.map((o) => o.order));
     return baseLayout(c, {
       hovermode: 'closest',
-      margin: { l: 56, r: 72, t: 8, b: 44 },
+      // automargin on both y axes: the right (CMIF) axis' power-format ticks and its title need more room than a fixed margin gave.
+      margin: { l: 56, r: 16, t: 8, b: 44 },
       legend: { orientation: 'h', x: 0, y: -0.16, yanchor: 'top', font: { size: 11 } },
       xaxis: axis(c, 'Frequency (Hz)', { range: bandHz }),
-      yaxis: axis(c, 'Model order', { range: [0, maxOrder + 2], dtick: maxOrder > 40 ? 10 : maxOrder > 16 ? 4 : 2, mirror: false }),
-      yaxis2: axis(c, 'CMIF (singular values of the FRF matrix), (m/s²)/N', { overlaying: 'y', side: 'right', type: 'log', dtick: 1, showgrid: false, exponentformat: 'power', mirror: false, title: { text: 'CMIF (singular values of the FRF matrix), (m/s²)/N', font: { size: 11 }, standoff: 4 } }),
+      yaxis: axis(c, 'Model order', { range: [0, maxOrder + 2], dtick: maxOrder > 40 ? 10 : maxOrder > 16 ? 4 : 2, mirror: false, automargin: true }),
+      yaxis2: axis(c, 'CMIF (singular values of the FRF matrix), (m/s²)/N', { overlaying: 'y', side: 'right', type: 'log', dtick: 1, showgrid: false, exponentformat: 'power', mirror: false, automargin: true, title: { text: 'CMIF (singular values of the FRF matrix), (m/s²)/N', font: { size: 11 }, standoff: 6 } }),
       uirevision: 'stabilization',
     });
   }, [c, orders, bandHz]);

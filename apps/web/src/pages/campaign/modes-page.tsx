@@ -16,7 +16,7 @@ import { FitForm, type FitRequest } from '../../components/modes/fit-form.tsx';
 import { StabilizationPlot } from '../../components/modes/stabilization-plot.tsx';
 import { ChosenPoles } from '../../components/modes/chosen-poles.tsx';
 import { ModeTable } from '../../components/modes/mode-table.tsx';
-import { MacHeatmap } from '../../components/modes/mac-heatmap.tsx';
+import { MacMatrix } from '../../components/mac-matrix.tsx';
 import { CorrelationPanel } from '../../components/model/correlation-panel.tsx';
 import { SynthesisPlot } from '../../components/modes/synthesis-plot.tsx';
 import { ModeAnimation } from '../../components/modes/mode-animation.tsx';
@@ -159,7 +159,7 @@ export function ModesPage() {
             <Panel title="Fit settings">
               {(schedule.isPending || settings.isPending) && <Spinner label="Loading the schedule and settings…" />}
               {schedule.isError && <Notice tone="error">The schedule could not be loaded: {schedule.error.message}</Notice>}
-              {schedule.data && !settings.isPending && <FitForm entries={entries} rovingSide={campaign.testType === 'roving-response' ? 'response' : 'excitation'} defaultBand={band} busy={run.isPending || Boolean(running)} onRun={(req) => run.mutate(req)} />}
+              {schedule.data && !settings.isPending && <FitForm entries={entries} campaign={campaign} defaultBand={band} busy={run.isPending || Boolean(running)} onRun={(req) => run.mutate(req)} />}
             </Panel>
           )}
           {fit?.status === 'done' && fit.result && (
@@ -401,7 +401,15 @@ function TableResults({ campaignId, table, entries, canLead }: { campaignId: str
   const [selected, setSelected] = useState(1);
   const mode = rows.find((m) => m.mode === selected) ?? rows[0];
   const pairs = useMemo(() => measuredPairs(entries), [entries]);
-  const drivingIndex = Math.max(0, pairs.findIndex((p) => sameAxis(p.response, p.reference)));
+  // The first pick is a driving point the table's fits measured (a reference of one of its rows), so that after the
+  // reference moved the plot does not open on an FRF of the former reference, which no row of the table can synthesize.
+  const drivingIndex = useMemo(() => {
+    const refs = new Set(rows.flatMap((r) => r.source.references.map(canonicalLabel)));
+    const driving = (p: { response: string; reference: string }) => sameAxis(p.response, p.reference);
+    const fitted = (p: { response: string; reference: string }) => refs.has(p.response) || refs.has(p.reference);
+    const best = [pairs.findIndex((p) => driving(p) && fitted(p)), pairs.findIndex(fitted), pairs.findIndex(driving)].find((i) => i >= 0);
+    return best ?? 0;
+  }, [pairs, rows]);
   const [pairIndex, setPairIndex] = useState<number | null>(null);
   const pair = pairs[pairIndex ?? drivingIndex] ?? null;
   const synthesis = useTableSynthesis(campaignId, rows.length ? table.version : 0, pair);
@@ -453,7 +461,15 @@ function TableResults({ campaignId, table, entries, canLead }: { campaignId: str
           <Warnings warnings={table.warnings} />
         </Panel>
         <Panel title="MAC matrix of the table's shapes">
-          <MacHeatmap mac={table.mac} modes={rows} height={Math.max(260, 120 + 40 * rows.length)} />
+          <MacMatrix
+            matrix={table.mac}
+            rows={rows.map((m) => ({ name: `mode ${m.mode} (${m.fHz.toFixed(1)} Hz)`, short: String(m.mode) }))}
+            columns={rows.map((m) => ({ name: `mode ${m.mode} (${m.fHz.toFixed(1)} Hz)`, short: String(m.mode) }))}
+            rowTitle="mode (number in the table)"
+            columnTitle="mode (number in the table)"
+            label={`MAC matrix of ${rows.length} modes, from 0 to 1`}
+            className="mac-heatmap"
+          />
           <p className="mt-1 text-xs text-[var(--muted)]">Over the DOFs each pair of shapes shares. 1 on the diagonal; small values off it mean the shapes are distinct. MAC has no mass weighting, so it is not an orthogonality check.</p>
         </Panel>
       </div>

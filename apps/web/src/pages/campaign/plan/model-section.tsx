@@ -11,7 +11,7 @@ import { feKeys, useFeModel, useFeModels, type FeModelDetail, type FeProblem, ty
 import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../../../components/ui.tsx';
-import { MatrixHeatmap } from '../../../components/model/matrix-heatmap.tsx';
+import { MacMatrix } from '../../../components/mac-matrix.tsx';
 import { formatWhen } from '../../../lib/format-date.ts';
 
 const where = (p: FeProblem) => (p.row !== null ? `line ${p.row}${p.column ? `, ${p.column}` : ''}` : (p.path ?? 'the file'));
@@ -230,7 +230,9 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
       const p = await api<FeProposal>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/proposal`, { body: { bandHz: [Number(low), Number(high)], axes, sensors: Number(sensors), threshold: Number(threshold), candidates, ...(keepReference && campaign.referenceDofs.length ? { keep: campaign.referenceDofs } : {}) } });
       setProposal(p);
       setChosen(new Set(p.kept.map((k) => k.dof)));
-      setReference(p.reference.dof);
+      // "Keep the current reference" means the sensor stays: the current reference is the default choice, the proposed one is marked.
+      const current = keepReference ? p.kept.find((k) => campaign.referenceDofs.some((d) => d.toLowerCase() === k.dof.toLowerCase())) : undefined;
+      setReference(current?.dof ?? p.reference.dof);
     } catch (err) {
       setProposal(undefined);
       setError(err instanceof ApiError ? err.message : 'The proposal failed.');
@@ -242,11 +244,11 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
     if (!proposal) return;
     setBusy(true);
     try {
-      const r = await api<{ pointsAdded: number; pointsUpdated: number; referenceDofs: string[]; schedule: { added: number; removed: number } }>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/proposal/accept`, {
+      const r = await api<{ pointsAdded: number; pointsUpdated: number; referenceDofs: string[]; schedule: { added: number; removed: number }; channelNote: string | null }>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/proposal/accept`, {
         body: { dofs: [...chosen], reference, campaignVersion: campaign.version },
       });
-      await Promise.all([keys.points(campaignId), keys.schedule(campaignId), keys.campaign(campaignId), feKeys.one(campaignId, detail.model.id)].map((queryKey) => client.invalidateQueries({ queryKey })));
-      toast('ok', `Plan accepted: ${r.pointsAdded} point${r.pointsAdded === 1 ? '' : 's'} added, ${r.pointsUpdated} updated, reference ${r.referenceDofs.join(', ')}, ${r.schedule.added} schedule entr${r.schedule.added === 1 ? 'y' : 'ies'} added.`);
+      await Promise.all([keys.points(campaignId), keys.schedule(campaignId), keys.campaign(campaignId), keys.channels(campaignId), feKeys.one(campaignId, detail.model.id)].map((queryKey) => client.invalidateQueries({ queryKey })));
+      toast('ok', `Plan accepted: ${r.pointsAdded} point${r.pointsAdded === 1 ? '' : 's'} added, ${r.pointsUpdated} updated, reference ${r.referenceDofs.join(', ')}, ${r.schedule.added} schedule entr${r.schedule.added === 1 ? 'y' : 'ies'} added.${r.channelNote ? ` ${r.channelNote}` : ''}`);
     } catch (err) {
       fail(err, [keys.campaign(campaignId)]);
     } finally {
@@ -347,12 +349,14 @@ function ProposalView({ campaignId, campaign, detail, canLead }: { campaignId: s
             </div>
             <div className="min-w-0">
               <h4 className="mb-1 text-sm font-medium">Auto-MAC of the kept DOFs</h4>
-              <MatrixHeatmap
+              <MacMatrix
                 matrix={proposal.autoMac.matrix}
-                rows={proposal.modes.map((m) => `mode ${m.number} (${m.frequencyHz.toFixed(1)} Hz)`)}
-                columns={proposal.modes.map((m) => `mode ${m.number}`)}
+                rows={proposal.modes.map((m) => ({ name: `mode ${m.number} (${m.frequencyHz.toFixed(1)} Hz)`, short: String(m.number) }))}
+                columns={proposal.modes.map((m) => ({ name: `mode ${m.number} (${m.frequencyHz.toFixed(1)} Hz)`, short: String(m.number) }))}
+                rowTitle="model mode (number)"
+                columnTitle="model mode (number)"
                 label={`Auto-MAC of ${proposal.modes.length} model modes over the kept DOFs, from 0 to 1`}
-                height={Math.max(240, 100 + 40 * proposal.modes.length)}
+                className="matrix-heatmap"
               />
             </div>
           </div>
