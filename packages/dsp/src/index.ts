@@ -29,7 +29,7 @@ export {
 export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
 export { fftPathName } from './fft.ts';
 export { removeOffsets } from './offsets.ts';
-export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
+export { averageFrf, FrfAccumulator, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
 export { resamplePoly, resampleRatio, resampleFilter, type ResampleRatio } from './resample.ts';
