@@ -31,7 +31,7 @@ export async function freePort(): Promise<number> {
 export async function startTestApp(
   template: string,
   env: Record<string, string> = {},
-  options: { listen?: boolean; /** The URL the app connects with (e.g. through a TCP relay) instead of the database's own. */ databaseUrl?: (direct: string) => string } = {},
+  options: { listen?: boolean; /** The URL the app connects with (e.g. through a TCP relay) instead of the database's own. */ databaseUrl?: (direct: string) => string; /** Receives the app's log lines (discarded by default). */ log?: (line: string) => void } = {},
 ): Promise<TestApp & { server?: Server; baseUrl: string }> {
   const database = await freshDatabase(template);
   const port = options.listen ? await freePort() : 3999;
@@ -46,7 +46,7 @@ export async function startTestApp(
     AUTH_SECRET: randomBytes(32).toString('hex'),
     ...env,
   });
-  const handle = await createApp({ config, log: () => undefined });
+  const handle = await createApp({ config, log: options.log ?? (() => undefined) });
   let server: Server | undefined;
   if (options.listen) {
     // The same HTTP server (timeouts included) as apps/api/src/server.ts.
