@@ -5,8 +5,9 @@
 // Settings (environment): RESONOTE_CLUSTER_PORT (nginx, default 40080; the APIs take the next
 // two ports), RESONOTE_CLUSTER_PG_PORT (default 54349), RESONOTE_CLUSTER_APIS / _WORKERS (default
 // 2 / 2), RESONOTE_CLUSTER_SEED=0 to skip the demo seed, DATABASE_URL to use another database.
-// An API or worker process that dies is started again after a second (as a process supervisor such
-// as systemd's Restart=on-failure would); nginx dying stops the cluster. nginx is the edge: it sets
+// An API or worker process that dies is started again after RESONOTE_CLUSTER_RESTART_S seconds
+// (default 1; as a process supervisor such as systemd's Restart=on-failure would); nginx dying
+// stops the cluster. nginx is the edge: it sets
 // X-Forwarded-For / X-Real-IP to the address it was connected from (a client's own header is
 // dropped), and the APIs believe it from loopback only (TRUST_PROXY=loopback).
 import { spawn } from 'node:child_process';
@@ -19,6 +20,7 @@ const port = Number(process.env.RESONOTE_CLUSTER_PORT ?? 40080);
 const apiCount = Number(process.env.RESONOTE_CLUSTER_APIS ?? 2);
 const workerCount = Number(process.env.RESONOTE_CLUSTER_WORKERS ?? 2);
 const seed = process.env.RESONOTE_CLUSTER_SEED !== '0';
+const restartMs = 1000 * Number(process.env.RESONOTE_CLUSTER_RESTART_S ?? 1);
 const publicUrl = `http://127.0.0.1:${port}`;
 
 installDependencies();
@@ -61,11 +63,11 @@ function startChild(name, cmd, args, options, readyText, restart = false) {
   child.on('exit', (code, signal) => {
     if (stopping) return;
     if (restart) {
-      console.error(`[resonote] ${name} (pid ${child.pid}) exited (${signal ?? code}); starting it again in 1 s`);
+      console.error(`[resonote] ${name} (pid ${child.pid}) exited (${signal ?? code}); starting it again in ${restartMs / 1000} s`);
       children.splice(children.indexOf(entry), 1);
       setTimeout(() => {
         if (!stopping) void startChild(name, cmd, args.filter((a) => a !== '--seed'), options, readyText, restart);
-      }, 1000);
+      }, restartMs).unref();
       return;
     }
     console.error(`[resonote] ${name} exited (${signal ?? code}); stopping the cluster`);
