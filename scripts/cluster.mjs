@@ -23,12 +23,16 @@ const seed = process.env.RESONOTE_CLUSTER_SEED !== '0';
 const restartMs = 1000 * Number(process.env.RESONOTE_CLUSTER_RESTART_S ?? 1);
 const publicUrl = `http://127.0.0.1:${port}`;
 
-installDependencies();
+// RESONOTE_CLUSTER_SKIP_SETUP=1: the caller (scripts/bench-cluster.mjs) has already installed, built and checked.
+const setup = process.env.RESONOTE_CLUSTER_SKIP_SETUP !== '1';
+if (setup) installDependencies();
 const nginxBin = ensureNginx();
 const pg = process.env.DATABASE_URL ? null : ensurePostgres({ name: 'cluster', port: Number(process.env.RESONOTE_CLUSTER_PG_PORT ?? 54349), database: 'resonote' });
 const databaseUrl = process.env.DATABASE_URL ?? pg.url;
-ensureChromium();
-buildWeb();
+if (setup) {
+  ensureChromium();
+  buildWeb();
+}
 
 const runDir = path.join(root, '.run', `cluster-${port}`);
 fs.mkdirSync(path.join(runDir, 'tmp'), { recursive: true });

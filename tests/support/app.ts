@@ -90,13 +90,17 @@ async function startClusterApp(
   if (options.databaseUrl) throw new Error('a test that relays the database connection runs against the in-process app only');
   const port = Number(process.env.RESONOTE_TEST_CLUSTER_PORT ?? 54620) + 10 * Number(process.env.VITEST_POOL_ID ?? 0);
   const shared = { NODE_ENV: 'test', AUTH_RATE_LIMIT_MAX: '1000', AUTH_SECRET: randomBytes(32).toString('hex'), ...env, JOBS_IN_PROCESS: 'false' };
-  let cluster;
+  let cluster: Awaited<ReturnType<typeof startCluster>>;
   try {
-    cluster = await startCluster({ databaseUrl: database.url, port, env: shared });
+    cluster = await startCluster({ databaseUrl: database.url, port, env: { ...shared, RESONOTE_CLUSTER_SKIP_SETUP: '1' } });
   } catch (err) {
     await database.drop();
     throw err;
   }
+  // A file whose beforeAll timed out never calls close(): its cluster must not outlive the test process.
+  process.once('exit', () => {
+    if (cluster.child.exitCode === null && cluster.child.signalCode === null) cluster.child.kill('SIGTERM');
+  });
   const config = loadConfig({ ...shared, PORT: String(port), PUBLIC_URL: cluster.url, DATABASE_URL: database.url, SMTP_CAPTURE_PORT: '0', LOG_REQUESTS: 'false' });
   const handle = await createApp({ config, log: options.log ?? (() => undefined) });
   return {
