@@ -58,6 +58,8 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
   }
   const clients = [];
   for (let i = 0; i < engineers; i++) clients.push(await signedInClient(baseUrl, baseUrl, BENCH_LEAD.email, BENCH_LEAD.password));
+  // Idempotency keys take letters, digits and . _ : ~ - only.
+  const slug = label.replace(/[^A-Za-z0-9]+/g, '-');
   const out: Outcome = { label, latencies: [], loadBefore: loadNow(), loadAfter: '', errors: 0, errorSamples: [], late: 0, notSent: 0, wallS: 0 };
   console.log(`[${label}] ${engineers} engineers × 1 hit/s for ${seconds} s…`);
   const t0 = performance.now() + 500;
@@ -78,7 +80,7 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
         const slot = mine[Math.floor(k / HITS_PER_DOF)]!;
         const started = performance.now();
         try {
-          const res = await client.upload(`/api/campaigns/${slot.campaignId}/schedule/${slot.entryId}/hits`, pool[(e + k) % pool.length]!, 'hit.wav', { units: 'volts' }, `load-${label}-${e}-${k}-xxxxxxxx`);
+          const res = await client.upload(`/api/campaigns/${slot.campaignId}/schedule/${slot.entryId}/hits`, pool[(e + k) % pool.length]!, 'hit.wav', { units: 'volts' }, `load-${slug}-${e}-${k}-xxxxxxxx`);
           if (res.status !== 201 || !res.body?.frf) throw new Error(`${res.status} ${JSON.stringify(res.body).slice(0, 200)}`);
           out.latencies.push(performance.now() - started);
         } catch (err) {
