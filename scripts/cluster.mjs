@@ -5,6 +5,11 @@
 // Settings (environment): RESONOTE_CLUSTER_PORT (nginx, default 40080; the APIs take the next
 // two ports), RESONOTE_CLUSTER_PG_PORT (default 54349), RESONOTE_CLUSTER_APIS / _WORKERS (default
 // 2 / 2), RESONOTE_CLUSTER_SEED=0 to skip the demo seed, DATABASE_URL to use another database.
+// An API or worker process that dies is started again after RESONOTE_CLUSTER_RESTART_S seconds
+// (default 1; as a process supervisor such as systemd's Restart=on-failure would); nginx dying
+// stops the cluster. nginx is the edge: it sets
+// X-Forwarded-For / X-Real-IP to the address it was connected from (a client's own header is
+// dropped), and the APIs believe it from loopback only (TRUST_PROXY=loopback).
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
@@ -15,14 +20,19 @@ const port = Number(process.env.RESONOTE_CLUSTER_PORT ?? 40080);
 const apiCount = Number(process.env.RESONOTE_CLUSTER_APIS ?? 2);
 const workerCount = Number(process.env.RESONOTE_CLUSTER_WORKERS ?? 2);
 const seed = process.env.RESONOTE_CLUSTER_SEED !== '0';
+const restartMs = 1000 * Number(process.env.RESONOTE_CLUSTER_RESTART_S ?? 1);
 const publicUrl = `http://127.0.0.1:${port}`;
 
-installDependencies();
+// RESONOTE_CLUSTER_SKIP_SETUP=1: the caller (scripts/bench-cluster.mjs) has already installed, built and checked.
+const setup = process.env.RESONOTE_CLUSTER_SKIP_SETUP !== '1';
+if (setup) installDependencies();
 const nginxBin = ensureNginx();
 const pg = process.env.DATABASE_URL ? null : ensurePostgres({ name: 'cluster', port: Number(process.env.RESONOTE_CLUSTER_PG_PORT ?? 54349), database: 'resonote' });
 const databaseUrl = process.env.DATABASE_URL ?? pg.url;
-ensureChromium();
-buildWeb();
+if (setup) {
+  ensureChromium();
+  buildWeb();
+}
 
 const runDir = path.join(root, '.run', `cluster-${port}`);
 fs.mkdirSync(path.join(runDir, 'tmp'), { recursive: true });
@@ -31,9 +41,11 @@ fs.mkdirSync(path.join(runDir, 'tmp'), { recursive: true });
 const children = [];
 let stopping = false;
 
-function startChild(name, cmd, args, options, readyText) {
+function startChild(name, cmd, args, options, readyText, restart = false) {
   const child = spawn(cmd, args, { ...options, stdio: ['ignore', 'pipe', 'pipe'] });
-  children.push({ name, child, stopSignal: options.stopSignal ?? 'SIGTERM' });
+  const entry = { name, child, stopSignal: options.stopSignal ?? 'SIGTERM' };
+  children.push(entry);
+  log(`${name} started (pid ${child.pid})`);
   const prefix = (line) => `[${name}] ${line}`;
   let ready;
   const readyPromise = new Promise((resolve) => (ready = resolve));
@@ -53,10 +65,17 @@ function startChild(name, cmd, args, options, readyText) {
   relay(child.stderr, process.stderr);
   if (!readyText) ready();
   child.on('exit', (code, signal) => {
-    if (!stopping) {
-      console.error(`[resonote] ${name} exited (${signal ?? code}); stopping the cluster`);
-      void stopAll(1);
+    if (stopping) return;
+    if (restart) {
+      console.error(`[resonote] ${name} (pid ${child.pid}) exited (${signal ?? code}); starting it again in ${restartMs / 1000} s`);
+      children.splice(children.indexOf(entry), 1);
+      setTimeout(() => {
+        if (!stopping) void startChild(name, cmd, args.filter((a) => a !== '--seed'), options, readyText, restart);
+      }, restartMs).unref();
+      return;
     }
+    console.error(`[resonote] ${name} exited (${signal ?? code}); stopping the cluster`);
+    void stopAll(1);
   });
   return readyPromise;
 }
@@ -66,12 +85,13 @@ const baseEnv = { ...process.env, NODE_ENV: process.env.NODE_ENV ?? 'development
 const apiPorts = Array.from({ length: apiCount }, (_, i) => port + 1 + i);
 
 // The first API migrates (and seeds); the others start once it serves, so migrations never race.
+// The APIs listen on loopback only, behind nginx: X-Forwarded-For is believed from loopback peers.
 for (const [i, apiPort] of apiPorts.entries()) {
   const args = ['--import', 'tsx', 'src/server.ts', ...(i === 0 && seed ? ['--seed'] : [])];
-  await startChild(`api-${i + 1}`, process.execPath, args, { cwd: apiDir, env: { ...baseEnv, HOST: '127.0.0.1', PORT: String(apiPort), JOBS_IN_PROCESS: 'false', RESONOTE_BOOT_STARTED: String(started) } }, 'serving on');
+  await startChild(`api-${i + 1}`, process.execPath, args, { cwd: apiDir, env: { TRUST_PROXY: 'loopback', ...baseEnv, HOST: '127.0.0.1', PORT: String(apiPort), JOBS_IN_PROCESS: 'false', RESONOTE_BOOT_STARTED: String(started) } }, 'serving on', true);
 }
 await Promise.all(
-  Array.from({ length: workerCount }, (_, i) => startChild(`worker-${i + 1}`, process.execPath, ['--import', 'tsx', 'src/worker.ts'], { cwd: apiDir, env: baseEnv }, 'working jobs')),
+  Array.from({ length: workerCount }, (_, i) => startChild(`worker-${i + 1}`, process.execPath, ['--import', 'tsx', 'src/worker.ts'], { cwd: apiDir, env: baseEnv }, 'working jobs', true)),
 );
 
 const conf = `# Written by scripts/cluster.mjs; see docs/decisions/0009-nginx-load-balancer.md.
@@ -98,7 +118,11 @@ ${apiPorts.map((p) => `    server 127.0.0.1:${p} max_fails=3 fail_timeout=5s;`).
     proxy_http_version 1.1;
     proxy_set_header Connection "";
     proxy_set_header Host $http_host;
-    proxy_set_header X-Forwarded-For $proxy_add_x_forwarded_for;
+    # nginx is the edge: the client is whoever connected to it. A client's own X-Forwarded-For is
+    # replaced, never appended to, so no one can choose the address rate limits and logs see.
+    # (Behind another balancer, use ngx_http_realip_module's set_real_ip_from for it first.)
+    proxy_set_header X-Forwarded-For $remote_addr;
+    proxy_set_header X-Real-IP $remote_addr;
     proxy_set_header X-Forwarded-Proto $scheme;
     proxy_read_timeout 180s;
     # A request that failed on one upstream before any answer (a process restarting) goes to the next.

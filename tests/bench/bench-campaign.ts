@@ -2,7 +2,7 @@
 // steel bar measured by roving hammer against three fixed accelerometers at 12.8 kHz, 16 384 samples.
 import { buildCampaign } from '@resonote/api/factory';
 import { signedInClient } from '@resonote/api/demo-client';
-import { steelBar } from '@resonote/sim';
+import { STEEL_BAR, steelBar, steelBarModel, type DemoStructure } from '@resonote/sim';
 import { startTestApp } from '../support/app.ts';
 import { createTemplate } from '../support/db.ts';
 
@@ -17,8 +17,20 @@ export async function benchCampaign(template: string, name: string) {
 
 export const BENCH_LEAD = { email: 'bench@lab.test', password: 'bench-password-1' };
 
-/** Signs up the bench lead (first account: admin) unless it exists, and builds the bench campaign through `baseUrl`. */
-export async function benchCampaignAt(baseUrl: string, name: string) {
+/**
+ * The free–free steel bar measured at `count` evenly spaced points B01 … (the simulator's model of
+ * STEEL_BAR with these points; steelBar() has 21). 40 points × the three references = 120 DOFs.
+ */
+export function barWithPoints(count: number): DemoStructure {
+  const base = steelBar();
+  const lengthMm = STEEL_BAR.lengthM * 1000;
+  const points = Array.from({ length: count }, (_, i) => ({ label: `B${String(i + 1).padStart(2, '0')}`, xMm: (i * lengthMm) / (count - 1), yMm: 0, zMm: 0 }));
+  const lines = points.slice(1).map((p, i) => [points[i]!.label, p.label] as [string, string]);
+  return { ...base, points, lines, model: steelBarModel({ points: points.map((p) => ({ label: p.label, xM: p.xMm / 1000 })) }) };
+}
+
+/** Signs up the bench lead (first account: admin) unless it exists, and builds the bench campaign through `baseUrl` (on `bar`, steelBar() by default). */
+export async function benchCampaignAt(baseUrl: string, name: string, bar: DemoStructure = steelBar()) {
   const origin = baseUrl;
   const signUp = await fetch(`${baseUrl}/api/auth/sign-up/email`, { method: 'POST', headers: { 'content-type': 'application/json', origin }, body: JSON.stringify({ name: 'Bench Lead', ...BENCH_LEAD }) });
   if (!signUp.ok) {
@@ -26,7 +38,6 @@ export async function benchCampaignAt(baseUrl: string, name: string) {
     if (!text.includes('already exists')) throw new Error(`sign-up: ${signUp.status} ${text}`);
   }
   const client = await signedInClient(baseUrl, origin, BENCH_LEAD.email, BENCH_LEAD.password);
-  const bar = steelBar();
   const built = await buildCampaign(client, {
     name,
     structure: 'bar',

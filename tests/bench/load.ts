@@ -4,7 +4,10 @@
 // cluster — nginx → two API processes, two workers (scripts/cluster.mjs) — then against one API
 // process doing everything, each on a fresh database of the same PostgreSQL. Loopback only.
 // Prints p50/p95/p99 of hit → averaged FRF and the errors, side by side. Goal: p99 ≤ 300 ms, 0 errors.
-//   npm run bench:load            (BENCH_LOAD_SECONDS=300, BENCH_LOAD_ENGINEERS=20, RESONOTE_BENCH_PORT=40280)
+//   npm run bench:load            (BENCH_LOAD_SECONDS=300, BENCH_LOAD_ENGINEERS=20, RESONOTE_BENCH_PORT=40280,
+//                                  BENCH_LOAD_SETUPS=cluster,single — either or both)
+// The machine's load average is printed before and after each run: on a shared machine the
+// figures mean little without it.
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -17,6 +20,9 @@ import { BENCH_LEAD, BENCH_REFS, benchCampaignAt } from './bench-campaign.ts';
 const seconds = Number(process.env.BENCH_LOAD_SECONDS ?? 300);
 const engineers = Number(process.env.BENCH_LOAD_ENGINEERS ?? 20);
 const port = Number(process.env.RESONOTE_BENCH_PORT ?? 40280);
+const setups = (process.env.BENCH_LOAD_SETUPS ?? 'cluster,single').split(',').map((x) => x.trim());
+const os = await import('node:os');
+const loadNow = () => os.loadavg().map((x) => x.toFixed(1)).join(' / ');
 const HITS_PER_DOF = 5;
 const fs = 12800;
 const n = 16384;
@@ -33,6 +39,8 @@ const pool = bar.points.slice(0, 20).map((p, i) => {
 interface Outcome {
   label: string;
   latencies: number[];
+  loadBefore: string;
+  loadAfter: string;
   errors: number;
   errorSamples: string[];
   late: number;
@@ -50,7 +58,9 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
   }
   const clients = [];
   for (let i = 0; i < engineers; i++) clients.push(await signedInClient(baseUrl, baseUrl, BENCH_LEAD.email, BENCH_LEAD.password));
-  const out: Outcome = { label, latencies: [], errors: 0, errorSamples: [], late: 0, notSent: 0, wallS: 0 };
+  // Idempotency keys take letters, digits and . _ : ~ - only.
+  const slug = label.replace(/[^A-Za-z0-9]+/g, '-');
+  const out: Outcome = { label, latencies: [], loadBefore: loadNow(), loadAfter: '', errors: 0, errorSamples: [], late: 0, notSent: 0, wallS: 0 };
   console.log(`[${label}] ${engineers} engineers × 1 hit/s for ${seconds} s…`);
   const t0 = performance.now() + 500;
   await Promise.all(
@@ -70,7 +80,7 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
         const slot = mine[Math.floor(k / HITS_PER_DOF)]!;
         const started = performance.now();
         try {
-          const res = await client.upload(`/api/campaigns/${slot.campaignId}/schedule/${slot.entryId}/hits`, pool[(e + k) % pool.length]!, 'hit.wav', { units: 'volts' }, `load-${label}-${e}-${k}-xxxxxxxx`);
+          const res = await client.upload(`/api/campaigns/${slot.campaignId}/schedule/${slot.entryId}/hits`, pool[(e + k) % pool.length]!, 'hit.wav', { units: 'volts' }, `load-${slug}-${e}-${k}-xxxxxxxx`);
           if (res.status !== 201 || !res.body?.frf) throw new Error(`${res.status} ${JSON.stringify(res.body).slice(0, 200)}`);
           out.latencies.push(performance.now() - started);
         } catch (err) {
@@ -81,6 +91,7 @@ async function run(label: string, baseUrl: string): Promise<Outcome> {
     }),
   );
   out.wallS = (performance.now() - t0) / 1000;
+  out.loadAfter = loadNow();
   return out;
 }
 
@@ -104,7 +115,7 @@ function row(o: Outcome) {
 }
 
 const results: Outcome[] = [];
-{
+if (setups.includes('cluster')) {
   const cluster = await startCluster({ databaseUrl: await freshClusterDatabase('resonote_bench_load_cluster'), port, env });
   try {
     results.push(await run('cluster (nginx, 2 API, 2 workers)', cluster.url));
@@ -112,7 +123,7 @@ const results: Outcome[] = [];
     await cluster.stop();
   }
 }
-{
+if (setups.includes('single')) {
   const single = await startSingle(await freshClusterDatabase('resonote_bench_load_single'), port + 10);
   try {
     results.push(await run('one API process', single.url));
@@ -124,5 +135,5 @@ console.log(`\nhit → averaged FRF (upload of 4 × ${n} samples answered with t
 console.log(`${'setup'.padEnd(34)} ${'hits'.padStart(6)} ${'errors'.padStart(6)} ${'p50 ms'.padStart(8)} ${'p95 ms'.padStart(8)} ${'p99 ms'.padStart(8)} ${'max ms'.padStart(8)} ${'hits/s'.padStart(7)} ${'late'.padStart(5)} ${'not sent'.padStart(8)}`);
 for (const r of results) console.log(row(r));
 for (const r of results) if (r.errorSamples.length) console.log(`${r.label} errors, first ones: ${r.errorSamples.join(' | ')}`);
-const os = await import('node:os');
+for (const r of results) console.log(`${r.label}: load average (1 / 5 / 15 min) ${r.loadBefore} at the start, ${r.loadAfter} at the end`);
 console.log(`(machine: ${os.cpus().length} cores, shared with other work — load average now ${os.loadavg().map((x) => x.toFixed(1)).join(' / ')} over 1 / 5 / 15 min; "late": ticks an engineer could not keep because the previous answer had not come back; "not sent": ticks left when the time was up)`);

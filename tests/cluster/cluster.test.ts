@@ -2,16 +2,19 @@
 // (JOBS_IN_PROCESS=false) and two worker processes, one PostgreSQL — started and stopped by
 // `npm run start:cluster` (scripts/cluster.mjs). Exercises the Tap, Review, Modes and Hand-over
 // paths through nginx: sign-in, hit uploads, the events stream held through nginx seeing hits
-// posted to either upstream, a modal fit and a report PDF done by workers, a campaign reprocess.
+// posted to either upstream, a modal fit and a report PDF done by workers, a campaign reprocess, a
+// worker killed (SIGKILL) in the middle of a fit leaving it to the other, and the client address
+// nginx passes on (a forged X-Forwarded-For is replaced by the address nginx was connected from).
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
 import { openDb, type DbHandle } from '@resonote/db/client';
-import { backgroundJob, modalFit } from '@resonote/db/schema';
+import { backgroundJob, jobLease, modalFit, session, user } from '@resonote/db/schema';
 import { encodeWav } from '@resonote/api/recording';
 import { signedInClient } from '@resonote/api/demo-client';
 import { createRng, hitSeries } from '@resonote/sim';
 import { freshClusterDatabase, startCluster, type RunningCluster } from '../support/cluster.ts';
 import { openEvents, type SseReader } from '../support/processes.ts';
+import { requestFrom } from '../support/client-address.ts';
 import { BENCH_LEAD, BENCH_REFS, benchCampaignAt } from '../bench/bench-campaign.ts';
 
 const PORT = Number(process.env.RESONOTE_CLUSTER_TEST_PORT ?? 40180);
@@ -36,7 +39,9 @@ function wavFor(excitationDof: string, seed: number, count = 1) {
 
 beforeAll(async () => {
   const databaseUrl = await freshClusterDatabase('resonote_cluster_check');
-  cluster = await startCluster({ databaseUrl, port: PORT });
+  // A lease of 4 s, so a killed worker's fit is taken over within seconds; a dead worker is started
+  // again only after 10 minutes, so the one that takes it over is the other worker.
+  cluster = await startCluster({ databaseUrl, port: PORT, env: { JOB_LEASE_S: '4', JOB_POLL_S: '0.5', RESONOTE_CLUSTER_RESTART_S: '600' } });
   database = openDb(databaseUrl, { max: 2 });
   ({ built, bar } = await benchCampaignAt(cluster.url, 'Cluster check'));
   client = await signedInClient(cluster.url, cluster.url, BENCH_LEAD.email, BENCH_LEAD.password);
@@ -103,6 +108,54 @@ describe('two API processes and two workers behind nginx', () => {
     const [job] = await database.db.select().from(backgroundJob).where(eq(backgroundJob.kind, 'modal-fit'));
     expect(job!.status).toBe('done');
   }, 180_000);
+
+  it('finishes a modal fit on the other worker when the one running it is killed (SIGKILL) in the middle', async () => {
+    const workerPids = [...cluster.output().matchAll(/worker-\d started \(pid (\d+)\)/g)].map((m) => Number(m[1]));
+    expect(workerPids).toHaveLength(2);
+    const started = await client.request('POST', `/api/campaigns/${built.campaignId}/modes/fits`, { bandHz: { low: 20, high: 1500 }, maxOrder: 80, orderStep: 1 });
+    expect(started.status).toBe(202);
+    const fitId = started.body.fit.id as string;
+    // Killed once it is inside the stabilization diagram (progress 0.15 → 1 in one step).
+    let holder: number | undefined;
+    let jobId = '';
+    for (let i = 0; i < 3000 && holder === undefined; i++) {
+      const [f] = await database.db.select().from(modalFit).where(eq(modalFit.id, fitId));
+      jobId ||= (await database.db.select({ id: backgroundJob.id }).from(backgroundJob).where(sql`${backgroundJob.input}->>'fitId' = ${fitId}`))[0]?.id ?? '';
+      const [lease] = jobId ? await database.db.select().from(jobLease).where(eq(jobLease.jobId, jobId)) : [];
+      if (f?.status === 'running' && f.progress >= 0.15 && lease) holder = Number(lease.worker.split(':').at(-1));
+      else await new Promise((r) => setTimeout(r, 20));
+    }
+    expect(workerPids).toContain(holder);
+    process.kill(holder!, 'SIGKILL');
+    const other = workerPids.find((p) => p !== holder)!;
+    const takers = new Set<number>();
+    let fit;
+    for (let i = 0; i < 1200; i++) {
+      const [lease] = await database.db.select().from(jobLease).where(eq(jobLease.jobId, jobId));
+      if (lease) takers.add(Number(lease.worker.split(':').at(-1)));
+      fit = (await client.request('GET', `/api/campaigns/${built.campaignId}/modes/fits/${fitId}`)).body.fit;
+      if (fit.status === 'done' || fit.status === 'failed') break;
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    expect(fit.status).toBe('done');
+    // orders 2, 3, …, 80 (orderStep 1 from max(2, step)), as in tests/api/jobs.test.ts.
+    const [row] = await database.db.select().from(modalFit).where(eq(modalFit.id, fitId));
+    expect((row!.result as { diagram: { orders: unknown[] } }).diagram.orders.length).toBe(79);
+    takers.delete(holder!);
+    expect([...takers]).toEqual([other]);
+    const [job] = await database.db.select().from(backgroundJob).where(eq(backgroundJob.id, jobId));
+    // Two starts: the killed one and the one that finished.
+    expect(job!.attempts).toBe(2);
+    expect(cluster.output()).toMatch(new RegExp(`worker-\\d \\(pid ${holder}\\) exited \\(SIGKILL\\)`));
+  }, 240_000);
+
+  it('keeps on a session the address nginx was connected from, not the X-Forwarded-For the client sent', async () => {
+    const email = 'forwarded@lab.test';
+    const res = await requestFrom('127.0.0.23', `${cluster.url}/api/auth/sign-up/email`, { headers: { origin: cluster.url, 'x-forwarded-for': '203.0.113.9', 'x-real-ip': '203.0.113.9' }, body: { name: 'Forwarded', email, password: 'correct-horse-battery' } });
+    expect(res.status).toBe(200);
+    const [row] = await database.db.select({ ip: session.ipAddress }).from(session).innerJoin(user, eq(user.id, session.userId)).where(eq(user.email, email));
+    expect(row!.ip).toBe('127.0.0.23');
+  });
 
   it('has a worker print the report PDF asked for through nginx, and reprocess the campaign', async () => {
     const pdf = await fetch(`${cluster.url}/api/campaigns/${built.campaignId}/report.pdf`, { headers: { cookie: client.cookie } });

@@ -78,7 +78,8 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
 
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', false);
+  // Whose X-Forwarded-For names the client (TRUST_PROXY; nobody's by default): req.ip follows it.
+  app.set('trust proxy', config.trustProxy);
   app.use(
     helmet({
       contentSecurityPolicy: {
@@ -99,7 +100,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
       const started = process.hrtime.bigint();
       res.on('finish', () => {
         const ms = Number(process.hrtime.bigint() - started) / 1e6;
-        log(`${req.method} ${req.originalUrl.split('?')[0]} ${res.statusCode} ${ms.toFixed(1)} ms`);
+        log(`${req.method} ${req.originalUrl.split('?')[0]} ${res.statusCode} ${ms.toFixed(1)} ms ${req.ip ?? '-'}`);
       });
       next();
     });

@@ -101,7 +101,8 @@ export function authHandler(auth: Auth, limit: { max: number; windowS: number },
         if (Array.isArray(value)) value.forEach((v) => headers.append(key, v));
         else headers.set(key, value);
       }
-      headers.set(CLIENT_IP_HEADER, req.socket.remoteAddress ?? 'unknown');
+      // req.ip: the socket address, or X-Forwarded-For as far as TRUST_PROXY's proxies vouch for it.
+      headers.set(CLIENT_IP_HEADER, req.ip ?? req.socket.remoteAddress ?? 'unknown');
       let body: Buffer | undefined;
       if (req.method !== 'GET' && req.method !== 'HEAD') {
         const read = await readBody(req);

@@ -2,6 +2,7 @@
 // run needs no settings. Nothing else in the API reads process.env.
 import { randomBytes } from 'node:crypto';
 import fs from 'node:fs';
+import net from 'node:net';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
@@ -49,6 +50,12 @@ const envSchema = z.object({
   JOB_POLL_S: z.coerce.number().min(0.5).max(60).default(1),
   JOB_RETRY_LIMIT: z.coerce.number().int().min(0).max(20).default(3),
   REPROCESS_CHUNK: z.coerce.number().int().min(1).max(500).default(10),
+  /**
+   * Which peers may say who the client is (X-Forwarded-For): `false` (default: nobody, the socket
+   * address is the client), a hop count, or a comma-separated list of addresses, CIDR ranges or
+   * Express's names loopback / linklocal / uniquelocal — e.g. `loopback` for nginx on the same host.
+   */
+  TRUST_PROXY: z.string().default('false'),
 });
 
 export interface Config {
@@ -90,6 +97,12 @@ export interface Config {
    * DOFs one part of a campaign reprocess holds.
    */
   jobs: { inProcess: boolean; leaseS: number; maxRuntimeS: number; pollS: number; retryLimit: number; reprocessChunk: number };
+  /**
+   * Express's `trust proxy`: false (the socket address is the client), a number of proxy hops, or
+   * the addresses / ranges / names of the proxies whose X-Forwarded-For is believed. Rate limits per
+   * client IP, session rows and request log lines use the address it yields (req.ip).
+   */
+  trustProxy: false | number | string[];
 }
 
 export class ConfigError extends Error {}
@@ -159,6 +172,30 @@ function originsFor(publicUrl: string, env: string, extra: string | undefined): 
   return origins;
 }
 
+const PROXY_NAMES = new Set(['loopback', 'linklocal', 'uniquelocal']);
+
+/** TRUST_PROXY → Express's `trust proxy` value; `true` (believe any peer) is refused, it lets every client pick its own address. */
+function trustProxyOf(raw: string): Config['trustProxy'] {
+  const value = raw.trim();
+  if (value === 'false' || value === '0' || value === '') return false;
+  if (/^\d+$/.test(value)) {
+    const hops = Number(value);
+    if (hops > 10) throw new ConfigError(`invalid configuration:\n  TRUST_PROXY: ${hops} hops is more proxies than any deployment has (at most 10)`);
+    return hops;
+  }
+  if (value === 'true') throw new ConfigError('invalid configuration:\n  TRUST_PROXY: "true" would believe an X-Forwarded-For from any client; name the proxies instead (e.g. loopback, or 10.0.0.0/8)');
+  const entries = value.split(',').map((v) => v.trim()).filter(Boolean);
+  for (const entry of entries) {
+    const [address, bits, extra] = entry.split('/');
+    const ok =
+      extra === undefined &&
+      (PROXY_NAMES.has(entry) ||
+        (net.isIP(address!) !== 0 && (bits === undefined || (/^\d+$/.test(bits) && Number(bits) <= (net.isIP(address!) === 4 ? 32 : 128)))));
+    if (!ok) throw new ConfigError(`invalid configuration:\n  TRUST_PROXY: "${entry}" is not an address, a CIDR range (10.0.0.0/8) or one of loopback, linklocal, uniquelocal`);
+  }
+  return entries;
+}
+
 export function loadConfig(env: Record<string, string | undefined>): Config {
   const parsed = envSchema.safeParse(env);
   if (!parsed.success) {
@@ -199,5 +236,6 @@ export function loadConfig(env: Record<string, string | undefined>): Config {
       idleTimeoutMs: Math.round(e.HTTP_IDLE_TIMEOUT_S * 1000),
     },
     jobs: { inProcess: e.JOBS_IN_PROCESS, leaseS: e.JOB_LEASE_S, maxRuntimeS: e.JOB_MAX_RUNTIME_S, pollS: e.JOB_POLL_S, retryLimit: e.JOB_RETRY_LIMIT, reprocessChunk: e.REPROCESS_CHUNK },
+    trustProxy: trustProxyOf(e.TRUST_PROXY),
   };
 }

@@ -5,6 +5,7 @@
 // worker when its lease runs out.
 import { migrateDatabase } from '@resonote/db/migrate';
 import { openDb } from '@resonote/db/client';
+import { useFastFft } from '@resonote/dsp/fast-fft';
 import { ConfigError, loadConfig, type Config } from './config.ts';
 import { CampaignEvents } from './hits/events.ts';
 import { Jobs } from './jobs/queue.ts';
@@ -26,6 +27,11 @@ try {
   console.error(`[resonote worker] database migration failed: ${(err as Error).message}`);
   process.exit(1);
 }
+
+// The same FFT as the API processes (PFFFT when this Node runs WebAssembly SIMD, docs/decisions/fast-fft.md):
+// the FFT in use is part of a stored result's input hash, so results a worker writes serve the APIs.
+const fastFft = await useFastFft();
+console.log(`[resonote worker] FFT: ${fastFft ? 'PFFFT WebAssembly SIMD (float32)' : 'fft.js (float64)'}`);
 
 const database = openDb(config.databaseUrl, { max: 4 });
 // Workers only publish notices; the API processes listen.

@@ -72,30 +72,83 @@ export function averageFrf(hits: readonly Hit[], fs: number, options: AverageFrf
   if (n === 0) throw new RangeError('hits[0].force is empty (length 0)');
   const channels = first.responses.length;
   if (channels === 0) throw new RangeError('hits[0].responses is empty: at least one response channel is needed');
-  hits.forEach((h, i) => {
-    if (!h || !h.force || !Array.isArray(h.responses)) throw new RangeError(`hits[${i}] must have force and responses`);
-    checkSameLength(n, h.force.length, 'hits[0].force', `hits[${i}].force`);
-    if (h.responses.length !== channels) {
-      throw new RangeError(`hits[${i}] has ${h.responses.length} response channels but hits[0] has ${channels}`);
-    }
-    h.responses.forEach((r: ArrayLike<number>, c: number) => checkSameLength(n, r?.length ?? 0, `hits[${i}].force`, `hits[${i}].responses[${c}]`));
-  });
+  hits.forEach((h, i) => checkHitShape(h, i, n, channels));
 
   const { fw, ew } = impactWindows(n, fs, options.forceWindow, options.exponentialWindow);
   const avg = pooledAverager(n, channels);
-  const pre = options.offsets?.preTriggerSamples;
-  hits.forEach((raw, i) => {
-    let h: Hit = raw;
-    if (pre !== undefined) {
-      const [force, ...responses] = removeOffsets([raw.force, ...raw.responses], pre);
-      h = { force: force!, responses };
-    }
-    avg.add(h.force, h.responses, 0, fw, ew, {
-      ref: `hits[${i}].force`,
-      other: (c) => `hits[${i}].responses[${c}]`,
-    });
-  });
+  hits.forEach((raw, i) => addHit(avg, raw, i, fw, ew, options.offsets?.preTriggerSamples));
   return frfFromSums(avg, fs, options.hv === true);
+}
+
+function checkHitShape(h: Hit, i: number, n: number, channels: number): void {
+  if (!h || !h.force || !Array.isArray(h.responses)) throw new RangeError(`hits[${i}] must have force and responses`);
+  checkSameLength(n, h.force.length, 'hits[0].force', `hits[${i}].force`);
+  if (h.responses.length !== channels) {
+    throw new RangeError(`hits[${i}] has ${h.responses.length} response channels but hits[0] has ${channels}`);
+  }
+  h.responses.forEach((r: ArrayLike<number>, c: number) => checkSameLength(n, r?.length ?? 0, `hits[${i}].force`, `hits[${i}].responses[${c}]`));
+}
+
+function addHit(avg: SpectralAverager, raw: Hit, i: number, fw: Float64Array | null, ew: Float64Array | null, pre: number | undefined): void {
+  let h: Hit = raw;
+  if (pre !== undefined) {
+    const [force, ...responses] = removeOffsets([raw.force, ...raw.responses], pre);
+    h = { force: force!, responses };
+  }
+  avg.add(h.force, h.responses, 0, fw, ew, {
+    ref: `hits[${i}].force`,
+    other: (c) => `hits[${i}].responses[${c}]`,
+  });
+}
+
+/**
+ * averageFrf one hit at a time: the raw sums of the hits added so far are kept, so a new hit costs
+ * one record's transforms instead of all of them again. Adding the same hits in the same order
+ * gives bit-for-bit the result of averageFrf (the same sums, accumulated in the same order).
+ * Records must be n samples of `channels` response channels each.
+ */
+export class FrfAccumulator {
+  private readonly avg: SpectralAverager;
+  private readonly fw: Float64Array | null;
+  private readonly ew: Float64Array | null;
+
+  constructor(
+    readonly n: number,
+    readonly channels: number,
+    readonly fs: number,
+    readonly options: AverageFrfOptions,
+    from?: SpectralAverager,
+  ) {
+    checkFs(fs);
+    if (!Number.isInteger(n) || n < 1) throw new RangeError(`n=${n} must be a positive integer`);
+    if (!Number.isInteger(channels) || channels < 1) throw new RangeError(`channels=${channels} must be a positive integer`);
+    if (!options || typeof options !== 'object') throw new RangeError(`options=${String(options)} must be an object`);
+    ({ fw: this.fw, ew: this.ew } = impactWindows(n, fs, options.forceWindow, options.exponentialWindow));
+    this.avg = from ?? new SpectralAverager(n, channels);
+  }
+
+  /** Hits added so far. */
+  get count(): number {
+    return this.avg.count;
+  }
+
+  /** Adds one hit (validated as averageFrf validates hits[count]). */
+  add(hit: Hit): void {
+    const i = this.avg.count;
+    checkHitShape(hit, i, this.n, this.channels);
+    addHit(this.avg, hit, i, this.fw, this.ew, this.options.offsets?.preTriggerSamples);
+  }
+
+  /** A copy that goes on independently of this one. */
+  copy(): FrfAccumulator {
+    return new FrfAccumulator(this.n, this.channels, this.fs, this.options, this.avg.copy());
+  }
+
+  /** The averaged FRF of the hits added so far (at least one). */
+  result(): AveragedFrf {
+    if (this.avg.count === 0) throw new RangeError('hits is empty (length 0): at least one hit is needed');
+    return frfFromSums(this.avg, this.fs, this.options.hv === true);
+  }
 }
 
 const windowCache = new Map<string, { fw: Float64Array | null; ew: Float64Array | null }>();

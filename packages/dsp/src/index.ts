@@ -30,7 +30,7 @@ export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
 export { fftPathName } from './fft.ts';
 export { removeOffsets, channelOffset } from './offsets.ts';
 export { splitRecords, type SplitOptions, type SplitRecords } from './records.ts';
-export { averageFrf, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
+export { averageFrf, FrfAccumulator, convertFrf, type Hit, type AverageFrfOptions, type AveragedFrf, type FrfKind } from './frf.ts';
 export { mac, frac } from './assurance.ts';
 export * from './modal/index.ts';
 export { resamplePoly, resampleRatio, resampleFilter, type ResampleRatio } from './resample.ts';

@@ -23,6 +23,19 @@ export class SpectralAverager {
   /** Number of records accumulated. */
   count = 0;
 
+  /** The sums copied into a new averager of the same shape (its own buffers). */
+  copy(): SpectralAverager {
+    const out = new SpectralAverager(this.n, this.channels);
+    out.refAuto.set(this.refAuto);
+    for (let c = 0; c < this.channels; c++) {
+      out.auto[c].set(this.auto[c]);
+      out.crossRe[c].set(this.crossRe[c]);
+      out.crossIm[c].set(this.crossIm[c]);
+    }
+    out.count = this.count;
+    return out;
+  }
+
   /** Clears the sums so the same buffers serve another average. */
   reset(): void {
     this.refAuto.fill(0);

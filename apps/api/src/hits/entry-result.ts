@@ -4,7 +4,7 @@
 // is recomputable from them and the settings.
 import { createHash } from 'node:crypto';
 import { and, asc, eq } from 'drizzle-orm';
-import { FRF_ALGORITHM_VERSION, averageFrf, fftPathName, type AveragedFrf } from '@resonote/dsp';
+import { FRF_ALGORITHM_VERSION, averageFrf, fftPathName, type AverageFrfOptions, type AveragedFrf } from '@resonote/dsp';
 import type { AcquisitionSettings } from '@resonote/contracts';
 import { frfResult, hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
@@ -12,7 +12,7 @@ import type { ChannelSnapshot } from './channel-map.ts';
 import { currentSettings, preTriggerSamples, recordSamples, type CurrentSettings } from './current-settings.ts';
 import { frfWindowsOf } from './settings-to-dsp.ts';
 import { decodeFrf, encodeFrf } from './samples-codec.ts';
-import { hitSamples, rememberResult, rememberedResult, scheduleResultWrite } from './result-cache.ts';
+import { averageIncrementally, rememberResult, rememberedResult, scheduleResultWrite } from './result-cache.ts';
 
 export interface ResultChannel {
   dof: string;
@@ -46,8 +46,13 @@ export function averageHits(hits: readonly Float32Array[][], s: AcquisitionSetti
   return averageFrf(
     hits.map((chans) => ({ force: chans[0]!, responses: chans.slice(1) })),
     s.sampleRateHz,
-    { ...frfWindowsOf(s), offsets: { preTriggerSamples: preTriggerSamples(s) } },
+    frfOptionsOf(s),
   );
+}
+
+/** The averaging options of the settings: windows and pre-trigger offset removal. */
+function frfOptionsOf(s: AcquisitionSettings): AverageFrfOptions {
+  return { ...frfWindowsOf(s), offsets: { preTriggerSamples: preTriggerSamples(s) } };
 }
 
 /** Mean of `values` over the lines of f inside [lo, hi], leaving out 0 Hz; 0 when no line is inside. */
@@ -142,7 +147,13 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
     return fromDb;
   }
 
-  const frf = averageHits(await hitSamples(db, sameLayout.map((h) => h.id), layout.length, n), s);
+  const frf = await averageIncrementally(
+    db,
+    entryId,
+    { settingsVersion: settings.version, sampleRateHz: s.sampleRateHz, samplesPerChannel: n, channelCount: layout.length },
+    sameLayout,
+    () => frfOptionsOf(s),
+  );
   const channels: ResultChannel[] = responseChannels.map((c, i) => ({ dof: c.dof, unit: c.unit, sign: c.sign, meanCoherence: meanOverBand(frf.coherence[i]!, frf.f, s.bandHz.low, s.bandHz.high) }));
   const computedAt = new Date();
   const values = {

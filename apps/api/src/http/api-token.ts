@@ -81,7 +81,7 @@ export function resolveApiToken(db: Db, limiter: TokenFailureLimiter): RequestHa
     const header = req.headers.authorization ?? '';
     const match = /^Bearer\s+(rn_\S*)\s*$/i.exec(header);
     if (!match) return next();
-    const client = req.socket.remoteAddress ?? 'unknown';
+    const client = req.ip ?? req.socket.remoteAddress ?? 'unknown';
     try {
       const wait = limiter.blockedFor(client);
       if (wait > 0) {
