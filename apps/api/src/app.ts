@@ -35,6 +35,7 @@ import { registerSystemRoutes } from './routes/system.ts';
 import { registerHandoverRoutes } from './routes/handover.ts';
 import { registerTokenRoutes } from './routes/tokens.ts';
 import { registerArmingRoutes } from './routes/arming.ts';
+import { registerLiveInputRoutes } from './routes/live-input.ts';
 import { registerFeModelRoutes } from './routes/fe-models.ts';
 
 export interface AppHandle {
@@ -123,6 +124,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerHitRoutes(deps, events);
   registerTokenRoutes(deps);
   registerArmingRoutes(deps, events);
+  registerLiveInputRoutes(deps);
   registerNoiseRoutes(deps);
   const fits = new FitQueue(database.db, jobs);
   registerModeRoutes(deps, fits);

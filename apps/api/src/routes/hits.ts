@@ -36,7 +36,7 @@ import {
 } from '../hits/processing.ts';
 import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
-import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
+import { keepOriginal, resampledFromOf, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
 import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
@@ -402,14 +402,15 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     access: 'viewer',
     summary: 'Averaged FRFs of an entry (H1, H2 per response channel, coherence, force ESD) in the requested kind; only the band of interest unless band=all',
     query: z.strictObject({ kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
-    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
+    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash, resampled, resampledFromHz, resampledHits }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
     handler: async ({ params, query, campaign: access }) => {
       const entry = await loadEntry(access.campaignId, params.entryId!);
       const settings = await currentSettings(db, access.campaignId);
       const result = await entryResult(db, access.campaignId, entry.id, settings);
       const about = { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint };
       if (!result) return { status: 'no-accepted-hit' as const, entry: about, message: `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.` };
-      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
+      const sources = await db.select({ source: hit.source }).from(hit).where(and(eq(hit.scheduleEntryId, entry.id), eq(hit.verdict, 'accept')));
+      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz), ...resampledFromOf(sources.map((r) => r.source)) };
     },
   });
 
