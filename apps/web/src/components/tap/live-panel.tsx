@@ -72,11 +72,6 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
 
   return (
     <div className="space-y-3" data-testid="live-panel" data-engine={live.engine}>
-      <aside className="rounded-md border border-warn/50 bg-warn/8 px-3 py-2 text-xs" data-testid="live-instrument-note">
-        <p className="font-semibold text-warn">An audio interface is not a calibrated measurement instrument</p>
-        <p className="mt-0.5">unless its scaling has been checked: enter each channel's volts at full scale in Kit and check a sensor with a handheld calibrator below before you trust levels in N and m/s².</p>
-      </aside>
-      <SafetyNote />
 
       {unscaled.length > 0 && (
         <Notice tone="error">
@@ -122,20 +117,13 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
         <Notice tone={s.resampleUploads ? 'info' : 'error'}>
           <span data-testid="live-rate-differs">
             The input runs at <span className="num">{Math.round(rate!)} Hz</span>; the campaign's settings ask for <span className="num">{s.sampleRateHz} Hz</span>.{' '}
-            {s.resampleUploads ? 'The settings allow resampling, so every hit is resampled to the settings’ rate on the server (all channels alike) and the FRF says so.' : 'Hits at another rate are refused. The lead either sets the campaign to this rate (44.1, 48 and 96 kHz are usual for audio interfaces) or allows resampling of uploads in the settings.'}
+            {s.resampleUploads ? 'Resampling is allowed: each hit is resampled to the settings’ rate on the server (all channels alike) and the FRF says so.' : 'Hits at another rate are refused: the lead sets the campaign to this rate (44.1, 48 and 96 kHz are usual) or allows resampling in the settings.'}
           </span>
           {isLead && !s.resampleUploads && (
             <Button variant="secondary" className="mt-2" onClick={() => void takeRate()}>
               Set the campaign to {Math.round(rate!)} Hz
             </Button>
           )}
-        </Notice>
-      )}
-      {lowCuts.length > 0 && s && (
-        <Notice tone="info">
-          <span data-testid="live-low-cut">
-            The band of interest starts at <span className="num">{s.bandHz.low} Hz</span>, below the interface's AC-coupling low cut-off on channel{lowCuts.length > 1 ? 's' : ''} {lowCuts.map((x) => `${x.channel} (${x.acLowCutHz} Hz)`).join(', ')}: the FRF there is shaped by the interface, not the structure.
-          </span>
         </Notice>
       )}
 
@@ -197,6 +185,18 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
       )}
 
       <CaptureList captures={live.captures} />
+      {lowCuts.length > 0 && s && (
+        <Notice tone="info">
+          <span data-testid="live-low-cut">
+            The band of interest starts at <span className="num">{s.bandHz.low} Hz</span>, below the interface's AC-coupling low cut-off on channel{lowCuts.length > 1 ? 's' : ''} {lowCuts.map((x) => `${x.channel} (${x.acLowCutHz} Hz)`).join(', ')}: the FRF there is shaped by the interface, not the structure.
+          </span>
+        </Notice>
+      )}
+      <aside className="rounded-md border border-warn/50 bg-warn/8 px-3 py-2 text-xs" data-testid="live-instrument-note">
+        <p className="font-semibold text-warn">An audio interface is not a calibrated measurement instrument</p>
+        <p className="mt-0.5">unless its scaling has been checked: enter each channel's volts at full scale in Kit and check a sensor with a handheld calibrator below before you trust levels in N and m/s².</p>
+      </aside>
+      <SafetyNote />
       {live.running && s && <SensitivityCheck campaignId={campaignId} channels={sorted.filter((c) => c.kind === 'accelerometer')} scaling={scale} grab={live.grab} />}
     </div>
   );

@@ -129,8 +129,9 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
             setWaitingFor(null);
             apply(campaignId, item.entryId, answer);
             patch(item.key, { state: 'stored', hit: answer.hits[0], message: answer.hits.length === 0 ? answer.skipped.map((s) => s.reason).join('; ') || 'no hit found in the record' : undefined });
-            // capture → verdict on screen, read by bench/live-latency.ts
-            performance.measure('resonote-live-verdict', { start: item.capturedAt - performance.timeOrigin, end: performance.now() });
+            // Capture → verdict on screen (two frames later it is painted), read by tests/bench/live-latency.ts.
+            const start = item.capturedAt - performance.timeOrigin;
+            requestAnimationFrame(() => requestAnimationFrame(() => performance.measure('resonote-live-verdict', { start, end: performance.now() })));
             onStoredRef.current(answer);
           } catch (err) {
             if (isTransient(err)) {
@@ -158,6 +159,8 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
     const r = run.current;
     run.current = null;
     if (!r) return;
+    // Meter readings still queued in the port must not bring the state back to "armed".
+    r.node.port.onmessage = null;
     r.node.port.postMessage({ type: 'stop' } satisfies WorkletIn);
     r.node.disconnect();
     r.stream.getTracks().forEach((t) => t.stop());
@@ -222,6 +225,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
         run.current = current;
         node.port.onmessage = (e: MessageEvent<WorkletOut>) => {
           const m = e.data;
+          if (run.current !== current) return;
           if (m.type === 'meter') {
             setMeter(m);
             setFrames({ seen: m.framesSeen, dropped: m.droppedFrames });
@@ -231,7 +235,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
             grabs.current.delete(m.id);
           } else if (m.type === 'record') {
             const p = current.plan;
-            if (run.current !== current || (p.stopAfter !== null && current.taken >= p.stopAfter)) return;
+            if (p.stopAfter !== null && current.taken >= p.stopAfter) return;
             current.taken += 1;
             const capturedAt = Date.now();
             const volts = sorted.map((c) => {

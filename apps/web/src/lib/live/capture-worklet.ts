@@ -38,11 +38,12 @@ class LiveCaptureProcessor extends AudioWorkletProcessor {
   process(inputs: Float32Array[][]): boolean {
     if (!this.running) return false;
     const input = inputs[0];
+    // The audio thread calls once per render quantum (128 frames); a gap in currentFrame between
+    // two calls is frames it never rendered. Quanta before the stream delivers have no channels.
+    if (this.lastFrame >= 0 && currentFrame - this.lastFrame > 128) this.dropped += currentFrame - this.lastFrame - 128;
+    this.lastFrame = currentFrame;
     if (!input || input.length === 0) return true;
     const frames = input[0]!.length;
-    // The audio thread calls once per render quantum; a gap in currentFrame is frames never seen.
-    if (this.lastFrame >= 0 && currentFrame - this.lastFrame > frames) this.dropped += currentFrame - this.lastFrame - frames;
-    this.lastFrame = currentFrame;
     const n = this.engine.options.channels;
     const block = Array.from({ length: n }, (_, c) => input[c] ?? new Float32Array(frames));
     this.engine.process(
