@@ -69,7 +69,9 @@ async function openLive(page: Page, dof: string, stopAfter: number) {
   await page.goto(`${app.baseUrl}/campaigns/${rig.campaignId}/tap?entry=${entryOf(dof).id}`);
   await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });
   await page.getByRole('tab', { name: 'Live input' }).click();
-  await page.getByTestId('live-panel').waitFor();
+  const panel = page.getByTestId('live-panel');
+  await panel.or(page.getByText(/could not be loaded/)).first().waitFor({ timeout: 30_000 });
+  expect(await panel.count(), (await page.getByRole('tabpanel', { name: 'Live input' }).textContent()) ?? '').toBe(1);
   await page.getByTestId('live-stop-after').fill(String(stopAfter));
   await page.getByTestId('live-start').click();
   await page.locator('[data-testid="live-panel"][data-engine="armed"]').waitFor({ timeout: 20_000 });
@@ -90,6 +92,8 @@ describe('Tap with the live input', () => {
       // The band starts at 10 Hz, above the 3 Hz low cut-off entered in Kit: no warning.
       expect(await page.getByTestId('live-low-cut').count()).toBe(0);
       await page.getByTestId('live-meter').first().waitFor();
+      // The live input arms its DOF, so everyone on the campaign sees who captures where.
+      await page.getByLabel('Armed DOFs').getByText(/Eric Engineer: B01:\+Z → B21:\+Z/).waitFor({ timeout: 15_000 });
       expect(await page.getByTestId('live-state-word').textContent()).toMatch(/^(armed|recording)$/);
       await settled(page);
       await screenshot(page, 'tap-live-armed-1366');

@@ -51,6 +51,15 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
     if (plan && optionsOk) retarget(plan);
   });
   useEffect(() => void resume(campaignId), [campaignId, resume]);
+  // While the live input runs, the DOF it sends to is armed for this engineer, so everyone on the
+  // campaign sees it in the armed-DOF list (the same arming as the watched-folder bridge's).
+  const running = live.running;
+  useEffect(() => {
+    if (!running) return;
+    api(`/campaigns/${campaignId}/arming`, { method: 'PUT', body: { entryId } })
+      .then((next) => client.setQueryData(['campaign', campaignId, 'arming'], next))
+      .catch(() => undefined);
+  }, [running, campaignId, entryId, client]);
 
   if (channels.isPending || settings.isPending || scaling.isPending) return <Spinner label="Loading the channel map and the settings…" />;
   if (channels.isError || settings.isError || scaling.isError) return <Notice tone="error">The channel map, settings or input scaling could not be loaded. Reload the page.</Notice>;
