@@ -1,5 +1,5 @@
 // Benchmark: live capture → verdict on screen, over 100 hits fake-captured on loopback. Chromium's
-// fake audio input plays a simulated 48 kHz stereo WAV of the steel bar (support/live-wav.ts: ten
+// fake audio input plays a simulated 44.1 kHz stereo WAV of the steel bar (support/live-wav.ts: ten
 // clean hits 1.5 s apart, looped by Chromium); Tap's live input triggers, keeps each hit in
 // IndexedDB, uploads it, and shows its verdict. The time runs from the moment the page receives
 // the finished record from the AudioWorklet (at most one 128-frame quantum, 2.9 ms at 44.1 kHz,
@@ -22,7 +22,7 @@ const template = 'resonote_tpl_live_bench';
 await createTemplate(template);
 const app = await startTestApp(template, {}, { listen: true });
 const { engineer, rig } = await liveCampaign(app, { recordLengthS: 1, hitsToAverage: 5 });
-const wavPath = path.join(screenshotDir, '..', 'live', 'bench-bar-48k.wav');
+const wavPath = path.join(screenshotDir, '..', 'live', 'bench-bar-44k1.wav');
 fs.mkdirSync(path.dirname(wavPath), { recursive: true });
 fs.writeFileSync(wavPath, liveBarWav('B01:+Z', { kinds: Array(10).fill('clean'), spacingS: 1.5, seed: 99 }).wav);
 const browser = await launchBrowser(fakeAudioInput(wavPath));

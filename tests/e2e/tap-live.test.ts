@@ -3,9 +3,12 @@
 // the B21:+Z accelerometer on input 2, scaled to digital units by the channels' volts at full
 // scale) as if an audio interface delivered it. The engineer arms Tap; hits arrive by themselves
 // through the AudioWorklet's trigger, go to the DOF on screen with their own keys, and get the
-// verdicts the simulator built in (a double hit, a clipped hit). Chromium runs its fake device at
-// 44.1 kHz and resamples the 48 kHz file for it, both channels alike, so the FRF (their ratio) holds;
-// the campaign allows resampling of uploads, and the server brings the hits back to 48 kHz.
+// verdicts the simulator built in (a double hit, a clipped hit). Chromium's fake device runs at
+// 44.1 kHz and plays a file's samples at that rate without resampling them (a 48 kHz file would
+// come out slowed by 44.1/48, every mode 8 % low), so the simulator writes the file at 44.1 kHz.
+// Whatever Chromium does to the file, it does to both channels alike, so the FRF (their ratio)
+// holds. The campaign runs at 48 kHz and allows resampling of uploads: the server brings each hit
+// from the device's 44.1 kHz to 48 kHz, and the FRF says so.
 // Chromium loops the file: the test stops after one pass ("Stop after" on the panel).
 // Second case: the upload route answers 503 or not at all for a while mid-capture; every hit waits
 // on the device, is counted on screen, and is stored exactly once, in order.
@@ -33,7 +36,7 @@ const bar = steelBar();
 beforeAll(async () => {
   app = await startTestApp('resonote_tpl_e2e', process.env.RESONOTE_WEB_DIST ? { WEB_DIST: process.env.RESONOTE_WEB_DIST } : {}, { listen: true });
   ({ engineer, rig } = await liveCampaign(app));
-  const wavPath = path.join(screenshotDir, '..', 'live', 'bar-b01-48k.wav');
+  const wavPath = path.join(screenshotDir, '..', 'live', 'bar-b01-44k1.wav');
   fs.mkdirSync(path.dirname(wavPath), { recursive: true });
   fs.writeFileSync(wavPath, liveBarWav('B01:+Z').wav);
   browser = await launchBrowser(fakeAudioInput(wavPath));
@@ -68,7 +71,9 @@ const stored = (page: Page) => page.locator('[data-testid="live-capture"][data-s
 async function openLive(page: Page, dof: string, stopAfter: number) {
   await page.goto(`${app.baseUrl}/campaigns/${rig.campaignId}/tap?entry=${entryOf(dof).id}`);
   await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });
-  await page.getByRole('tab', { name: 'Live input' }).click();
+  // The geometry view draws in WebGL (software-rendered here): let the page settle before the click.
+  await settled(page);
+  await page.getByRole('tab', { name: 'Live input' }).click({ timeout: 60_000 });
   const panel = page.getByTestId('live-panel');
   await panel.or(page.getByText(/could not be loaded/)).first().waitFor({ timeout: 30_000 });
   expect(await panel.count(), (await page.getByRole('tabpanel', { name: 'Live input' }).textContent()) ?? '').toBe(1);
@@ -118,6 +123,24 @@ describe('Tap with the live input', () => {
       const rows = await app.handle.database.db.select({ key: hit.idempotencyKey, source: hit.source, fs: hit.sampleRateHz }).from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
       expect(new Set(rows.map((r) => r.key)).size).toBe(LIVE_HITS.length);
       for (const r of rows) expect(r.fs).toBe(LIVE_FS);
+
+      // Force and response stay aligned through the interface path: in the simulator's hits the
+      // response first reaches 10 % of its peak within 3 ms of the force peak (support/live-wav.ts:
+      // a 1 ms pulse on a bar whose response rises within the pulse).
+      const raw = await app.handle.database.db.select({ samples: hit.samples, n: hit.samplesPerChannel, fs: hit.sampleRateHz, verdict: hit.verdict }).from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
+      const lagsMs = raw.map((r) => {
+        const all = new Float32Array(Uint8Array.from(r.samples).buffer);
+        const force = all.subarray(0, r.n);
+        const resp = all.subarray(r.n, 2 * r.n);
+        let fPeak = 0;
+        for (let i = 1; i < r.n; i++) if (force[i]! > force[fPeak]!) fPeak = i;
+        let aMax = 0;
+        for (let i = 0; i < r.n; i++) aMax = Math.max(aMax, Math.abs(resp[i]!));
+        let onset = 0;
+        while (Math.abs(resp[onset]!) < 0.1 * aMax) onset += 1;
+        return ((onset - fPeak) / r.fs) * 1000;
+      });
+      for (const lag of lagsMs) expect(Math.abs(lag), `response onset − force peak per hit (ms): ${lagsMs.map((l) => l.toFixed(2)).join(', ')}`).toBeLessThan(3);
 
       const frf = (await engineer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry.id}/frf?kind=accelerance`)).body;
       expect(frf.averages).toBe(LIVE_HITS.filter((k) => k === 'clean').length);

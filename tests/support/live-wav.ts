@@ -1,11 +1,18 @@
 // The fake audio input of the live-input browser tests: what an audio-class interface would
-// deliver from the simulated steel bar (packages/sim), written as a 48 kHz stereo float WAV in
+// deliver from the simulated steel bar (packages/sim), written as a stereo float WAV in
 // digital units — force on input 1, the B21:+Z accelerometer on input 2, each divided by the
-// channel's volts at full scale — so Chromium's fake capture device plays it into Tap.
+// channel's volts at full scale — so Chromium's fake capture device plays it into Tap (at 44.1 kHz, see FAKE_DEVICE_FS).
 import { createRng, simulateHit, steelBar } from '@resonote/sim';
 import { encodeWav } from '@resonote/api/recording';
 
+/** The campaign's rate. */
 export const LIVE_FS = 48_000;
+/**
+ * The rate of the fake device's file. Chromium's fake capture device runs at 44.1 kHz and plays
+ * the file's samples at its own rate without resampling them (measured with a ramp: the step per
+ * captured sample is the file's step, whatever the header says), so the file is written at 44.1 kHz.
+ */
+export const FAKE_DEVICE_FS = 44_100;
 /** The bar rig's sensitivities (tests/support/rig.ts) and the interface's full scales. */
 export const LIVE_KIT = { hammerMvPerN: 2.25, accelMvPerMs2: 10.2, forceFullScaleV: 0.5, accelFullScaleV: 5 } as const;
 /** Full scale in engineering units: 0.5 V / 2.25 mV/N = 222.2 N, 5 V / 10.2 mV/(m/s²) = 490.2 m/s². */
@@ -18,14 +25,15 @@ export const LIVE_HITS: LiveHitKind[] = ['clean', 'double', 'clean', 'clipped', 
 export const LIVE_SPACING_S = 8;
 const LEAD_IN_S = 1;
 
-export function liveBarWav(excitationDof: string, options: { seed?: number; kinds?: LiveHitKind[]; spacingS?: number } = {}): { wav: Buffer; hitStartsS: number[] } {
+export function liveBarWav(excitationDof: string, options: { seed?: number; kinds?: LiveHitKind[]; spacingS?: number; fs?: number } = {}): { wav: Buffer; hitStartsS: number[] } {
+  const fs = options.fs ?? FAKE_DEVICE_FS;
   const kinds = options.kinds ?? LIVE_HITS;
   const spacingS = options.spacingS ?? LIVE_SPACING_S;
   const seed = options.seed ?? 4242;
   const bar = steelBar();
   const rng = createRng(seed);
-  const seg = Math.round(spacingS * LIVE_FS);
-  const lead = LEAD_IN_S * LIVE_FS;
+  const seg = Math.round(spacingS * fs);
+  const lead = LEAD_IN_S * fs;
   const total = lead + kinds.length * seg;
   const force = new Float64Array(total);
   const accel = new Float64Array(total);
@@ -41,10 +49,11 @@ export function liveBarWav(excitationDof: string, options: { seed?: number; kind
       {
         excitationDof,
         responseDofs: ['B21:+Z'],
-        fs: LIVE_FS,
+        fs,
         samples: seg,
         preTriggerS: 0.2,
-        peakForceN: kind === 'clipped' ? 400 : 50,
+        // The clipped hit: 1500 N into a 222 N full scale, flat at full scale for most of its contact.
+        peakForceN: kind === 'clipped' ? 1500 : 50,
         pulseWidthS: 0.001,
         ...(kind === 'double' ? { doubleHit: { delayS: 0.004, ratio: 0.5 } } : {}),
         forceNoiseN: 0.02,
@@ -57,11 +66,11 @@ export function liveBarWav(excitationDof: string, options: { seed?: number; kind
       rng,
     );
     const at = lead + h * seg;
-    hitStartsS.push(at / LIVE_FS + 0.2);
+    hitStartsS.push(at / fs + 0.2);
     for (let k = 0; k < seg; k++) {
       force[at + k] = (hit.force[k]! * LIVE_KIT.hammerMvPerN) / 1000 / LIVE_KIT.forceFullScaleV;
       accel[at + k] = (hit.responses[0]![k]! * LIVE_KIT.accelMvPerMs2) / 1000 / LIVE_KIT.accelFullScaleV;
     }
   });
-  return { wav: encodeWav([force, accel], LIVE_FS, 'float32', 1), hitStartsS };
+  return { wav: encodeWav([force, accel], fs, 'float32', 1), hitStartsS };
 }

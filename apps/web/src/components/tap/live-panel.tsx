@@ -111,7 +111,7 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
             </Button>
           )}
         </div>
-        <p className="text-xs text-[var(--muted)]">
+        <p className={`text-xs text-[var(--muted)] ${live.running ? 'hidden' : ''}`}>
           Needs {need} input channel{need === 1 ? '' : 's'}: interface input <span className="num">n</span> is channel <span className="num">n</span> of the channel map. Echo cancellation, noise suppression and automatic gain are switched off.
         </p>
       </div>
@@ -136,6 +136,7 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
         </Notice>
       )}
 
+      {!live.running && (
       <div className="grid grid-cols-3 gap-2">
         <label className="flex flex-col gap-1 text-xs font-medium">
           Trigger slope
@@ -159,9 +160,10 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
           </span>
         </label>
       </div>
+      )}
       {s && (
         <p className="num text-xs text-[var(--muted)]">
-          Trigger {s.triggerLevelN} N on channel {sorted.find((c) => c.kind === 'hammer')?.channel ?? '?'}, pre-trigger {(s.preTriggerS * 1000).toFixed(1)} ms, record {s.recordLengthS} s (settings)
+          Trigger {s.triggerLevelN} N ({slope}, hysteresis {hysteresisPct} %) on channel {sorted.find((c) => c.kind === 'hammer')?.channel ?? '?'}, pre-trigger {(s.preTriggerS * 1000).toFixed(1)} ms, record {s.recordLengthS} s (settings){stopN !== null ? `, stop after ${stopN} hits` : ''}
         </p>
       )}
 
