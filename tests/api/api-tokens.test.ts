@@ -227,6 +227,9 @@ describe('uploads at another sample rate', () => {
     const [original] = await app.handle.database.db.select().from(originalRecording).where(eq(originalRecording.id, res.body.resampled.originalRecordingId));
     expect(Buffer.compare(original!.bytes, wav)).toBe(0);
     expect(original!.sha256).toBe(createHash('sha256').update(wav).digest('hex'));
+    // A later read of the averaged FRF still says its hits were resampled, and from which rate.
+    const read = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry('B01:+Z').id}/frf`);
+    expect(read.body).toMatchObject({ status: 'ready', resampled: true, resampledFromHz: 12288, resampledHits: 3 });
 
     // The same structure recorded at the native rate, at another DOF: both against the closed form
     // (B01: the entry tests/api/hits.test.ts checks at the same lines. At B03 the resampled FRF came out 3.4 % off the closed form at 244 Hz once the bar model of main changed; not yet looked into).

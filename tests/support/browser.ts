@@ -7,12 +7,21 @@ import { chromium, type Browser, type Page } from 'playwright-core';
 
 export const screenshotDir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../../test-output/screenshots');
 
-export async function launchBrowser(): Promise<Browser> {
+/** `extraArgs` add to the usual ones (e.g. fakeAudioInput(wav) for the live input). */
+export async function launchBrowser(extraArgs: string[] = []): Promise<Browser> {
   return chromium.launch({
     executablePath: process.env.RESONOTE_CHROMIUM ?? '/usr/bin/chromium',
     headless: true,
-    args: ['--no-sandbox', '--use-angle=swiftshader', '--enable-unsafe-swiftshader', '--ignore-gpu-blocklist', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+    args: ['--no-sandbox', '--use-angle=swiftshader', '--enable-unsafe-swiftshader', '--ignore-gpu-blocklist', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync', ...extraArgs],
   });
+}
+
+/**
+ * Chromium's fake audio input playing `wavPath` (it loops the file) with the permission prompt
+ * answered yes: what the live-input tests need instead of an audio interface.
+ */
+export function fakeAudioInput(wavPath: string): string[] {
+  return ['--use-fake-ui-for-media-stream', '--use-fake-device-for-media-stream', `--use-file-for-fake-audio-capture=${wavPath}`, '--autoplay-policy=no-user-gesture-required'];
 }
 
 export const viewports = {

@@ -38,6 +38,7 @@ import { registerSystemRoutes } from './routes/system.ts';
 import { registerHandoverRoutes } from './routes/handover.ts';
 import { registerTokenRoutes } from './routes/tokens.ts';
 import { registerArmingRoutes } from './routes/arming.ts';
+import { registerLiveInputRoutes } from './routes/live-input.ts';
 import { registerFeModelRoutes } from './routes/fe-models.ts';
 import { registerKitPolicyRoutes } from './routes/kit-policy.ts';
 import { registerLabRoutes } from './routes/lab.ts';
@@ -133,6 +134,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerResultRoutes(deps, events);
   registerTokenRoutes(deps);
   registerArmingRoutes(deps, events);
+  registerLiveInputRoutes(deps);
   registerNoiseRoutes(deps);
   const fits = new FitQueue(database.db, jobs);
   registerModeRoutes(deps, fits);

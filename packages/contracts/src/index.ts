@@ -18,3 +18,4 @@ export * from './settings-patch.ts';
 export * from './settings-words.ts';
 export * from './kit-name.ts';
 export * from './fit-selection.ts';
+export * from './live.ts';

@@ -60,3 +60,22 @@ export function resampledSource(name: string, note: ResampleNote | null): string
   const base = `upload:${name.slice(0, 100)}`;
   return note ? `${base} (resampled ${note.fromHz} → ${note.toHz} Hz, polyphase; original kept)` : base;
 }
+
+/**
+ * What GET …/frf says about resampling: the rates the entry's accepted hits were resampled from
+ * (read back from the `source` that resampledSource wrote), so a reader of the averaged FRF knows
+ * that part of it went through resamplePoly. Empty when none was.
+ */
+export function resampledFromOf(sources: string[]): { resampled: boolean; resampledFromHz: number | null; resampledHits: number } {
+  const rates = new Set<number>();
+  let count = 0;
+  for (const s of sources) {
+    const m = /\(resampled (\d+(?:\.\d+)?) → (\d+(?:\.\d+)?) Hz/.exec(s);
+    if (m) {
+      count += 1;
+      rates.add(Number(m[1]));
+    }
+  }
+  // One rate is the usual case; with several, the lowest names the narrowest original band.
+  return { resampled: count > 0, resampledFromHz: rates.size ? Math.min(...rates) : null, resampledHits: count };
+}

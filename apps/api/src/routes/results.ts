@@ -1,6 +1,8 @@
 // What the campaign's hits add up to: averaged FRFs (one entry, or several for overlays), the
 // validity checks, the progress, and the stream of change notices. The routes validate, call hits/ and answer.
+import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
+import { hit } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { currentSettings } from '../hits/current-settings.ts';
@@ -10,6 +12,7 @@ import { frfOverlays } from '../hits/frf-overlays.ts';
 import { campaignChecks } from '../hits/campaign-checks.ts';
 import { campaignProgress } from '../hits/campaign-progress.ts';
 import { loadScheduleEntry } from '../hits/schedule-entry.ts';
+import { resampledFromOf } from '../hits/resample-upload.ts';
 import { kindSchema } from './hits.ts';
 
 export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvents): void {
@@ -20,14 +23,15 @@ export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvent
     access: 'viewer',
     summary: 'Averaged FRFs of an entry (H1, H2 per response channel, coherence, force ESD) in the requested kind; only the band of interest unless band=all',
     query: z.strictObject({ kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
-    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
+    returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash, resampled, resampledFromHz, resampledHits }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
     handler: async ({ params, query, campaign: access }) => {
       const entry = await loadScheduleEntry(db, access.campaignId, params.entryId!);
       const settings = await currentSettings(db, access.campaignId);
       const result = await entryResult(db, access.campaignId, entry.id, settings);
       const about = { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint };
       if (!result) return { status: 'no-accepted-hit' as const, entry: about, message: `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.` };
-      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz) };
+      const sources = await db.select({ source: hit.source }).from(hit).where(and(eq(hit.scheduleEntryId, entry.id), eq(hit.verdict, 'accept')));
+      return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz), ...resampledFromOf(sources.map((r) => r.source)) };
     },
   });
 

@@ -13,3 +13,4 @@ export * from './fe-model.ts';
 export * from './lab.ts';
 export * from './campaign-archive.ts';
 export * from './schedule-extra.ts';
+export * from './live.ts';

@@ -1,6 +1,6 @@
 // Where hits come from: the simulated rig (tip and a big Strike button) or an uploaded recording
 // (file picker or drag-and-drop, units, progress bar).
-import { useRef, useState, type DragEvent } from 'react';
+import { useRef, useState, type DragEvent, type ReactNode } from 'react';
 import { Button } from '../ui.tsx';
 import type { Tip, UploadFields } from './use-record.ts';
 
@@ -22,6 +22,7 @@ export function StrikePanel({
   busy,
   progress,
   failedUpload,
+  live,
 }: {
   tip: Tip;
   onTip: (t: Tip) => void;
@@ -30,8 +31,10 @@ export function StrikePanel({
   busy: string | null;
   progress: number | null;
   failedUpload: UploadFields | null;
+  /** The live input's panel (live-panel.tsx), shown under its own tab when given. */
+  live?: ReactNode;
 }) {
-  const [source, setSource] = useState<'rig' | 'upload'>('rig');
+  const [source, setSource] = useState<'rig' | 'upload' | 'live'>('rig');
   const [file, setFile] = useState<File | null>(null);
   const [units, setUnits] = useState<'volts' | 'engineering'>('volts');
   const [rate, setRate] = useState('');
@@ -45,7 +48,7 @@ export function StrikePanel({
     const f = e.dataTransfer.files[0];
     if (f) setFile(f);
   };
-  const tab = (value: 'rig' | 'upload', label: string) => (
+  const tab = (value: 'rig' | 'upload' | 'live', label: string) => (
     <button
       type="button"
       role="tab"
@@ -62,8 +65,13 @@ export function StrikePanel({
       <div role="tablist" aria-label="Source of hits" className="flex gap-1 rounded-lg bg-[var(--surface)] p-1">
         {tab('rig', 'Simulated rig')}
         {tab('upload', 'Upload recording')}
+        {live && tab('live', 'Live input')}
       </div>
-      {source === 'rig' ? (
+      {source === 'live' && live ? (
+        <div role="tabpanel" aria-label="Live input">
+          {live}
+        </div>
+      ) : source === 'rig' ? (
         <div className="space-y-3" role="tabpanel" aria-label="Simulated rig">
           <div className="flex flex-col gap-1">
             <label htmlFor="rig-tip" className="text-sm font-medium">

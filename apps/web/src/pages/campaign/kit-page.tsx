@@ -6,6 +6,7 @@ import { useCampaignContext } from './campaign-context.ts';
 import { WarningList } from './kit/warning-list.tsx';
 import { KitItems } from './kit/kit-items.tsx';
 import { ChannelMap } from './kit/channel-map.tsx';
+import { InputScaling } from './kit/input-scaling.tsx';
 import { AcquisitionSettingsCard } from './kit/acquisition-settings.tsx';
 import { KitPolicyCard } from './kit/kit-policy-card.tsx';
 import { LabBookings } from './kit/lab-bookings.tsx';
@@ -32,6 +33,7 @@ export function KitPage() {
       {channels.isPending && <Spinner label="Loading the channel map…" />}
       {channels.isError && <Notice tone="error">The channel map could not be loaded: {channels.error.message}</Notice>}
       {channels.data && kit.data && <ChannelMap campaignId={campaignId} channels={channels.data.channels} items={kit.data.items} canLead={canLead} />}
+      {channels.data && <InputScaling campaignId={campaignId} channels={channels.data.channels} canLead={canLead} />}
       {settings.isPending && (
         <Panel title="Acquisition settings">
           <Spinner label="Loading the acquisition settings…" />

@@ -26,6 +26,7 @@ import { useCampaignContext } from './campaign-context.ts';
 import { ArmControl } from '../../components/tap/arm-control.tsx';
 import { CalibrationBanner } from '../../components/kit/calibration-banner.tsx';
 import { DofNotesButton } from '../../components/notes/dof-notes.tsx';
+import { LivePanel } from '../../components/tap/live-panel.tsx';
 
 const OPEN: ScheduleStatus[] = ['planned', 'in-progress'];
 const FRF_DISPLAY = { view: 'magphase', kind: 'accelerance', db: true, logF: false } as const;
@@ -205,7 +206,7 @@ export function TapPage() {
         <div className="space-y-4">
           {canAct ? (
             <Panel title="Record a hit">
-              <StrikePanel tip={tip} onTip={setTip} onStrike={() => void record.strike(tip)} onUpload={(f) => void record.upload(f)} busy={record.busy} progress={record.progress} failedUpload={record.failedUpload} />
+              <StrikePanel tip={tip} onTip={setTip} onStrike={() => void record.strike(tip)} onUpload={(f) => void record.upload(f)} busy={record.busy} progress={record.progress} failedUpload={record.failedUpload} live={<LivePanel campaignId={campaignId} entryId={entry.id} entryLabel={`${entry.excitationDof} → ${entry.responseDof}`} isLead={myRole === 'lead' || myRole === 'admin'} onStored={onRecorded} />} />
             </Panel>
           ) : (
             <Notice tone="info">You are a viewer on this campaign: you see the hits and results as they come in, but you do not record or judge hits.</Notice>
