@@ -36,6 +36,7 @@ import { registerHandoverRoutes } from './routes/handover.ts';
 import { registerTokenRoutes } from './routes/tokens.ts';
 import { registerArmingRoutes } from './routes/arming.ts';
 import { registerFeModelRoutes } from './routes/fe-models.ts';
+import { registerRedoRoutes } from './routes/redo.ts';
 
 export interface AppHandle {
   app: Express;
@@ -129,6 +130,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerHandoverRoutes(deps);
   registerJobRoutes(deps);
   registerFeModelRoutes(deps);
+  registerRedoRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
   app.use('/api', routes.router);

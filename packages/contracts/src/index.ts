@@ -12,3 +12,4 @@ export * from './fe-map.ts';
 export * from './axis.ts';
 export * from './bridge.ts';
 export * from './fe-api.ts';
+export * from './flag-reasons.ts';

@@ -20,6 +20,7 @@ import { dspExponentialWindowOf, frfWindowsOf } from './settings-to-dsp.ts';
 import { isDatabaseUnavailable } from '../db-health.ts';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
+import { notExcluded } from './exclusion.ts';
 
 /** A small least-recently-used map. */
 class Lru<K, V> {
@@ -314,7 +315,7 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   const accepted = await db
     .select({ id: hit.id, version: hit.version, sampleRateHz: hit.sampleRateHz, samplesPerChannel: hit.samplesPerChannel, channels: hit.channels })
     .from(hit)
-    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.campaignId, campaignId), eq(hit.verdict, 'accept')))
+    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.campaignId, campaignId), eq(hit.verdict, 'accept'), notExcluded))
     .orderBy(asc(hit.sequence));
   const excluded: EntryResult['excluded'] = [];
   const usable = accepted.filter((h) => {
@@ -430,7 +431,7 @@ export async function entriesWithAcceptedHits(db: Db, campaignId: string): Promi
   const rows = await db
     .selectDistinct({ id: scheduleEntry.id, position: scheduleEntry.position })
     .from(scheduleEntry)
-    .innerJoin(hit, and(eq(hit.scheduleEntryId, scheduleEntry.id), eq(hit.verdict, 'accept')))
+    .innerJoin(hit, and(eq(hit.scheduleEntryId, scheduleEntry.id), eq(hit.verdict, 'accept'), notExcluded))
     .where(eq(scheduleEntry.campaignId, campaignId))
     .orderBy(asc(scheduleEntry.position));
   return rows.map((r) => r.id);

@@ -38,6 +38,9 @@ import { rigModel, rigNoise, rigTips } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
 import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
 import { earlierUse, isUniqueViolation, requestSha256 } from '../hits/upload-keys.ts';
+import { notExcluded } from '../hits/exclusion.ts';
+import { flagReasonsOf } from '../hits/entry-flags.ts';
+import { hitExclusion } from '@resonote/db/schema';
 
 const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 
@@ -68,7 +71,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     const [counts] = await db
       .select({ total: sql<number>`count(*)::int`, accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int` })
       .from(hit)
-      .where(eq(hit.scheduleEntryId, entry.id));
+      .where(and(eq(hit.scheduleEntryId, entry.id), notExcluded));
     const main = result ? result.channels[mainChannel(result.channels, entry.responseDof)] : undefined;
     const [fresh] = await db.select().from(scheduleEntry).where(eq(scheduleEntry.id, entry.id));
     const status = statusFrom({
@@ -194,7 +197,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       replayed,
       hits: stored.map((h) => hitSummary(h)),
       skipped,
-      entry: { id: entry.id, status: after.status, acceptedHits: after.accepted, totalHits: after.total },
+      entry: { id: entry.id, status: after.status, acceptedHits: after.accepted, totalHits: after.total, flagReasons: flagReasonsOf({ ...entry, status: after.status }, after.accepted, after.result, settings) },
       // The channel that measures this entry's own DOF; GET …/frf has every channel.
       frf: after.result ? frfJson(after.result, kind, settings.settings.bandHz, mainChannel(after.result.channels, entry.responseDof)) : null,
       next: await nextEntry(campaignId),
@@ -314,7 +317,19 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const entry = await loadEntry(access.campaignId, params.entryId!);
       const rows = await db.select().from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
       const names = new Map((await db.select({ id: user.id, name: user.name }).from(user)).map((u) => [u.id, u.name]));
-      return { entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, status: entry.status, requiredHits: entry.requiredHits }, hits: rows.map((h) => hitSummary(h, names)) };
+      // Hits set aside by a redo stay in the list with who, when and why (routes/redo.ts).
+      const aside = new Map((await db.select().from(hitExclusion).where(eq(hitExclusion.scheduleEntryId, entry.id))).map((x) => [x.hitId, x]));
+      const active = rows.filter((h) => !aside.has(h.id));
+      const settings = await currentSettings(db, access.campaignId);
+      const accepted = active.filter((h) => h.verdict === 'accept').length;
+      const flagReasons = accepted >= entry.requiredHits ? flagReasonsOf(entry, accepted, await entryResult(db, access.campaignId, entry.id, settings), settings) : [];
+      return {
+        entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, status: entry.status, requiredHits: entry.requiredHits, version: entry.version, flagReasons },
+        hits: rows.map((h) => {
+          const x = aside.get(h.id);
+          return { ...hitSummary(h, names), setAside: x ? { redoId: x.redoId, by: x.excludedBy ? (names.get(x.excludedBy) ?? null) : null, reason: x.reason, at: x.excludedAt } : null };
+        }),
+      };
     },
   });
 

@@ -10,3 +10,4 @@ export * from './modes.ts';
 export * from './bridge.ts';
 export * from './jobs.ts';
 export * from './fe-model.ts';
+export * from './redo.ts';
