@@ -27,7 +27,7 @@ describe('flag reasons of a schedule entry', () => {
     expect(r!.value).toBeCloseTo(60.5 / 71, 12); // arithmetic, as above
     expect(r!.threshold).toBe(0.9);
     expect(r!.message).toBe('coherence 0.85 mean over 5–75 Hz, below 0.90; γ² is under 0.90 on 30 % of the band, lowest 0.50 at 5 Hz');
-    expect(r!.advice).toMatch(/nearer the point.*harder tip.*softer.*sensor mounting/);
+    expect(r!.advice).toMatch(/nearer the point.*harder tip.*softer one.*sensor mounting/);
   });
 
   it('gives no reason when the mean coherence reaches the threshold, nor while hits are missing', () => {

@@ -109,7 +109,7 @@ export function flagReasons(input: FlagInput): FlagReason[] {
       message: `coherence ${fmt(c.mean, 2)} mean over ${band}, below ${fmt(input.threshold, 2)}; γ² is under ${fmt(input.threshold, 2)} on ${Math.round(c.belowShare * 100)} % of the band, lowest ${fmt(c.min, 2)} at ${hz(Math.round(c.minAt * 10) / 10)} Hz`,
       value: c.mean,
       threshold: input.threshold,
-      advice: 'Re-hit nearer the point and square to the surface; try a harder tip if the coherence drops at the top of the band or a softer one if it drops at the bottom; check the sensor mounting and cable.',
+      advice: 'Re-hit nearer the point, square to the surface; a harder tip if γ² drops at the top of the band, a softer one if at the bottom; check the sensor mounting and cable.',
     });
   }
   return reasons;
