@@ -4,10 +4,10 @@
 //
 // The checks follow the status rule of the schedule (design.md "Tap"; apps/api/src/hits/processing.ts
 // `statusFrom`): an entry with its required accepted hits is done when the mean ordinary coherence
-// γ² over the band of interest reaches the campaign's threshold, and flagged otherwise. Coherence
-// as a measure of noise, leakage and non-linearity in H1 estimates: Bendat & Piersol 2010, Random
-// Data, §9.2; the remedies (hit nearer the point, another tip, the sensor mounting) are common
-// practice in impact testing (Ewins 2000, Modal Testing, ch. 3).
+// γ² over the band of interest reaches the campaign's threshold, and flagged otherwise. Ordinary
+// coherence and what lowers it (noise, leakage, non-linearity): docs/methods.md#h1-h2-coherence
+// (Bendat & Piersol, Random Data, from memory). The remedies offered (hit nearer the point, another
+// tip, the sensor mounting) are common practice in impact testing (Ewins 2000, Modal Testing, ch. 3).
 
 export type FlagReasonCode = 'low-coherence' | 'hits-left-out' | 'no-average';
 
