@@ -160,4 +160,26 @@ describe('redo a DOF', () => {
     expect(averaged.body.averages).toBe(3);
     expect([...averaged.body.hitIds].sort()).toEqual(again.body.hits.map((h: { id: string }) => h.id).sort());
   });
+
+  it('carries the set-aside hits into a backup and restores them as set aside, with who and why', async () => {
+    const res = await lead.agent
+      .get(`${base()}/backup`)
+      .buffer(true)
+      .parse((r, done) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => done(null, Buffer.concat(chunks)));
+      });
+    expect(res.status).toBe(200);
+    const restored = await lead.agent.post('/api/campaigns/restore').attach('file', res.body as Buffer, 'bar.resonote-backup.zip');
+    expect(restored.status).toBe(201);
+    const id = restored.body.campaign.id as string;
+    const entries = (await lead.agent.get(`/api/campaigns/${id}/schedule`)).body.entries as { id: string; excitationDof: string; status: string; acceptedHits: number }[];
+    const b05 = entries.find((e) => e.excitationDof === 'B05:+Z')!;
+    expect(b05).toMatchObject({ status: 'done', acceptedHits: 3 });
+    const hits = (await lead.agent.get(`/api/campaigns/${id}/schedule/${b05.id}/hits`)).body.hits as { sequence: number; setAside: { by: string | null; reason: string } | null }[];
+    expect(hits.filter((h) => h.setAside).map((h) => h.sequence)).toEqual([1, 2, 3]);
+    expect(hits.find((h) => h.sequence === 1)!.setAside).toMatchObject({ by: 'Eric Engineer', reason: 'accelerometer wax had let go' });
+    expect(hits.filter((h) => !h.setAside).map((h) => h.sequence)).toEqual([4, 5, 6]);
+  });
 });

@@ -77,6 +77,25 @@ export function OverviewPage() {
           )}
         </Panel>
         <div className="space-y-4">
+          {flagged.length > 0 && (
+            <Panel title={<>Flagged, and why <span className="num font-normal text-[var(--muted)]">({flagged.length})</span></>}>
+              <ul className="space-y-2" data-testid="flagged-list">
+                {flagged.map((e) => (
+                  <li key={e.id} data-entry={e.id} className="space-y-1">
+                    <p className="flex flex-wrap items-baseline justify-between gap-2 text-sm">
+                      <span className="num font-medium">
+                        {e.excitationDof} → {e.responseDof}
+                      </span>
+                      <Link to={`../tap?entry=${e.id}`} className="text-xs text-accent hover:underline">
+                        Open on Tap
+                      </Link>
+                    </p>
+                    {e.flagReasons.length > 0 ? <FlagReasons reasons={e.flagReasons} compact /> : <p className="text-xs text-[var(--muted)]">Flagged by hand{e.note ? `: ${e.note}` : ''}.</p>}
+                  </li>
+                ))}
+              </ul>
+            </Panel>
+          )}
           <Panel title={selectedPoint ? <>Point <span className="num">{selectedPoint.label}</span></> : 'Selected point'}>
             {!selectedPoint && <p className="text-sm text-[var(--muted)]">Click a point in the 3D view to see its schedule entries.</p>}
             {selectedPoint && (
@@ -140,25 +159,6 @@ export function OverviewPage() {
               </ul>
             )}
           </Panel>
-          {flagged.length > 0 && (
-            <Panel title={<>Flagged, and why <span className="num font-normal text-[var(--muted)]">({flagged.length})</span></>}>
-              <ul className="space-y-2" data-testid="flagged-list">
-                {flagged.map((e) => (
-                  <li key={e.id} data-entry={e.id} className="space-y-1">
-                    <p className="flex flex-wrap items-baseline justify-between gap-2 text-sm">
-                      <span className="num font-medium">
-                        {e.excitationDof} → {e.responseDof}
-                      </span>
-                      <Link to={`../tap?entry=${e.id}`} className="text-xs text-accent hover:underline">
-                        Open on Tap
-                      </Link>
-                    </p>
-                    {e.flagReasons.length > 0 ? <FlagReasons reasons={e.flagReasons} compact /> : <p className="text-xs text-[var(--muted)]">Flagged by hand{e.note ? `: ${e.note}` : ''}.</p>}
-                  </li>
-                ))}
-              </ul>
-            </Panel>
-          )}
           <Panel title="Who is assigned where">
             {entries.length === 0 && <p className="text-sm text-[var(--muted)]">Nothing to assign until the schedule exists.</p>}
             {assignments.length > 0 && (
