@@ -43,6 +43,7 @@ const matrix: Record<string, Access> = {
   'GET /campaigns/:campaignId/schedule/next': 'viewer',
   'POST /campaigns/:campaignId/schedule/generate': 'lead',
   'PATCH /campaigns/:campaignId/schedule/:entryId': 'engineer',
+  'POST /campaigns/:campaignId/schedule/:entryId/redo': 'engineer',
   'POST /campaigns/:campaignId/schedule/reorder': 'lead',
   'GET /campaigns/:campaignId/kit': 'viewer',
   'POST /campaigns/:campaignId/kit': 'lead',

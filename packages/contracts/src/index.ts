@@ -19,3 +19,4 @@ export * from './settings-words.ts';
 export * from './kit-name.ts';
 export * from './fit-selection.ts';
 export * from './live.ts';
+export * from './flag-reasons.ts';

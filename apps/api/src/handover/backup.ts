@@ -14,8 +14,8 @@ import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
-import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, feMode, feModel, fePointLink, frfResult, hit, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import { dofNote, dofPhoto, kitPolicy, labItem } from '@resonote/db/schema';
+import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, feMode, feModel, fePointLink, frfResult, hit, hitExclusion, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
 import { HttpError, notFound } from '../errors.ts';
@@ -54,6 +54,8 @@ const TABLES: TableSpec[] = [
   { name: 'dof_note', table: dofNote, userCols: ['authorId'], hasUuidId: true, addedLater: true },
   { name: 'dof_photo', table: dofPhoto, userCols: [], hasUuidId: false, addedLater: true },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true },
+  // Hits set aside by a redo (routes/redo.ts); a backup from before them restores with none.
+  { name: 'hit_exclusion', table: hitExclusion, userCols: ['excludedBy'], hasUuidId: false, addedLater: true },
   { name: 'noise_check', table: noiseCheck, userCols: ['recordedBy'], hasUuidId: true, addedLater: true },
   { name: 'original_recording', table: originalRecording, userCols: ['storedBy'], hasUuidId: true, addedLater: true },
   { name: 'frf_result', table: frfResult, userCols: [], hasUuidId: true },
@@ -117,6 +119,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         dof_note: await byCampaign(dofNote as never, asc(dofNote.createdAt)),
         dof_photo: (await tx.select({ photo: dofPhoto }).from(dofPhoto).innerJoin(dofNote, eq(dofNote.id, dofPhoto.noteId)).where(eq(dofNote.campaignId, campaignId))).map((r) => r.photo as Row),
         hit: await byCampaign(hit as never, asc(hit.recordedAt)),
+        hit_exclusion: await byCampaign(hitExclusion as never, asc(hitExclusion.excludedAt)),
         noise_check: await byCampaign(noiseCheck as never, asc(noiseCheck.recordedAt)),
         original_recording: await byCampaign(originalRecording as never, asc(originalRecording.storedAt)),
         frf_result: await byCampaign(frfResult as never),

@@ -11,6 +11,7 @@ import { mainChannel } from './entry-result.ts';
 import { recordSamples } from './current-settings.ts';
 import { unpackSamples } from './samples-codec.ts';
 import { frfWindowsOf } from './settings-to-dsp.ts';
+import { notExcluded } from './exclusion.ts';
 
 export interface PeakDifference {
   fHz: number;
@@ -78,7 +79,7 @@ export async function entryLinearity(db: Db, entryId: string, responseDof: strin
   const rows = await db
     .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
     .from(hit)
-    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept')));
+    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept'), notExcluded));
   const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
   if (usable.length < 4) return null;
   const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;

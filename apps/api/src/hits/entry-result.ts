@@ -13,6 +13,7 @@ import { currentSettings, preTriggerSamples, recordSamples, type CurrentSettings
 import { frfWindowsOf } from './settings-to-dsp.ts';
 import { decodeFrf, encodeFrf } from './samples-codec.ts';
 import { averageIncrementally, rememberResult, rememberedResult, scheduleResultWrite } from './result-cache.ts';
+import { notExcluded } from './exclusion.ts';
 
 export interface ResultChannel {
   dof: string;
@@ -102,7 +103,7 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   const accepted = await db
     .select({ id: hit.id, version: hit.version, sampleRateHz: hit.sampleRateHz, samplesPerChannel: hit.samplesPerChannel, channels: hit.channels })
     .from(hit)
-    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.campaignId, campaignId), eq(hit.verdict, 'accept')))
+    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.campaignId, campaignId), eq(hit.verdict, 'accept'), notExcluded))
     .orderBy(asc(hit.sequence));
   const excluded: EntryResult['excluded'] = [];
   const usable = accepted.filter((h) => {

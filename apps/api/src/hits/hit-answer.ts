@@ -3,6 +3,7 @@
 import type { Db } from '@resonote/db/client';
 import type { CampaignEvents } from './events.ts';
 import type { CurrentSettings } from './current-settings.ts';
+import { flagReasonsOf } from './entry-flags.ts';
 import { mainChannel } from './entry-result.ts';
 import { frfJson, type FrfKind } from './frf-json.ts';
 import { hitSummary } from './hit-view.ts';
@@ -28,7 +29,7 @@ export async function answerHitChange(db: Db, events: CampaignEvents, c: HitChan
     replayed: c.replayed,
     hits: c.stored.map((h) => hitSummary(h)),
     skipped: c.skipped,
-    entry: { id: c.entry.id, status: after.status, acceptedHits: after.accepted, totalHits: after.total },
+    entry: { id: c.entry.id, status: after.status, acceptedHits: after.accepted, totalHits: after.total, flagReasons: flagReasonsOf({ ...c.entry, status: after.status }, after.accepted, after.result, c.settings) },
     // The channel that measures this entry's own DOF; GET …/frf has every channel.
     frf: after.result ? frfJson(after.result, c.kind, c.settings.settings.bandHz, mainChannel(after.result.channels, c.entry.responseDof)) : null,
     next: await nextEntry(db, c.campaignId),

@@ -6,6 +6,7 @@ import type { Db } from '@resonote/db/client';
 import type { CurrentSettings } from './current-settings.ts';
 import { entryResult, mainChannel, type EntryResult } from './entry-result.ts';
 import type { ScheduleEntry } from './schedule-entry.ts';
+import { notExcluded } from './exclusion.ts';
 
 export type EntryStatus = (typeof scheduleEntry.$inferSelect)['status'];
 
@@ -35,7 +36,7 @@ export async function refreshEntryStatus(db: Db, campaignId: string, entry: Sche
   const [counts] = await db
     .select({ total: sql<number>`count(*)::int`, accepted: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'accept')::int` })
     .from(hit)
-    .where(eq(hit.scheduleEntryId, entry.id));
+    .where(and(eq(hit.scheduleEntryId, entry.id), notExcluded));
   const main = result ? result.channels[mainChannel(result.channels, entry.responseDof)] : undefined;
   const [fresh] = await db.select().from(scheduleEntry).where(eq(scheduleEntry.id, entry.id));
   const status = statusFrom({
@@ -68,7 +69,7 @@ export async function entriesWithAcceptedHits(db: Db, campaignId: string): Promi
   const rows = await db
     .selectDistinct({ id: scheduleEntry.id, position: scheduleEntry.position })
     .from(scheduleEntry)
-    .innerJoin(hit, and(eq(hit.scheduleEntryId, scheduleEntry.id), eq(hit.verdict, 'accept')))
+    .innerJoin(hit, and(eq(hit.scheduleEntryId, scheduleEntry.id), eq(hit.verdict, 'accept'), notExcluded))
     .where(eq(scheduleEntry.campaignId, campaignId))
     .orderBy(asc(scheduleEntry.position));
   return rows.map((r) => r.id);

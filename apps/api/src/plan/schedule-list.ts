@@ -3,6 +3,7 @@
 import { aliasedTable, and, asc, eq, inArray, sql } from 'drizzle-orm';
 import { hit, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
+import { notExcluded } from '../hits/exclusion.ts';
 
 const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
@@ -16,7 +17,7 @@ export async function listScheduleEntries(db: Db, campaignId: string, entryIds?:
       rejected: sql<number>`count(*) FILTER (WHERE ${hit.verdict} = 'reject')::int`.as('rejected'),
     })
     .from(hit)
-    .where(eq(hit.campaignId, campaignId))
+    .where(and(eq(hit.campaignId, campaignId), notExcluded))
     .groupBy(hit.scheduleEntryId)
     .as('counts');
   const rows = await db

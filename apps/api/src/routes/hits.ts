@@ -5,7 +5,7 @@ import { randomUUID } from 'node:crypto';
 import { asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { idempotencyKeySchema } from '@resonote/contracts';
-import { campaign, hit, point, user } from '@resonote/db/schema';
+import { campaign, hit, hitExclusion, point, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { channelMapFor } from '../hits/channel-map.ts';
 import { refuseUncalibrated } from '../kit/policy.ts';
@@ -20,6 +20,8 @@ import { rigModel, rigRecording } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
 import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
 import { requestSha256 } from '../hits/upload-keys.ts';
+import { flagReasonsOf } from '../hits/entry-flags.ts';
+import { entryResult } from '../hits/entry-result.ts';
 
 export const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
 
@@ -100,7 +102,19 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const entry = await loadScheduleEntry(db, access.campaignId, params.entryId!);
       const rows = await db.select().from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
       const names = new Map((await db.select({ id: user.id, name: user.name }).from(user)).map((u) => [u.id, u.name]));
-      return { entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, status: entry.status, requiredHits: entry.requiredHits }, hits: rows.map((h) => hitSummary(h, names)) };
+      // Hits set aside by a redo stay in the list with who, when and why (routes/redo.ts).
+      const aside = new Map((await db.select().from(hitExclusion).where(eq(hitExclusion.scheduleEntryId, entry.id))).map((x) => [x.hitId, x]));
+      const active = rows.filter((h) => !aside.has(h.id));
+      const settings = await currentSettings(db, access.campaignId);
+      const accepted = active.filter((h) => h.verdict === 'accept').length;
+      const flagReasons = accepted >= entry.requiredHits ? flagReasonsOf(entry, accepted, await entryResult(db, access.campaignId, entry.id, settings), settings) : [];
+      return {
+        entry: { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, status: entry.status, requiredHits: entry.requiredHits, version: entry.version, flagReasons },
+        hits: rows.map((h) => {
+          const x = aside.get(h.id);
+          return { ...hitSummary(h, names), setAside: x ? { redoId: x.redoId, by: x.excludedBy ? (names.get(x.excludedBy) ?? null) : null, reason: x.reason, at: x.excludedAt } : null };
+        }),
+      };
     },
   });
 

@@ -14,6 +14,7 @@ import { campaignProgress } from '../hits/campaign-progress.ts';
 import { loadScheduleEntry } from '../hits/schedule-entry.ts';
 import { resampledFromOf } from '../hits/resample-upload.ts';
 import { kindSchema } from './hits.ts';
+import { notExcluded } from '../hits/exclusion.ts';
 
 export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvents): void {
   routes.add({
@@ -30,7 +31,7 @@ export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvent
       const result = await entryResult(db, access.campaignId, entry.id, settings);
       const about = { id: entry.id, responseDof: entry.responseDof, excitationDof: entry.excitationDof, drivingPoint: entry.drivingPoint };
       if (!result) return { status: 'no-accepted-hit' as const, entry: about, message: `No accepted hit at ${entry.responseDof} / ${entry.excitationDof} yet.` };
-      const sources = await db.select({ source: hit.source }).from(hit).where(and(eq(hit.scheduleEntryId, entry.id), eq(hit.verdict, 'accept')));
+      const sources = await db.select({ source: hit.source }).from(hit).where(and(eq(hit.scheduleEntryId, entry.id), eq(hit.verdict, 'accept'), notExcluded));
       return { status: 'ready' as const, entry: about, ...frfJson(result, query.kind, query.band === 'all' ? null : settings.settings.bandHz), ...resampledFromOf(sources.map((r) => r.source)) };
     },
   });

@@ -6,6 +6,7 @@ import { scheduleEntryPatchSchema, scheduleGenerateSchema, scheduleReorderSchema
 import { campaign, campaignMember, point, scheduleEntry, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
+import { withFlagReasons } from '../hits/entry-flags.ts';
 import { audit } from '../http/audit.ts';
 import { staleWrite } from '../http/concurrency.ts';
 import { badRequest, forbidden, HttpError, notFound } from '../errors.ts';
@@ -15,7 +16,7 @@ const responsePoint = aliasedTable(point, 'response_point');
 const excitationPoint = aliasedTable(point, 'excitation_point');
 
 export function registerScheduleRoutes({ routes, db, events }: Deps): void {
-  const listSchedule = (campaignId: string, entryIds?: string[]) => listScheduleEntries(db, campaignId, entryIds);
+  const listSchedule = async (campaignId: string, entryIds?: string[]) => withFlagReasons(db, campaignId, await listScheduleEntries(db, campaignId, entryIds));
 
   routes.add({
     method: 'get',

@@ -49,16 +49,17 @@ export function Notice({ tone, children }: { tone: 'error' | 'ok' | 'info'; chil
   );
 }
 
-export function Panel({ title, actions, children }: { title?: ReactNode; actions?: ReactNode; children: ReactNode }) {
+/** `dense`: a thinner title bar and padding, for screens that must fit one window (Tap). */
+export function Panel({ title, actions, children, dense = false }: { title?: ReactNode; actions?: ReactNode; children: ReactNode; dense?: boolean }) {
   return (
     <section className="rounded-lg border border-[var(--line)] bg-[var(--panel)]">
       {(title || actions) && (
-        <header className="flex items-center justify-between gap-3 border-b border-[var(--line)] px-4 py-3">
+        <header className={`flex items-center justify-between gap-3 border-b border-[var(--line)] ${dense ? 'px-3 py-1.5' : 'px-4 py-3'}`}>
           <h2 className="text-sm font-semibold">{title}</h2>
           {actions}
         </header>
       )}
-      <div className="p-4">{children}</div>
+      <div className={dense ? 'p-3' : 'p-4'}>{children}</div>
     </section>
   );
 }

@@ -1,6 +1,6 @@
 // Types and queries of one campaign's plan and kit, shared by the campaign screens.
 import { useQuery } from '@tanstack/react-query';
-import type { AcquisitionSettings, CampaignRole, CampaignStatus, Direction, ScheduleStatus, TestType } from '@resonote/contracts';
+import type { AcquisitionSettings, CampaignRole, CampaignStatus, Direction, FlagReason, ScheduleStatus, TestType } from '@resonote/contracts';
 import { api } from './api.ts';
 
 export type MyRole = CampaignRole | 'admin';
@@ -60,6 +60,8 @@ export interface ScheduleEntry {
   version: number;
   acceptedHits: number;
   rejectedHits: number;
+  /** Why the entry is flagged (or, with all its hits, not done), in words with numbers. */
+  flagReasons: FlagReason[];
 }
 
 export interface Member {

@@ -2,7 +2,7 @@
 // (apps/api/src/routes/hits.ts), and the live link that keeps every member's screen current.
 import { useEffect, useState } from 'react';
 import { useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import type { ScheduleStatus } from '@resonote/contracts';
+import type { FlagReason, ScheduleStatus } from '@resonote/contracts';
 import { api, ApiError, retryAfterSeconds } from './api.ts';
 import type { FrfKind } from './frf-math.ts';
 import type { ScheduleEntry } from './campaign-data.ts';
@@ -40,9 +40,11 @@ export interface HitSummary {
   recordedBy: string | null;
   recordedAt: string;
   version: number;
+  /** Set aside by a redo of the DOF (kept, not counted): who, why, when. Only in GET …/hits. */
+  setAside?: { redoId: string; by: string | null; reason: string; at: string } | null;
 }
 export interface EntryHits {
-  entry: { id: string; responseDof: string; excitationDof: string; status: ScheduleStatus; requiredHits: number };
+  entry: { id: string; responseDof: string; excitationDof: string; status: ScheduleStatus; requiredHits: number; version: number; flagReasons: FlagReason[] };
   hits: HitSummary[];
 }
 export interface TraceChannel {
@@ -89,7 +91,7 @@ export interface HitsAnswer {
   replayed: boolean;
   hits: HitSummary[];
   skipped: { timeS: number; reason: string }[];
-  entry: { id: string; status: ScheduleStatus; acceptedHits: number; totalHits: number };
+  entry: { id: string; status: ScheduleStatus; acceptedHits: number; totalHits: number; flagReasons: FlagReason[] };
   frf: FrfAnswer | null;
   next: string | null;
 }

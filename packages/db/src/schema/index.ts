@@ -14,3 +14,4 @@ export * from './lab.ts';
 export * from './campaign-archive.ts';
 export * from './schedule-extra.ts';
 export * from './live.ts';
+export * from './redo.ts';

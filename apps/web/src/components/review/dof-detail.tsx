@@ -10,13 +10,15 @@ import { HitPlots } from '../tap/hit-plots.tsx';
 import { ReasonList, VerdictBadge } from '../tap/verdict.tsx';
 import { DofNotesSection } from '../notes/dof-notes.tsx';
 import { formatWhen } from '../../lib/format-date.ts';
+import { FlagReasons } from '../flag-reasons.tsx';
+import { SetAsideNote } from '../tap/set-aside-note.tsx';
 
 export function DofDetail({ campaignId, entry, display }: { campaignId: string; entry: ScheduleEntry; display: FrfDisplay }) {
   const frf = useEntryFrf(campaignId, entry.id, display.kind);
   const hits = useEntryHits(campaignId, entry.id);
   const [hitId, setHitId] = useState<string | null>(null);
   useEffect(() => setHitId(null), [entry.id]);
-  const list = hits.data?.hits ?? [];
+  const list = (hits.data?.hits ?? []).filter((h) => !h.setAside);
   const chosen = list.find((h) => h.id === hitId) ?? null;
 
   return (
@@ -28,6 +30,8 @@ export function DofDetail({ campaignId, entry, display }: { campaignId: string; 
         </h3>
         <p className="text-xs text-[var(--muted)]">Response / excitation. {frf.data ? <span className="num">H1 from {frf.data.averages} averages, Δf = {frf.data.df.toFixed(3)} Hz</span> : null}</p>
       </div>
+      <FlagReasons reasons={hits.data?.entry.flagReasons ?? entry.flagReasons} />
+      <SetAsideNote hits={hits.data?.hits ?? []} />
       {frf.isPending && <Spinner label="Loading the FRF…" />}
       {frf.isError && <Notice tone="error">The FRF could not be loaded: {frf.error.message}</Notice>}
       {frf.isSuccess && !frf.data && <p className="text-sm text-[var(--muted)]">This DOF has no accepted hit yet, so there is no FRF to show.</p>}

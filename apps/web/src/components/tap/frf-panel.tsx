@@ -17,7 +17,14 @@ export interface FrfDisplay {
   unwrap?: boolean;
 }
 
-export function FrfPlot({ frf, display, height = 460, showH2 = false, uirevision }: { frf: FrfAnswer; display: FrfDisplay; height?: number; showH2?: boolean; uirevision?: string }) {
+/** `untitled`: the figure without its own title line, for a panel whose header says the same (Tap). */
+/** "Accelerance H1 from 5 averages · |H| in dB re 1 (m/s²)/N": what the FRF figure shows. */
+export function frfPlotTitle(frf: FrfAnswer, display: FrfDisplay): string {
+  const scaling = display.view === 'magphase' ? (display.db ? `|H| in dB re 1 ${frf.unit}` : `|H| in ${frf.unit}`) : `H in ${frf.unit}`;
+  return `${display.kind[0]!.toUpperCase()}${display.kind.slice(1)} H1 from ${frf.averages} average${frf.averages === 1 ? '' : 's'} · ${scaling}`;
+}
+
+export function FrfPlot({ frf, display, height = 460, showH2 = false, uirevision, untitled = false }: { frf: FrfAnswer; display: FrfDisplay; height?: number; showH2?: boolean; uirevision?: string; untitled?: boolean }) {
   const theme = useThemeName();
   const fig = useMemo(() => {
     const c = plotColours(theme === 'dark');
@@ -26,14 +33,13 @@ export function FrfPlot({ frf, display, height = 460, showH2 = false, uirevision
       const h1 = { name: `H1 ${ch.responseDof} / ${frf.excitationDof}`, f: frf.f, h: ch.h1, coherence: ch.coherence, colour };
       return showH2 ? [h1, { name: `H2 ${ch.responseDof} / ${frf.excitationDof}`, f: frf.f, h: ch.h2, colour, dash: 'dot' as const }] : [h1];
     });
-    const scaling = display.view === 'magphase' ? (display.db ? `|H| in dB re 1 ${frf.unit}` : `|H| in ${frf.unit}`) : `H in ${frf.unit}`;
     return frfFigure(curves, {
       ...display,
       colours: c,
       coherence: true,
-      title: `${display.kind[0]!.toUpperCase()}${display.kind.slice(1)} H1 from ${frf.averages} average${frf.averages === 1 ? '' : 's'} · ${scaling}`,
+      title: untitled ? undefined : frfPlotTitle(frf, display),
       uirevision,
     });
-  }, [frf, display, theme, showH2, uirevision]);
+  }, [frf, display, theme, showH2, uirevision, untitled]);
   return <Plot label={`Averaged FRF and coherence from ${frf.averages} hits`} data={fig.data} layout={fig.layout} config={plotConfig} height={height} />;
 }

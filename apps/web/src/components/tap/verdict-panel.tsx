@@ -35,15 +35,19 @@ export function VerdictPanel({ hit, canAct, busy, onOverride }: { hit: HitSummar
               <span aria-hidden>✕</span> Reject <Kbd>R</Kbd>
             </Button>
           </div>
-          <label className="flex flex-col gap-1 text-xs font-medium">
-            Note with a change by hand
-            <input
-              value={note}
-              onChange={(e) => setNote(e.target.value)}
-              placeholder={hit.verdict === 'accept' ? noteFor('reject') : noteFor('accept')}
-              className="min-h-10 rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm font-normal"
-            />
-          </label>
+          {/* The note is folded to one line so Accept / Reject stay on Tap's one screen. */}
+          <details className="text-xs">
+            <summary className="cursor-pointer text-[var(--muted)]">Note with a change by hand (optional)</summary>
+            <label className="mt-1 flex flex-col gap-1 font-medium">
+              <span className="sr-only">Note with a change by hand</span>
+              <input
+                value={note}
+                onChange={(e) => setNote(e.target.value)}
+                placeholder={hit.verdict === 'accept' ? noteFor('reject') : noteFor('accept')}
+                className="min-h-10 rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm font-normal"
+              />
+            </label>
+          </details>
         </>
       )}
     </div>

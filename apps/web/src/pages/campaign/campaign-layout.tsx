@@ -1,5 +1,5 @@
 // Frame of one campaign: its name, structure, status and the caller's role, and the tabs.
-import { Link, NavLink, Outlet, useParams } from 'react-router';
+import { Link, NavLink, Outlet, useMatch, useParams } from 'react-router';
 import { ApiError } from '../../lib/api.ts';
 import { roleLabel, useCampaign } from '../../lib/campaign-data.ts';
 import { Notice, Spinner } from '../../components/ui.tsx';
@@ -20,6 +20,8 @@ const tabs = [
 export function CampaignLayout() {
   const { campaignId = '' } = useParams();
   const query = useCampaign(campaignId);
+  // Tap must fit one screen at the structure: there the frame is one line (name and tabs).
+  const onTap = useMatch('/campaigns/:campaignId/tap') !== null;
 
   if (query.isPending) return <Spinner label="Loading the campaign…" />;
   if (query.isError) {
@@ -40,6 +42,36 @@ export function CampaignLayout() {
   const isLead = myRole === 'lead' || myRole === 'admin';
   const archived = Boolean(campaign.archivedAt);
   const context: CampaignContext = { campaign, myRole, isLead, archived, canLead: isLead && !archived };
+
+  const nav = (
+    <nav aria-label="Campaign" className={`-mb-px flex gap-1 overflow-x-auto ${onTap ? '' : 'border-b border-[var(--line)]'}`}>
+      {tabs.map((t) => (
+        <NavLink
+          key={t.label}
+          to={t.to}
+          end={t.end}
+          className={({ isActive }) =>
+            `${onTap ? 'min-h-10 px-3 py-2' : 'min-h-11 px-4 py-2.5'} border-b-2 text-sm font-medium whitespace-nowrap ${isActive ? 'border-accent text-accent-strong' : 'border-transparent text-[var(--muted)] hover:text-[var(--ink)]'}`
+          }
+        >
+          {t.label}
+        </NavLink>
+      ))}
+    </nav>
+  );
+  if (onTap) {
+    return (
+      <div className="-mt-3 space-y-3">
+        <header className="flex items-end gap-x-4 border-b border-[var(--line)]">
+          <h1 className="min-w-0 shrink truncate pb-2 text-base font-semibold" title={`${campaign.name} · ${campaign.structure}`}>
+            {campaign.name}
+          </h1>
+          <div className="ml-auto min-w-0">{nav}</div>
+        </header>
+        <Outlet context={context} />
+      </div>
+    );
+  }
 
   return (
     <div className="space-y-4">
@@ -72,20 +104,7 @@ export function CampaignLayout() {
             </div>
           </dl>
         </div>
-        <nav aria-label="Campaign" className="-mb-px flex gap-1 overflow-x-auto border-b border-[var(--line)]">
-          {tabs.map((t) => (
-            <NavLink
-              key={t.label}
-              to={t.to}
-              end={t.end}
-              className={({ isActive }) =>
-                `min-h-11 border-b-2 px-4 py-2.5 text-sm font-medium whitespace-nowrap ${isActive ? 'border-accent text-accent-strong' : 'border-transparent text-[var(--muted)] hover:text-[var(--ink)]'}`
-              }
-            >
-              {t.label}
-            </NavLink>
-          ))}
-        </nav>
+        {nav}
       </header>
       {archived && <ArchivedBanner campaign={campaign} isLead={isLead} />}
       <Outlet context={context} />

@@ -9,6 +9,7 @@ import { scheduleLook, ScheduleStatusBadge, worstStatus } from '../../components
 import { Notice, Panel, Spinner } from '../../components/ui.tsx';
 import { useCampaignContext } from './campaign-context.ts';
 import { WarningList } from './kit/warning-list.tsx';
+import { FlagReasons } from '../../components/flag-reasons.tsx';
 
 /** The point an entry belongs to on the map: the one that moves (hammer or accelerometer). */
 export function rovingPointId(entry: ScheduleEntry, testType: string) {
@@ -25,6 +26,7 @@ export function OverviewPage() {
 
   const entries = useMemo(() => schedule.data?.entries ?? [], [schedule.data]);
   const points = useMemo(() => (geometry.data?.points ?? []).filter((p) => !p.retired), [geometry.data]);
+  const flagged = useMemo(() => entries.filter((e) => e.status === 'flagged'), [entries]);
   const statusByPointId = useMemo(() => {
     const lists: Record<string, ScheduleStatus[]> = {};
     for (const e of entries) (lists[rovingPointId(e, campaign.testType)] ??= []).push(e.status);
@@ -75,6 +77,25 @@ export function OverviewPage() {
           )}
         </Panel>
         <div className="space-y-4">
+          {flagged.length > 0 && (
+            <Panel title={<>Flagged, and why <span className="num font-normal text-[var(--muted)]">({flagged.length})</span></>}>
+              <ul className="space-y-2" data-testid="flagged-list">
+                {flagged.map((e) => (
+                  <li key={e.id} data-entry={e.id} className="space-y-1">
+                    <p className="flex flex-wrap items-baseline justify-between gap-2 text-sm">
+                      <span className="num font-medium">
+                        {e.excitationDof} → {e.responseDof}
+                      </span>
+                      <Link to={`../tap?entry=${e.id}`} className="text-xs text-accent hover:underline">
+                        Open on Tap
+                      </Link>
+                    </p>
+                    {e.flagReasons.length > 0 ? <FlagReasons reasons={e.flagReasons} compact /> : <p className="text-xs text-[var(--muted)]">Flagged by hand{e.note ? `: ${e.note}` : ''}.</p>}
+                  </li>
+                ))}
+              </ul>
+            </Panel>
+          )}
           <Panel title={selectedPoint ? <>Point <span className="num">{selectedPoint.label}</span></> : 'Selected point'}>
             {!selectedPoint && <p className="text-sm text-[var(--muted)]">Click a point in the 3D view to see its schedule entries.</p>}
             {selectedPoint && (
@@ -94,7 +115,7 @@ export function OverviewPage() {
                       </tr>
                     </thead>
                     <tbody>
-                      {selectedEntries.map((e) => (
+                      {selectedEntries.flatMap((e) => [
                         <tr key={e.id} className="border-t border-[var(--line)]">
                           <td className="num py-1 text-xs">
                             {e.responseDof} / {e.excitationDof}
@@ -106,8 +127,15 @@ export function OverviewPage() {
                             {e.acceptedHits} / {e.requiredHits}
                           </td>
                           <td className="num pl-2 text-right text-xs">{e.rejectedHits}</td>
-                        </tr>
-                      ))}
+                        </tr>,
+                        e.flagReasons.length > 0 && (
+                          <tr key={`${e.id}-why`}>
+                            <td colSpan={4} className="pb-1">
+                              <FlagReasons reasons={e.flagReasons} compact />
+                            </td>
+                          </tr>
+                        ),
+                      ])}
                     </tbody>
                   </table>
                 )}
