@@ -38,6 +38,8 @@ export class Lru<K, V> {
 interface Caches {
   results: Lru<string, EntryResult>;
   samples: Lru<string, Float32Array[]>;
+  /** Check results (linearity) by key, with the input hash they were computed under. */
+  checks: Lru<string, { hash: string; value: unknown }>;
   pending: Set<Promise<unknown>>;
   /** Result writes waiting for their DOF to go quiet, by entry id. */
   scheduled: Map<string, { timer: ReturnType<typeof setTimeout>; run: () => Promise<void> }>;
@@ -51,7 +53,7 @@ function caches(db: Db): Caches {
   let c = cachesByDb.get(db);
   if (!c) {
     // 256 hits × 4 channels × 16 384 samples × 4 bytes ≈ 64 MB at most.
-    c = { results: new Lru(64), samples: new Lru(256), pending: new Set(), scheduled: new Map() };
+    c = { results: new Lru(64), samples: new Lru(256), checks: new Lru(512), pending: new Set(), scheduled: new Map() };
     cachesByDb.set(db, c);
   }
   return c;
@@ -63,6 +65,16 @@ export function rememberedResult(db: Db, entryId: string): EntryResult | undefin
 
 export function rememberResult(db: Db, entryId: string, result: EntryResult): void {
   caches(db).results.set(entryId, result);
+}
+
+/** A check result remembered under `key` when it was computed under `hash`; undefined otherwise. */
+export function rememberedCheck<T>(db: Db, key: string, hash: string): T | undefined {
+  const c = caches(db).checks.get(key);
+  return c && c.hash === hash ? (c.value as T) : undefined;
+}
+
+export function rememberCheck(db: Db, key: string, hash: string, value: unknown): void {
+  caches(db).checks.set(key, { hash, value });
 }
 
 /** Remembers the samples of a hit just stored (storage order, engineering units). */
