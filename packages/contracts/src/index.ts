@@ -12,3 +12,5 @@ export * from './fe-map.ts';
 export * from './axis.ts';
 export * from './bridge.ts';
 export * from './fe-api.ts';
+export * from './hits.ts';
+export * from './mode-rows.ts';

@@ -3,10 +3,12 @@
 // 20·log10, FRF plots print their reference ("dB re 1 (m/s²)/N"), phase is wrapped to (−180, 180].
 // Typed arrays throughout: an overlay of 100 FRFs × 8193 lines runs through here.
 
-export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
+import { frfUnits, type FrfKind } from '@resonote/contracts';
+
+export type { FrfKind };
 
 /** SI unit of each FRF kind (ISO 7626-1:2011 names). */
-export const frfUnit: Record<FrfKind, string> = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' };
+export const frfUnit = frfUnits;
 export const frfKindLabel: Record<FrfKind, string> = { receptance: 'Receptance', mobility: 'Mobility', accelerance: 'Accelerance' };
 
 /** Standard gravity, m/s² (exact, ISO 80000-3). */
