@@ -7,7 +7,6 @@ import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { isDatabaseUnavailable } from '../db-health.ts';
 import { unpackSamples } from './samples-codec.ts';
-import type { EntryResult } from './entry-result.ts';
 
 /** A small least-recently-used map. */
 export class Lru<K, V> {
@@ -36,7 +35,8 @@ export class Lru<K, V> {
  * updated average out) needs neither re-reading raw samples nor re-decoding stored spectra.
  */
 interface Caches {
-  results: Lru<string, EntryResult>;
+  /** Entry results (hits/entry-result.ts) by entry id; this module holds them without knowing their shape. */
+  results: Lru<string, unknown>;
   samples: Lru<string, Float32Array[]>;
   /** Check results (linearity) by key, with the input hash they were computed under. */
   checks: Lru<string, { hash: string; value: unknown }>;
@@ -59,11 +59,11 @@ function caches(db: Db): Caches {
   return c;
 }
 
-export function rememberedResult(db: Db, entryId: string): EntryResult | undefined {
-  return caches(db).results.get(entryId);
+export function rememberedResult<T>(db: Db, entryId: string): T | undefined {
+  return caches(db).results.get(entryId) as T | undefined;
 }
 
-export function rememberResult(db: Db, entryId: string, result: EntryResult): void {
+export function rememberResult<T>(db: Db, entryId: string, result: T): void {
   caches(db).results.set(entryId, result);
 }
 
