@@ -36,6 +36,8 @@ describe('events across API processes', () => {
     const res = await engineer.agent.post(`/api/campaigns/${rig.campaignId}/schedule/${target.id}/simulate`).send({ count: 1, seed: 7, doubleHitProbability: 0, overloadProbability: 0 });
     expect(res.status).toBe(201);
     const got = await stream.waitFor((e) => e.type === 'hit' && e.entryId === target.id, 5000);
+    // The notice names the hits it is about (id:version), so the tab that recorded them can skip its own notice.
+    expect(got.data.hits).toEqual(res.body.hits.map((h: { id: string; version: number }) => `${h.id}:${h.version}`));
     // issue 5 / issue 18: "within a second" of the change — from the notice's time stamp (set by
     // the posting process once the hits are stored and averaged) to its arrival on the other
     // process's stream; both clocks are this machine's.

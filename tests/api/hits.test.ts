@@ -5,6 +5,7 @@ import { eq } from 'drizzle-orm';
 import { averageFrf } from '@resonote/dsp';
 import { createRng, hitSeries, modelFrf, simulateHit, steelBar } from '@resonote/sim';
 import { hit } from '@resonote/db/schema';
+import { checksAnswerSchema, entryFrfAnswerSchema, hitDetailSchema, hitsAnswerSchema } from '@resonote/contracts';
 import { encodeWav } from '@resonote/api/recording';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
@@ -115,6 +116,7 @@ describe('hit intake and averaged FRFs', () => {
   it('returns the FRF in receptance or mobility on request, with the unit', async () => {
     const acc = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry('B01:+Z').id}/frf?kind=accelerance`);
     const rec = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry('B01:+Z').id}/frf?kind=receptance`);
+    expect(entryFrfAnswerSchema.safeParse(acc.body).error).toBeUndefined();
     expect(rec.body.unit).toBe('m/N');
     const k = 200;
     const w = 2 * Math.PI * acc.body.f[k];
@@ -273,9 +275,20 @@ describe('simulated rig, reciprocity and linearity', () => {
     expect(res.body.frf.averages).toBeGreaterThanOrEqual(1);
     const detail = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/hits/${res.body.hits[0].id}?maxPoints=2000`);
     expect(detail.status).toBe(200);
+    // Both answers are the shapes their routes declare (packages/contracts), which the web reads its types from.
+    expect(hitsAnswerSchema.safeParse(res.body).error).toBeUndefined();
+    expect(hitDetailSchema.safeParse(detail.body).error).toBeUndefined();
     expect(detail.body.channels.map((c: { unit: string }) => c.unit)).toEqual(['N', 'm/s²']);
     expect(detail.body.t.length).toBeLessThanOrEqual(2000);
     expect(detail.body.forceSpectrum.levelDb[0]).toBeCloseTo(0, 10);
+    // The −10 dB mark sits on the plotted curve (one force spectrum for the check and the plot,
+    // dsp forcePulseSpectrum): the line before it is above −10 dB, the line after at or below.
+    const spectrum = detail.body.forceSpectrum as { f: number[]; levelDb: number[]; rollOff10dBHz: number | null };
+    expect(spectrum.rollOff10dBHz).not.toBeNull();
+    const after = spectrum.f.findIndex((f) => f >= spectrum.rollOff10dBHz!);
+    expect(after).toBeGreaterThan(0);
+    expect(spectrum.levelDb[after - 1]!).toBeGreaterThan(-10);
+    expect(spectrum.levelDb[after]!).toBeLessThanOrEqual(-10);
   });
 
   it('reports reciprocity between H(B21,B05) and H(B05,B21) with FRAC near 1 on a reciprocal structure', async () => {
@@ -300,6 +313,11 @@ describe('simulated rig, reciprocity and linearity', () => {
     await engineer.agent.post(`/api/campaigns/${rig.campaignId}/schedule/${target.id}/simulate`).send({ count: 3, seed: 81, peakForceN: 25, doubleHitProbability: 0, overloadProbability: 0 }).expect(201);
     await engineer.agent.post(`/api/campaigns/${rig.campaignId}/schedule/${target.id}/simulate`).send({ count: 3, seed: 82, peakForceN: 100, doubleHitProbability: 0, overloadProbability: 0 }).expect(201);
     const checks = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/checks`);
+    // The answer is the shape GET …/checks declares (packages/contracts), which the web reads its types from.
+    expect(checksAnswerSchema.safeParse(checks.body).error).toBeUndefined();
+    // Asked again with no new hit, the check is served under the same input hash: the same numbers.
+    const again = await viewer.agent.get(`/api/campaigns/${rig.campaignId}/checks`);
+    expect(again.body.linearity).toEqual(checks.body.linearity);
     const lin = checks.body.linearity.find((l: { entry: { excitation: string } }) => l.entry.excitation === 'B17:+Z');
     expect(lin.forceRatio).toBeGreaterThan(2.5);
     // The simulated structure is linear, so the two levels overlay (docs/methods.md#validity-checks).

@@ -31,6 +31,18 @@ describe('OpenAPI document', () => {
     expect(Object.keys(settings.properties.settings.properties)).toEqual(expect.arrayContaining(['sampleRateHz', 'recordLengthS', 'exponentialWindow', 'estimator']));
   });
 
+  it('describes answers from the response schemas the routes declare (packages/contracts), errors in the one shape', async () => {
+    const doc = (await request(app.handle.app).get('/api/openapi.json')).body;
+    const upload = doc.paths['/api/campaigns/{campaignId}/schedule/{entryId}/hits'].post.responses['201'].content['application/json'].schema;
+    expect(Object.keys(upload.properties)).toEqual(expect.arrayContaining(['replayed', 'hits', 'skipped', 'entry', 'frf', 'next']));
+    expect(upload.properties.hits.items.properties.verdict.enum).toEqual(['accept', 'reject']);
+    const frf = doc.paths['/api/campaigns/{campaignId}/schedule/{entryId}/frf'].get.responses['200'].content['application/json'].schema;
+    expect(frf.oneOf ?? frf.anyOf).toHaveLength(2);
+    const table = doc.paths['/api/campaigns/{campaignId}/modes/table'].post.responses['201'].content['application/json'].schema;
+    expect(table.properties.modes.items.required).toEqual(expect.arrayContaining(['fHz', 'zetaPercent', 'mpc', 'shape', 'source']));
+    expect(doc.components.schemas.Error.properties.error.required).toEqual(['code', 'message']);
+  });
+
   it('serves a readable reference page', async () => {
     const page = await request(app.handle.app).get('/api/docs');
     expect(page.status).toBe(200);

@@ -3,16 +3,10 @@ import type { ErrorRequestHandler, RequestHandler, Response } from 'express';
 import { ZodError } from 'zod';
 import { isDatabaseUnavailable, RETRY_AFTER_S, type DatabaseStatus } from './db-health.ts';
 
-export class HttpError extends Error {
-  constructor(
-    readonly status: number,
-    readonly code: string,
-    message: string,
-    readonly details?: unknown,
-  ) {
-    super(message);
-  }
-}
+import { HttpError } from '@resonote/contracts';
+
+// The class is shared with the web app (packages/contracts/src/errors.ts): one shape on both sides.
+export { HttpError };
 
 export const badRequest = (message: string, details?: unknown) => new HttpError(400, 'bad-request', message, details);
 export const unauthorized = () => new HttpError(401, 'unauthorized', 'Sign in to continue.');

@@ -20,3 +20,5 @@ export * from './kit-name.ts';
 export * from './fit-selection.ts';
 export * from './live.ts';
 export * from './flag-reasons.ts';
+export * from './hits.ts';
+export * from './mode-rows.ts';

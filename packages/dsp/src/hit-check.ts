@@ -1,6 +1,7 @@
 // Per-hit quality checks for impact testing (docs/methods.md#hit-checks). Every threshold is common practice,
 // not a standard, and is configurable through `HitLimits`.
-import { realFftPlan } from './fft.ts';
+import { channelOffset } from './offsets.ts';
+import { forcePulseSpectrum, rollOffFrequency, type ForcePulseGate } from './force-spectrum.ts';
 import type { ExponentialWindowOptions } from './types.ts';
 import { checkFs, checkInteger, checkSameLength, checkSamples } from './validate.ts';
 import { checkExponentialWindowOptions, exponentialWindow } from './windows.ts';
@@ -47,6 +48,12 @@ export interface HitLimits {
   notDecayedRatio: number;
   /** Exponential window applied to the responses before the decay check (as it will be in the FRF), or null. */
   exponentialWindow: ExponentialWindowOptions | null;
+  /**
+   * Samples recorded before the trigger, round(preTriggerS·fs), or null. When there are 16 or more,
+   * the force offset is their mean (`channelOffset`, the offset `removeOffsets` subtracts before the
+   * FRF) and the noise rms is taken over them; otherwise both come from the samples before the pulse.
+   */
+  preTriggerSamples: number | null;
 }
 
 /** Default limits; each one is common practice (docs/methods.md#hit-checks), not a standard. */
@@ -64,6 +71,7 @@ export const defaultHitLimits: Readonly<HitLimits> = Object.freeze({
   tailFraction: 0.05,
   notDecayedRatio: 0.01,
   exponentialWindow: null,
+  preTriggerSamples: null,
 });
 
 export interface ResponseCheck {
@@ -102,6 +110,8 @@ export interface HitCheck {
   /** Force samples at or above overloadFraction × range (0 when the range is unknown), and the longest flat run at the extreme. */
   forceClippedSamples: number;
   forceFlatRun: number;
+  /** The pulse's gate for its force spectrum (`forcePulseSpectrum`, the one the roll-off is read from); null when no pulse. */
+  forceGate: ForcePulseGate | null;
   responses: ResponseCheck[];
 }
 
@@ -157,6 +167,13 @@ function meanStd(x: ArrayLike<number>, from: number, to: number): { mean: number
   let v = 0;
   for (let i = from; i < to; i++) v += (x[i] - mean) * (x[i] - mean);
   return { mean, std: Math.sqrt(v / m) };
+}
+
+/** The mean given and the rms spread of x[from, to) around it. */
+function spreadAround(x: ArrayLike<number>, from: number, to: number, mean: number): { mean: number; std: number } {
+  let v = 0;
+  for (let i = from; i < to; i++) v += (x[i] - mean) * (x[i] - mean);
+  return { mean, std: to > from ? Math.sqrt(v / (to - from)) : 0 };
 }
 
 /**
@@ -239,6 +256,7 @@ function resolveLimits(limits: Partial<HitLimits> | undefined, channels: number)
     }
   }
   if (l.exponentialWindow !== null) checkExponentialWindowOptions(l.exponentialWindow, 'exponentialWindow');
+  if (l.preTriggerSamples !== null) checkInteger(l.preTriggerSamples, 'preTriggerSamples', 0);
   return l;
 }
 
@@ -304,7 +322,8 @@ export function checkHit(
   const edge0 = l.pulseEdgeFraction * Math.abs(force[p0]);
   while (s0 > 0 && Math.abs(force[s0 - 1]) > edge0) s0--;
   const guard = Math.max(0, s0 - 2);
-  const noise = guard >= 16 ? meanStd(force, 0, guard) : meanStd(force, n - Math.max(1, Math.floor(n / 10)), n);
+  const pre = l.preTriggerSamples !== null ? Math.min(l.preTriggerSamples, n) : 0;
+  const noise = pre >= 16 ? spreadAround(force, 0, pre, channelOffset(force, pre)) : guard >= 16 ? meanStd(force, 0, guard) : meanStd(force, n - Math.max(1, Math.floor(n / 10)), n);
   const offset = noise.mean;
   const polarity = force[p0] - offset >= 0 ? 1 : -1;
   const s = new Float64Array(n);
@@ -333,6 +352,7 @@ export function checkHit(
     secondPeakDelayS: null,
     forceClippedSamples: forceClipped,
     forceFlatRun,
+    forceGate: null,
     responses: [],
   };
 
@@ -392,33 +412,14 @@ export function checkHit(
     }
 
     // roll-off of the force spectrum relative to DC
-    const plan = realFftPlan(n);
-    const re = new Float64Array(plan.bins);
-    const im = new Float64Array(plan.bins);
     // The spectrum of the pulse alone: samples further than 4 pulse widths from it are noise and
     // after-ringing, which a force window removes before any FRF (docs/methods.md#force-window), so they are gated out here
     // too; over a long record their integrated offset error would otherwise dominate |F(0)|.
     const width = b - a + 1;
-    const gateFrom = Math.max(0, a - 4 * width - 8);
-    const gateTo = Math.min(n, b + 4 * width + 8);
-    const gated = new Float64Array(n);
-    gated.set(s.subarray(gateFrom, gateTo), gateFrom);
-    plan.forward(gated, re, im);
-    const ref = re[0] * re[0] + im[0] * im[0];
-    if (ref > 0) {
-      const crossing = (db: number): number | null => {
-        let prev = 0;
-        for (let k = 1; k < plan.bins; k++) {
-          const pw = re[k] * re[k] + im[k] * im[k];
-          const level = pw > 0 ? 10 * Math.log10(pw / ref) : -Infinity;
-          if (level < -db) {
-            const frac = Number.isFinite(level) ? (prev + db) / (prev - level) : 0;
-            return (k - 1 + frac) * (fs / n);
-          }
-          prev = level;
-        }
-        return null;
-      };
+    result.forceGate = { offsetN: offset, fromIndex: Math.max(0, a - 4 * width - 8), toIndex: Math.min(n, b + 4 * width + 8) };
+    const spectrum = forcePulseSpectrum(force, fs, result.forceGate);
+    if (spectrum) {
+      const crossing = (db: number) => rollOffFrequency(spectrum, db);
       result.rollOff10dBHz = crossing(10);
       result.rollOff20dBHz = crossing(20);
       const band = l.bandHz ?? [0, fs / 2.56];

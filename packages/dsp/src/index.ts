@@ -26,6 +26,7 @@ export {
   type HitReasonCode,
   type ResponseCheck,
 } from './hit-check.ts';
+export { forcePulseSpectrum, rollOffFrequency, type ForcePulseGate, type ForcePulseSpectrum } from './force-spectrum.ts';
 export { FRF_ALGORITHM_VERSION } from './algorithm-version.ts';
 export { fftPathName } from './fft.ts';
 export { removeOffsets, channelOffset } from './offsets.ts';

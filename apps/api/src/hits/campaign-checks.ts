@@ -5,7 +5,7 @@
 import { AXIS_CONVENTION } from '@resonote/contracts';
 import type { Db } from '@resonote/db/client';
 import { listScheduleEntries } from '../plan/schedule-list.ts';
-import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis, type Comparison } from './checks.ts';
+import { compareFrfs, entryLinearity, isReciprocal, onPositiveAxis, type Comparison, type Linearity } from './checks.ts';
 import { currentSettings, type CurrentSettings } from './current-settings.ts';
 import { entryResult, mainChannel, type EntryResult } from './entry-result.ts';
 
@@ -17,7 +17,7 @@ type DofPair = { response: string; excitation: string };
 
 export interface ValidityChecks {
   reciprocity: ({ a: DofPair; b: DofPair; axisConvention: string } & Comparison)[];
-  linearity: ({ entry: DofPair; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number } & Comparison)[];
+  linearity: ({ entry: DofPair } & Linearity)[];
   note: string;
 }
 
@@ -46,7 +46,7 @@ export async function validityChecks(db: Db, frfs: readonly EntryWithResult[], s
   }
   const linearity: ValidityChecks['linearity'] = [];
   for (const x of frfs) {
-    const result = await entryLinearity(db, x.entry.id, x.entry.responseDof, s);
+    const result = await entryLinearity(db, x.entry.id, x.entry.responseDof, settings);
     if (result) linearity.push({ entry: label(x.entry), ...result });
   }
   return { reciprocity, linearity, note: VALIDITY_CHECKS_NOTE };

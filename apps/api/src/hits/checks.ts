@@ -1,16 +1,15 @@
 // Measurement validity checks (docs/methods.md#validity-checks): reciprocity H_ij against H_ji, and
 // linearity — the same DOF pair at two force levels. Both report FRAC over the band (docs/methods.md#frac) and
 // the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
-import { and, eq } from 'drizzle-orm';
-import { averageFrf, frac, type Complex } from '@resonote/dsp';
-import { frfAxisFactor, sameAxis, type AcquisitionSettings } from '@resonote/contracts';
+import { and, asc, eq } from 'drizzle-orm';
+import { frac, type Complex } from '@resonote/dsp';
+import { frfAxisFactor, sameAxis } from '@resonote/contracts';
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
-import { mainChannel } from './entry-result.ts';
-import { recordSamples } from './current-settings.ts';
-import { unpackSamples } from './samples-codec.ts';
-import { frfWindowsOf } from './settings-to-dsp.ts';
+import { averageHits, entryInputHash, mainChannel } from './entry-result.ts';
+import { recordSamples, type CurrentSettings } from './current-settings.ts';
+import { hitSamples, rememberCheck, rememberedCheck } from './result-cache.ts';
 import { notExcluded } from './exclusion.ts';
 
 export interface PeakDifference {
@@ -71,17 +70,38 @@ export function compareFrfs(ha: Complex, hb: Complex, f: Float64Array, band: { l
  * Linearity of one schedule entry (docs/methods.md#validity-checks): its accepted hits split into the
  * lighter and the heavier half by peak force; when the medians differ by 1.5× or more, the two
  * halves are averaged separately and compared (heavier against lighter). Null when there are
- * fewer than 4 usable hits or the force levels are too close.
+ * fewer than 4 usable hits or the force levels are too close. Kept in memory under the input hash
+ * of the hits it used (as the entry's FRF is), so a campaign's checks re-read no samples until an
+ * entry's hits or the settings change.
  */
-export async function entryLinearity(db: Db, entryId: string, responseDof: string, s: AcquisitionSettings) {
+export async function entryLinearity(db: Db, entryId: string, responseDof: string, settings: CurrentSettings): Promise<Linearity | null> {
+  const s = settings.settings;
   const n = recordSamples(s);
-  const pre = Math.round(s.preTriggerS * s.sampleRateHz);
   const rows = await db
-    .select({ samples: hit.samples, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
+    .select({ id: hit.id, version: hit.version, metrics: hit.metrics, channels: hit.channels, fs: hit.sampleRateHz, len: hit.samplesPerChannel })
     .from(hit)
-    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept'), notExcluded));
-  const usable = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
+    .where(and(eq(hit.scheduleEntryId, entryId), eq(hit.verdict, 'accept'), notExcluded))
+    .orderBy(asc(hit.sequence));
+  const sameRecord = rows.filter((r) => r.fs === s.sampleRateHz && r.len === n);
+  // Only hits with the channel layout of the first one can be averaged together (as in entryResult).
+  const layout = (sameRecord[0]?.channels ?? []) as ChannelSnapshot[];
+  const usable = sameRecord.filter((r) => {
+    const ch = r.channels as ChannelSnapshot[];
+    return ch.length === layout.length && ch.every((c, i) => c.dof === layout[i]!.dof);
+  });
   if (usable.length < 4) return null;
+  const key = `linearity:${entryId}:${responseDof}`;
+  const hash = entryInputHash(settings.version, usable);
+  const remembered = rememberedCheck<Linearity | null>(db, key, hash);
+  if (remembered !== undefined) return remembered;
+  const value = await linearityOf(db, usable, responseDof, s, n);
+  rememberCheck(db, key, hash, value);
+  return value;
+}
+
+export type Linearity = { lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number } & Comparison;
+
+async function linearityOf(db: Db, usable: { id: string; metrics: unknown; channels: unknown }[], responseDof: string, s: CurrentSettings['settings'], n: number): Promise<Linearity | null> {
   const peak = (r: (typeof usable)[number]) => (r.metrics as { peakForceN: number }).peakForceN;
   const sorted = [...usable].sort((x, y) => peak(x) - peak(y));
   const half = Math.floor(sorted.length / 2);
@@ -90,17 +110,11 @@ export async function entryLinearity(db: Db, entryId: string, responseDof: strin
   const median = (g: typeof sorted) => peak(g[Math.floor(g.length / 2)]!);
   const ratio = median(high) / Math.max(median(low), 1e-9);
   if (ratio < 1.5) return null;
-  const frfOf = (g: typeof sorted) =>
-    averageFrf(
-      g.map((r) => {
-        const chans = unpackSamples(r.samples, (r.channels as ChannelSnapshot[]).length, n);
-        return { force: chans[0]!, responses: chans.slice(1) };
-      }),
-      s.sampleRateHz,
-      { ...frfWindowsOf(s), offsets: { preTriggerSamples: pre } },
-    );
-  const lo = frfOf(low);
-  const hi = frfOf(high);
+  // The same averaging as the entry's FRF, over the samples the result cache holds (hits/entry-result.ts).
+  const channelCount = (usable[0]!.channels as ChannelSnapshot[]).length;
+  const frfOf = async (g: typeof sorted) => averageHits(await hitSamples(db, g.map((r) => r.id), channelCount, n), s);
+  const lo = await frfOf(low);
+  const hi = await frfOf(high);
   const ch = mainChannel((usable[0]!.channels as ChannelSnapshot[]).filter((c) => c.role === 'response'), responseDof);
   return { lowForceN: median(low), highForceN: median(high), forceRatio: ratio, hitsPerLevel: half, ...compareFrfs(hi.h1[ch]!, lo.h1[ch]!, lo.f, s.bandHz) };
 }

@@ -126,7 +126,7 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   const responseChannels = layout.filter((c) => c.role === 'response');
   const excitationDof = layout[0]!.dof;
 
-  const remembered = rememberedResult(db, entryId);
+  const remembered = rememberedResult<EntryResult>(db, entryId);
   if (remembered && remembered.inputHash === hash) return { ...remembered, excluded };
 
   const [stored] = await db.select().from(frfResult).where(eq(frfResult.scheduleEntryId, entryId));

@@ -11,6 +11,8 @@ export interface CampaignEvent {
   type: 'hit' | 'verdict' | 'schedule' | 'arming' | 'job';
   entryId?: string;
   jobId?: string;
+  /** The hits a hit or verdict notice is about, as "id:version", so the tab that made the change can tell its own notice. */
+  hits?: string[];
   at: string;
   /** Set on the notice sent after the listener reconnected: something may have been missed. */
   resync?: true;

@@ -1,10 +1,10 @@
 // Shapes an entry's averaged spectra as JSON: frequency in Hz, complex H1/H2 per response
 // channel in the requested FRF kind, coherence, the force ESD, and units.
 import { convertFrf, type Complex } from '@resonote/dsp';
+import { frfUnits, type FrfKind } from '@resonote/contracts';
 import type { EntryResult } from './entry-result.ts';
 
-export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
-export const frfUnits: Record<FrfKind, string> = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' };
+export { frfUnits, type FrfKind };
 
 function pick(values: Float64Array, from: number, to: number): number[] {
   return Array.from(values.subarray(from, to));

@@ -24,7 +24,7 @@ export interface HitChange {
 
 export async function answerHitChange(db: Db, events: CampaignEvents, c: HitChange) {
   const after = await refreshEntryStatus(db, c.campaignId, c.entry, c.settings);
-  events.publish(c.campaignId, { type: c.type, entryId: c.entry.id });
+  events.publish(c.campaignId, { type: c.type, entryId: c.entry.id, hits: c.stored.map((h) => `${h.id}:${h.version}`) });
   return {
     replayed: c.replayed,
     hits: c.stored.map((h) => hitSummary(h)),

@@ -1,16 +1,16 @@
 // What a reader sees of stored hits: the summary of a hit (verdict, reasons, metrics; no samples)
 // and one hit in full — time traces, windows and its force spectrum.
 import { and, eq } from 'drizzle-orm';
-import { forceWindow, removeOffsets, transientSpectrum } from '@resonote/dsp';
+import { forcePulseSpectrum } from '@resonote/dsp';
 import { uuidSchema } from '@resonote/contracts';
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { notFound } from '../errors.ts';
 import type { ChannelSnapshot } from './channel-map.ts';
-import { currentSettings, preTriggerSamples } from './current-settings.ts';
+import { currentSettings } from './current-settings.ts';
 import { exponentialWindowOf, forceWindowOf } from './settings-to-dsp.ts';
 import { unpackSamples } from './samples-codec.ts';
-import type { HitRow } from './intake.ts';
+import { judge, type HitRow } from './intake.ts';
 
 /** A hit as every hit list and answer shows it; `names` maps user ids to names (else recordedBy is null). */
 export function hitSummary(h: HitRow, names?: Map<string, string>) {
@@ -39,22 +39,19 @@ export async function hitDetail(db: Db, campaignId: string, hitId: string, maxPo
   const { settings: s } = await currentSettings(db, campaignId);
   const channels = h.channels as ChannelSnapshot[];
   const raw = unpackSamples(h.samples, channels.length, h.samplesPerChannel);
-  const centred = removeOffsets(raw, preTriggerSamples(s, h.sampleRateHz));
   const step = Math.max(1, Math.ceil(h.samplesPerChannel / maxPoints));
   const t: number[] = [];
   for (let i = 0; i < h.samplesPerChannel; i += step) t.push(i / h.sampleRateHz);
-  // The force as the FRF sees it: offset removed and the force window applied (docs/methods.md
-  // #force-window), so noise over the rest of the record does not swamp |F(0)|.
-  const fw = forceWindow(h.samplesPerChannel, h.sampleRateHz, forceWindowOf(s));
-  const windowed = centred[0]!.map((v, i) => v * fw[i]!);
-  const spectrum = transientSpectrum(windowed, h.sampleRateHz);
+  // The force spectrum the roll-off check reads (dsp forcePulseSpectrum: offset removed, the pulse
+  // gated, docs/methods.md#roll-off), under the current settings, so the −10/−20 dB marks sit on it.
+  const check = judge(raw, h.sampleRateHz, s);
+  const spectrum = check.forceGate ? forcePulseSpectrum(raw[0]!, h.sampleRateHz, check.forceGate) : null;
   const f: number[] = [];
   const esdDb: number[] = [];
-  const dc = spectrum.re[0]! ** 2 + spectrum.im[0]! ** 2 || 1e-300;
   const fMax = Math.min(h.sampleRateHz / 2, s.bandHz.high * 2);
-  for (let k = 0; k < spectrum.f.length && spectrum.f[k]! <= fMax; k++) {
+  for (let k = 0; spectrum && k < spectrum.f.length && spectrum.f[k]! <= fMax; k++) {
     f.push(spectrum.f[k]!);
-    esdDb.push(10 * Math.log10(Math.max((spectrum.re[k]! ** 2 + spectrum.im[k]! ** 2) / dc, 1e-30)));
+    esdDb.push(Math.max(spectrum.levelDb[k]!, -300));
   }
   return {
     hit: hitSummary(h),
@@ -66,6 +63,6 @@ export async function hitDetail(db: Db, campaignId: string, hitId: string, maxPo
     triggerTimeS: s.preTriggerS,
     forceWindow: forceWindowOf(s),
     exponentialWindow: exponentialWindowOf(s),
-    forceSpectrum: { f, levelDb: esdDb, reference: '|F(f)|² relative to |F(0)|² (dB), force window applied', bandHz: s.bandHz, rollOffDb: s.rollOffDb },
+    forceSpectrum: { f, levelDb: esdDb, reference: '|F(f)|² of the pulse (offset removed, gated to ±4 pulse widths) relative to |F(0)|² (dB), the curve the roll-off check reads', bandHz: s.bandHz, rollOffDb: s.rollOffDb, rollOff10dBHz: check.rollOff10dBHz, rollOff20dBHz: check.rollOff20dBHz },
   };
 }

@@ -24,7 +24,7 @@ export interface Skipped {
 
 /** Verdict of one record: channels in storage order (force first, N; then responses, m/s²). */
 export function judge(channels: Float32Array[] | Float64Array[], fs: number, s: AcquisitionSettings): HitCheck {
-  return checkHit(channels[0]!, channels.slice(1), fs, hitLimitsOf(s));
+  return checkHit(channels[0]!, channels.slice(1), fs, hitLimitsOf(s, fs));
 }
 
 /**

@@ -8,7 +8,6 @@ import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { isDatabaseUnavailable } from '../db-health.ts';
 import { unpackSamples } from './samples-codec.ts';
-import type { EntryResult } from './entry-result.ts';
 
 /** A small least-recently-used map. */
 export class Lru<K, V> {
@@ -40,10 +39,13 @@ export class Lru<K, V> {
  * updated average out) needs neither re-reading raw samples nor re-decoding stored spectra.
  */
 interface Caches {
-  results: Lru<string, EntryResult>;
+  /** Entry results (hits/entry-result.ts) by entry id; this module holds them without knowing their shape. */
+  results: Lru<string, unknown>;
   samples: Lru<string, Float32Array[]>;
   /** Each DOF's running sums of the hits averaged last (settings version, FFT, shape; hits id:version in order). */
   sums: Lru<string, { key: string; hits: string[]; acc: FrfAccumulator }>;
+  /** Check results (linearity) by key, with the input hash they were computed under. */
+  checks: Lru<string, { hash: string; value: unknown }>;
   pending: Set<Promise<unknown>>;
   /** Result writes waiting for their DOF to go quiet, by entry id. */
   scheduled: Map<string, { timer: ReturnType<typeof setTimeout>; run: () => Promise<void> }>;
@@ -58,18 +60,28 @@ function caches(db: Db): Caches {
   if (!c) {
     // 256 hits × 4 channels × 16 384 samples × 4 bytes ≈ 64 MB at most.
     // Running sums: 10 arrays × 8193 lines × 8 bytes + buffers ≈ 0.9 MB per DOF (4 channels, 16 384 samples).
-    c = { results: new Lru(64), samples: new Lru(256), sums: new Lru(48), pending: new Set(), scheduled: new Map() };
+    c = { results: new Lru(64), samples: new Lru(256), sums: new Lru(48), checks: new Lru(512), pending: new Set(), scheduled: new Map() };
     cachesByDb.set(db, c);
   }
   return c;
 }
 
-export function rememberedResult(db: Db, entryId: string): EntryResult | undefined {
-  return caches(db).results.get(entryId);
+export function rememberedResult<T>(db: Db, entryId: string): T | undefined {
+  return caches(db).results.get(entryId) as T | undefined;
 }
 
-export function rememberResult(db: Db, entryId: string, result: EntryResult): void {
+export function rememberResult<T>(db: Db, entryId: string, result: T): void {
   caches(db).results.set(entryId, result);
+}
+
+/** A check result remembered under `key` when it was computed under `hash`; undefined otherwise. */
+export function rememberedCheck<T>(db: Db, key: string, hash: string): T | undefined {
+  const c = caches(db).checks.get(key);
+  return c && c.hash === hash ? (c.value as T) : undefined;
+}
+
+export function rememberCheck(db: Db, key: string, hash: string, value: unknown): void {
+  caches(db).checks.set(key, { hash, value });
 }
 
 /** Remembers the samples of a hit just stored (storage order, engineering units). */

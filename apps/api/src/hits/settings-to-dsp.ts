@@ -32,8 +32,11 @@ export function frfWindowsOf(s: AcquisitionSettings): { forceWindow: ForceWindow
   return { forceWindow: forceWindowOf(s), exponentialWindow: dspExponentialWindowOf(s) };
 }
 
-/** The limits of the hit checks (docs/methods.md#hit-checks) from the settings; the rest are dsp's defaults. */
-export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
+/**
+ * The limits of the hit checks (docs/methods.md#hit-checks) from the settings, for records at fs; the
+ * rest are dsp's defaults. The pre-trigger makes the check take the force offset the FRF removes.
+ */
+export function hitLimitsOf(s: AcquisitionSettings, fs = s.sampleRateHz): HitLimits {
   return {
     ...defaultHitLimits,
     forceRangeN: s.forceRangeN,
@@ -44,5 +47,6 @@ export function hitLimitsOf(s: AcquisitionSettings): HitLimits {
     bandHz: [s.bandHz.low, s.bandHz.high],
     rollOffDb: s.rollOffDb,
     exponentialWindow: dspExponentialWindowOf(s),
+    preTriggerSamples: Math.round(s.preTriggerS * fs),
   };
 }

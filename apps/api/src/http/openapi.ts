@@ -1,6 +1,7 @@
 // The OpenAPI 3.1 document, generated from the same zod schemas that validate the requests, and
 // a plain HTML reference page rendered from it.
 import { z } from 'zod';
+import { errorBodySchema } from '@resonote/contracts';
 import type { RegisteredRoute } from './route.ts';
 
 const accessText: Record<string, string> = {
@@ -13,8 +14,8 @@ const accessText: Record<string, string> = {
   lead: 'leads of the campaign (and admins)',
 };
 
-function jsonSchema(schema: z.ZodType) {
-  return z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' });
+function jsonSchema(schema: z.ZodType, io: 'input' | 'output' = 'input') {
+  return z.toJSONSchema(schema, { io, unrepresentable: 'any' });
 }
 
 export function openApiDocument(routes: RegisteredRoute[], serverUrl: string) {
@@ -32,7 +33,7 @@ export function openApiDocument(routes: RegisteredRoute[], serverUrl: string) {
       description: `Who may call it: ${accessText[r.access]}.${r.returns ? ` Returns ${r.returns}.` : ''}`,
       parameters,
       responses: {
-        [String(r.status)]: { description: r.returns ?? 'Success', content: r.status === 204 ? undefined : { [r.produces ?? 'application/json']: {} } },
+        [String(r.status)]: { description: r.returns ?? 'Success', content: r.status === 204 ? undefined : { [r.produces ?? 'application/json']: r.response ? { schema: jsonSchema(r.response, 'output') } : {} } },
         '400': { description: 'Invalid input; the message names the field', content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } },
         ...(r.access !== 'public' ? { '401': { description: 'Not signed in' } } : {}),
         ...(r.access !== 'public' && r.access !== 'user' ? { '403': { description: 'Role too low' } } : {}),
@@ -50,11 +51,7 @@ export function openApiDocument(routes: RegisteredRoute[], serverUrl: string) {
     components: {
       securitySchemes: { session: { type: 'apiKey', in: 'cookie', name: 'better-auth.session_token' } },
       schemas: {
-        Error: {
-          type: 'object',
-          required: ['error'],
-          properties: { error: { type: 'object', required: ['code', 'message'], properties: { code: { type: 'string' }, message: { type: 'string' }, details: {} } } },
-        },
+        Error: jsonSchema(errorBodySchema, 'output'),
       },
     },
     paths,

@@ -46,6 +46,11 @@ export interface RouteSpec<B = unknown, Q = unknown> {
   status?: number;
   /** A note for the API reference: what the answer holds. */
   returns?: string;
+  /**
+   * The answer's JSON as a zod schema (from packages/contracts, which the web reads its types from);
+   * the OpenAPI entry gets it as the response body. It documents, it does not filter the answer.
+   */
+  response?: ZodType;
   /** Content type of the answer when it is not JSON. */
   produces?: string;
   handler: (ctx: RouteContext<B, Q>) => Promise<unknown> | unknown;
@@ -62,6 +67,7 @@ export interface RegisteredRoute {
   query?: ZodType;
   status: number;
   returns?: string;
+  response?: ZodType;
   produces?: string;
 }
 
@@ -138,6 +144,7 @@ export class ApiRoutes {
       query: spec.query as ZodType | undefined,
       status: spec.status ?? 200,
       returns: spec.returns,
+      response: spec.response,
       produces: spec.produces,
     });
   }

@@ -1,8 +1,9 @@
 import type { StabilityTolerances } from '@resonote/dsp';
+import type { FrfKind } from '@resonote/contracts';
 
 export interface FitJob {
   f: Float64Array;
-  kind: 'receptance' | 'mobility' | 'accelerance';
+  kind: FrfKind;
   frfs: { response: string; reference: string; re: Float64Array; im: Float64Array }[];
   bandHz: [number, number];
   orders: number[];

@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { idempotencyKeySchema } from '@resonote/contracts';
+import { entryHitsAnswerSchema, frfKindSchema, hitDetailSchema, hitsAnswerSchema, idempotencyKeySchema } from '@resonote/contracts';
 import { campaign, hit, hitExclusion, point, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { channelMapFor } from '../hits/channel-map.ts';
@@ -23,7 +23,7 @@ import { requestSha256 } from '../hits/upload-keys.ts';
 import { flagReasonsOf } from '../hits/entry-flags.ts';
 import { entryResult } from '../hits/entry-result.ts';
 
-export const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
+export const kindSchema = frfKindSchema.default('accelerance');
 
 export function registerHitRoutes({ routes, db, config }: Deps, events: CampaignEvents): void {
   const upload = recordingUpload(config.uploadLimitBytes);
@@ -39,6 +39,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     before: [upload],
     status: 201,
     returns: '{ replayed, hits: [{ id, sequence, verdict, reasons, metrics }], skipped, entry: { status, acceptedHits }, frf, next }',
+    response: hitsAnswerSchema,
     handler: async ({ req, res, params, campaign: access, user: me }) => {
       const campaignId = access.campaignId;
       const entry = await loadScheduleEntry(db, campaignId, params.entryId!);
@@ -74,6 +75,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       kind: kindSchema,
     }),
     status: 201,
+    response: hitsAnswerSchema,
     handler: async ({ body, params, res, campaign: access, user: me }) => {
       const campaignId = access.campaignId;
       const entry = await loadScheduleEntry(db, campaignId, params.entryId!);
@@ -98,6 +100,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     tag: 'Hits',
     access: 'viewer',
     summary: 'The hits of a schedule entry, accepted and rejected, with verdicts, reasons and metrics (no samples)',
+    response: entryHitsAnswerSchema,
     handler: async ({ params, campaign: access }) => {
       const entry = await loadScheduleEntry(db, access.campaignId, params.entryId!);
       const rows = await db.select().from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
@@ -125,6 +128,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     access: 'viewer',
     summary: 'One hit: its verdict, the time traces (N, m/s²) with trigger and windows, and its force spectrum',
     query: z.strictObject({ maxPoints: z.coerce.number().int().min(100).max(100_000).default(4000) }),
+    response: hitDetailSchema,
     handler: ({ params, query, campaign: access }) => hitDetail(db, access.campaignId, params.hitId!, query.maxPoints),
   });
 
@@ -134,6 +138,7 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     tag: 'Hits',
     access: 'engineer',
     summary: 'Override a hit’s verdict either way, with a note (audited). Send the version you read; a concurrent override answers 409',
+    response: hitsAnswerSchema,
     body: z.strictObject({ verdict: z.enum(['accept', 'reject']), note: z.string().trim().min(3, 'say why in a few words').max(1000), version: z.number().int().positive(), kind: kindSchema }),
     handler: async ({ body, params, campaign: access, user: me }) => {
       const campaignId = access.campaignId;

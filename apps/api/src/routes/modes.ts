@@ -5,7 +5,7 @@ import { createHash } from 'node:crypto';
 import { and, desc, eq, inArray } from 'drizzle-orm';
 import { z } from 'zod';
 import { convertFrf, correctWindowDamping, estimateShapes, fitQuality, frac, macMatrix, synthesize, type Complex, type FrfSet, type ModalModel } from '@resonote/dsp';
-import { AXIS_CONVENTION, canonicalLabel, frfAxisFactor, uuidSchema } from '@resonote/contracts';
+import { AXIS_CONVENTION, canonicalLabel, frfAxisFactor, frfKindSchema, modeTableChangeSchema, uuidSchema } from '@resonote/contracts';
 import { line, modalFit, modeTableRow, point, scheduleEntry } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { audit } from '../http/audit.ts';
@@ -23,7 +23,7 @@ import { bumpTable, DUPLICATE_RULE, refreshDuplicates, rowView, synthesizeFromTa
 import { cmifWarnings, mpcWarnings, synthesisWarnings, QUALITY_LIMITS, type QualityWarning } from '../modes/quality.ts';
 import { massShapesOf, suggestFromDiagram } from '../modes/suggest.ts';
 
-const kindSchema = z.enum(['receptance', 'mobility', 'accelerance']).default('accelerance');
+const kindSchema = frfKindSchema.default('accelerance');
 const units = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' } as const;
 
 export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void {
@@ -331,6 +331,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     summary: "Add modes of a fit (its computed modes, by number) to the campaign's mode table; the same mode found twice is pointed out. baseVersion is the table version last read (0 for a table not yet started)",
     body: z.strictObject({ fitId: z.string().min(1).max(64), modes: z.array(z.number().int().min(1)).min(1, 'pick at least one mode').max(60), baseVersion: z.number().int().min(0) }),
     status: 201,
+    response: modeTableChangeSchema,
     handler: async ({ body, campaign: access, user: me }) => {
       const fit = await loadFit(access.campaignId, body.fitId);
       const computed = fit.modes as { table: { mode: number; fHz: number; zetaPercent: number; estimated: { fHz: number; zetaPercent: number }; mpc: number; pole?: { order: number; index: number }; shape: ShapeEntry[]; massShape?: { dof: string; re: number; im: number; real: number }[] | null }[]; model: StoredModel; massNote?: string } | null;
@@ -390,6 +391,7 @@ export function registerModeRoutes({ routes, db }: Deps, queue: FitQueue): void 
     access: 'lead',
     summary: "Remove a row from the campaign's mode table (the fit keeps its modes). ?baseVersion= is the table version last read",
     query: z.strictObject({ baseVersion: z.coerce.number().int().min(0) }),
+    response: modeTableChangeSchema,
     handler: async ({ params, query, campaign: access, user: me }) => {
       if (!uuidSchema.safeParse(params.rowId).success) throw notFound('That mode-table row');
       return db.transaction(async (tx) => {

@@ -3,6 +3,7 @@
 import { and, eq } from 'drizzle-orm';
 import { z } from 'zod';
 import { hit } from '@resonote/db/schema';
+import { checksAnswerSchema, entryFrfAnswerSchema, overlayAnswerSchema } from '@resonote/contracts';
 import type { Deps } from './deps.ts';
 import { CampaignEvents } from '../hits/events.ts';
 import { currentSettings } from '../hits/current-settings.ts';
@@ -24,6 +25,7 @@ export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvent
     access: 'viewer',
     summary: 'Averaged FRFs of an entry (H1, H2 per response channel, coherence, force ESD) in the requested kind; only the band of interest unless band=all',
     query: z.strictObject({ kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
+    response: entryFrfAnswerSchema,
     returns: "{ status: 'ready', kind, unit, f, channels: [{ responseDof, h1: { re, im }, h2, coherence }], forceEsd, averages, inputHash, resampled, resampledFromHz, resampledHits }, or { status: 'no-accepted-hit', message } while the entry has no accepted hit (an ordinary state of the test day, not an error)",
     handler: async ({ params, query, campaign: access }) => {
       const entry = await loadScheduleEntry(db, access.campaignId, params.entryId!);
@@ -70,6 +72,7 @@ export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvent
     tag: 'Results',
     access: 'viewer',
     summary: 'Reciprocity (H_ij against H_ji) and linearity (the same DOF pair at two force levels) checks, with FRAC and dB/phase differences at the peaks (FRAC: Heylen & Lammens 1996; the checks: Ewins 2000)',
+    response: checksAnswerSchema,
     handler: ({ campaign: access }) => campaignChecks(db, access.campaignId),
   });
 
@@ -80,6 +83,7 @@ export function registerResultRoutes({ routes, db }: Deps, events: CampaignEvent
     access: 'viewer',
     summary: 'Averaged FRFs of several entries at once for overlays (up to 100), main channel only',
     query: z.strictObject({ entries: z.string().max(4000).optional(), kind: kindSchema, band: z.enum(['settings', 'all']).default('settings') }),
+    response: overlayAnswerSchema,
     handler: ({ query, campaign: access }) => frfOverlays(db, access.campaignId, query.entries ? query.entries.split(',').filter(Boolean) : null, query.kind, query.band === 'all'),
   });
 }

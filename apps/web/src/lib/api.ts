@@ -1,15 +1,18 @@
 // Fetch wrapper for the Resonote API: JSON in and out, cookies included, and the API's one error
 // shape ({ error: { code, message, details } }) turned into an ApiError the screens can show.
-export class ApiError extends Error {
+import { errorBodySchema, HttpError } from '@resonote/contracts';
+
+/** A failed call: the API's error class (packages/contracts, the one shape on both sides) with the Retry-After it was given. */
+export class ApiError extends HttpError {
   constructor(
-    readonly status: number,
-    readonly code: string,
+    status: number,
+    code: string,
     message: string,
-    readonly details?: unknown,
+    details?: unknown,
     /** Seconds the server asked to wait before a retry (its Retry-After header), when it said. */
     readonly retryAfterS?: number,
   ) {
-    super(message);
+    super(status, code, message, details);
   }
 }
 
@@ -43,7 +46,8 @@ export async function api<T>(path: string, init: { method?: string; body?: unkno
     }
   }
   if (!response.ok) {
-    const err = (data as { error?: { code?: string; message?: string; details?: unknown } } | undefined)?.error;
+    const parsed = errorBodySchema.safeParse(data);
+    const err = parsed.success ? parsed.data.error : undefined;
     throw new ApiError(response.status, err?.code ?? 'http-' + response.status, err?.message ?? `The server answered ${response.status}.`, err?.details, retryAfterSeconds(response.headers.get('retry-after')));
   }
   return data as T;

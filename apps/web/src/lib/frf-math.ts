@@ -4,11 +4,12 @@
 // Typed arrays throughout: an overlay of 100 FRFs × 8193 lines runs through here.
 
 import { unwrapPhaseDeg } from '@resonote/dsp';
+import { frfUnits, type FrfKind } from '@resonote/contracts';
 
-export type FrfKind = 'receptance' | 'mobility' | 'accelerance';
+export type { FrfKind };
 
 /** SI unit of each FRF kind (ISO 7626-1:2011 names). */
-export const frfUnit: Record<FrfKind, string> = { receptance: 'm/N', mobility: '(m/s)/N', accelerance: '(m/s²)/N' };
+export const frfUnit = frfUnits;
 export const frfKindLabel: Record<FrfKind, string> = { receptance: 'Receptance', mobility: 'Mobility', accelerance: 'Accelerance' };
 
 /** Standard gravity, m/s² (exact, ISO 80000-3). */

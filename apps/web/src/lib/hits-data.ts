@@ -3,128 +3,31 @@
 import { useEffect, useState } from 'react';
 import { useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
 import type { FlagReason, ScheduleStatus } from '@resonote/contracts';
+import type { ChecksAnswer, EntryFrfAnswer, EntryHits, FrfJson, HitDetail, HitsAnswer, OverlayAnswer } from '@resonote/contracts';
 import { api, ApiError, retryAfterSeconds } from './api.ts';
-import type { FrfKind } from './frf-math.ts';
+import type { FrfKind } from '@resonote/contracts';
 import type { ScheduleEntry } from './campaign-data.ts';
 
-export type Verdict = 'accept' | 'reject';
-export interface HitReason {
-  code: string;
-  message: string;
-}
-export interface HitMetrics {
-  peakForceN: number;
-  pulseWidthS: number | null;
-  impulseNs: number;
-  rollOff10dBHz: number | null;
-  rollOff20dBHz: number | null;
-  secondPeakRatio: number | null;
-  secondPeakDelayS: number | null;
-  forceClippedSamples: number;
-  noiseRmsN: number;
-  peakTimeS: number | null;
-  responsePeaks: number[];
-  responseTailRatios: number[];
-}
-export interface HitSummary {
-  id: string;
-  sequence: number;
-  verdict: Verdict;
-  autoVerdict: Verdict;
-  overridden: boolean;
-  reasons: HitReason[];
-  metrics: HitMetrics;
-  overrideNote: string | null;
-  source: string;
-  settingsVersion: number;
-  recordedBy: string | null;
-  recordedAt: string;
-  version: number;
-  /** Set aside by a redo of the DOF (kept, not counted): who, why, when. Only in GET …/hits. */
-  setAside?: { redoId: string; by: string | null; reason: string; at: string } | null;
-}
-export interface EntryHits {
-  entry: { id: string; responseDof: string; excitationDof: string; status: ScheduleStatus; requiredHits: number; version: number; flagReasons: FlagReason[] };
-  hits: HitSummary[];
-}
-export interface TraceChannel {
-  channel: number;
-  role: 'force' | 'response';
-  dof: string | null;
-  unit: string;
-  sign: number;
-  kitItem: string;
-  values: number[];
-}
-export interface HitDetail {
-  hit: HitSummary;
-  sampleRateHz: number;
-  samples: number;
-  decimation: number;
-  t: number[];
-  channels: TraceChannel[];
-  triggerTimeS: number;
-  forceWindow: { startS: number; lengthS: number; taperS: number };
-  exponentialWindow: { startS: number; tauS: number; endLevelPercent: number } | null;
-  forceSpectrum: { f: number[]; levelDb: number[]; reference: string; bandHz: { low: number; high: number }; rollOffDb: number };
-}
-export interface ComplexJson {
-  re: number[];
-  im: number[];
-}
-export interface FrfAnswer {
-  status?: 'ready';
-  entry?: { id: string; responseDof: string; excitationDof: string; drivingPoint: boolean };
-  kind: FrfKind;
-  unit: string;
-  estimators: string;
-  averages: number;
-  sampleRateHz: number;
-  samples: number;
-  df: number;
-  f: number[];
-  excitationDof: string;
-  forceEsd: { unit: string; scaling: string; values: number[] };
-  channels: { responseDof: string; meanCoherence: number | null; h1: ComplexJson; h2: ComplexJson; coherence: number[] }[];
-}
-export interface HitsAnswer {
-  replayed: boolean;
-  hits: HitSummary[];
-  skipped: { timeS: number; reason: string }[];
-  entry: { id: string; status: ScheduleStatus; acceptedHits: number; totalHits: number; flagReasons: FlagReason[] };
-  frf: FrfAnswer | null;
-  next: string | null;
-}
-export interface OverlayFrf {
-  entryId: string;
-  responseDof: string;
-  excitationDof: string;
-  averages: number;
-  f: number[];
-  h1: ComplexJson;
-  coherence: number[];
-  meanCoherence: number | null;
-}
-export interface OverlayAnswer {
-  kind: FrfKind;
-  unit: string;
-  frfs: OverlayFrf[];
-}
-export interface PeakDifference {
-  fHz: number;
-  dbDifference: number;
-  phaseDifferenceDeg: number;
-  peakShiftHz: number;
-}
-export interface DofPair {
-  response: string;
-  excitation: string;
-}
-export interface ChecksAnswer {
-  reciprocity: { a: DofPair; b: DofPair; frac: number; peaks: PeakDifference[] }[];
-  linearity: { entry: DofPair; lowForceN: number; highForceN: number; forceRatio: number; hitsPerLevel: number; frac: number; peaks: PeakDifference[] }[];
-  note: string;
-}
+// The answers' types come from the schemas the API declares on its routes (packages/contracts/src/hits.ts).
+export type {
+  Verdict,
+  HitReason,
+  HitMetrics,
+  HitSummary,
+  EntryHits,
+  HitDetail,
+  ComplexJson,
+  HitsAnswer,
+  OverlayFrf,
+  OverlayAnswer,
+  PeakDifference,
+  DofPair,
+  ChecksAnswer,
+} from '@resonote/contracts';
+/** An entry's averaged FRF: all channels from GET …/frf, the main one in a hit answer (`channelCount` says how many there are). */
+export type FrfAnswer = FrfJson;
+export type TraceChannel = HitDetail['channels'][number];
+
 export interface CampaignListItem {
   id: string;
   name: string;
@@ -155,7 +58,7 @@ export const useEntryFrf = (id: string, entryId: string | null | undefined, kind
   useQuery({
     queryKey: hitKeys.frf(id, entryId ?? '', kind),
     queryFn: async () => {
-      const answer = await api<FrfAnswer | { status: 'no-accepted-hit'; message: string }>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
+      const answer = await api<EntryFrfAnswer>(`/campaigns/${id}/schedule/${entryId}/frf?kind=${kind}`);
       return answer.status === 'no-accepted-hit' ? null : answer;
     },
     enabled: Boolean(entryId),
@@ -169,6 +72,26 @@ export const useMyCampaigns = () => useQuery({ queryKey: ['campaigns', 'mine-for
 export async function fetchOverlay(path: string): Promise<OverlayAnswer & { receivedAt: number }> {
   const answer = await api<OverlayAnswer>(path);
   return { ...answer, receivedAt: performance.now() };
+}
+
+/**
+ * Hit versions ("id:version") whose answer this tab has applied already: the campaign event of the
+ * same change (which carries them) then refreshes nothing a second time.
+ */
+const appliedHere = new Set<string>();
+export function markApplied(hits: readonly { id: string; version: number }[]): void {
+  for (const h of hits) appliedHere.add(`${h.id}:${h.version}`);
+  // A bounded memory: the oldest go first (a Set keeps insertion order).
+  while (appliedHere.size > 500) appliedHere.delete(appliedHere.values().next().value!);
+}
+/** True for the event of a change this tab made and applied (every hit it names is known here). */
+function appliedAlready(data: string): boolean {
+  try {
+    const e = JSON.parse(data) as { hits?: string[] };
+    return Array.isArray(e.hits) && e.hits.length > 0 && e.hits.every((h) => appliedHere.has(h));
+  } catch {
+    return false;
+  }
 }
 
 /** Everything a hit or a verdict can change, for one campaign. */
@@ -203,7 +126,9 @@ export function useLiveCampaign(campaignId: string): 'live' | 'polling' | 'conne
           poll = undefined;
         }
       };
-      source.addEventListener('change', () => {
+      source.addEventListener('change', (event) => {
+        // This tab's own hit or verdict: its answer was applied and refreshed the data once already.
+        if (appliedAlready((event as MessageEvent<string>).data)) return;
         // Several hits of one recording arrive together: refresh once.
         clearTimeout(debounce);
         debounce = setTimeout(() => void invalidateTestData(client, campaignId), 250);

@@ -1,7 +1,8 @@
 import type { Complex } from '../types.ts';
+import type { FrfKind } from '../frf.ts';
 
-/** Kind of an FRF: receptance (m/N), mobility ((m/s)/N) or accelerance ((m/s²)/N). */
-export type ModalFrfKind = 'receptance' | 'mobility' | 'accelerance';
+/** Kind of an FRF: receptance (m/N), mobility ((m/s)/N) or accelerance ((m/s²)/N); dsp's one `FrfKind` (frf.ts), by the name the modal code uses. */
+export type ModalFrfKind = FrfKind;
 
 /**
  * One measured FRF, H = response ÷ force (docs/methods.md#conventions), on the frequency axis of its set.

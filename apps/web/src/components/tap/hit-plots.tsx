@@ -67,7 +67,6 @@ function timeFigure(d: HitDetail, c: PlotColours) {
 
 function spectrumFigure(d: HitDetail, c: PlotColours) {
   const s = d.forceSpectrum;
-  const m = d.hit.metrics;
   const fMax = s.f[s.f.length - 1] ?? 1;
   const data = [{ type: 'scatter', mode: 'lines', name: 'Force ESD', x: s.f, y: s.levelDb, line: { color: c.force, width: 1.2 }, hovertemplate: 'force ESD %{y:.1f} dB re |F(0)|²<extra></extra>' }];
   const shapes: Record<string, unknown>[] = [
@@ -80,9 +79,10 @@ function spectrumFigure(d: HitDetail, c: PlotColours) {
     { xref: 'x domain', yref: 'y', x: 1, y: -10, xanchor: 'right', yanchor: 'bottom', showarrow: false, text: '−10 dB', font: { size: 11, color: c.muted } },
     { xref: 'x domain', yref: 'y', x: 1, y: -20, xanchor: 'right', yanchor: 'bottom', showarrow: false, text: '−20 dB', font: { size: 11, color: c.muted } },
   ];
+  // The marks read from the plotted curve itself (the server's roll-off check under the current settings).
   for (const [level, f] of [
-    [10, m.rollOff10dBHz],
-    [20, m.rollOff20dBHz],
+    [10, s.rollOff10dBHz],
+    [20, s.rollOff20dBHz],
   ] as const) {
     if (f === null || f === undefined || f > fMax) continue;
     const inside = f < s.bandHz.high;

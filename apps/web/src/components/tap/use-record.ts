@@ -3,7 +3,7 @@
 import { useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from '../../lib/api.ts';
-import { hitKeys, invalidateTestData, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary, type Verdict } from '../../lib/hits-data.ts';
+import { hitKeys, invalidateTestData, markApplied, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary, type Verdict } from '../../lib/hits-data.ts';
 import { useToast } from '../../lib/toast.tsx';
 import { sendUntilStored, type Waiting } from '../../lib/retry.ts';
 
@@ -62,7 +62,9 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
 
   function apply(answer: HitsAnswer) {
     if (!entryId) return;
-    if (answer.frf) client.setQueryData(hitKeys.frf(campaignId, entryId, 'accelerance'), answer.frf);
+    // The answer's FRF is the main channel only; the entry's FRF (every channel) is fetched once,
+    // by the refresh below. The campaign event of this same change then refreshes nothing again.
+    markApplied(answer.hits);
     client.setQueryData<EntryHits>(hitKeys.entryHits(campaignId, entryId), (old) => {
       if (!old) return old;
       const byId = new Map(old.hits.map((h) => [h.id, h]));
