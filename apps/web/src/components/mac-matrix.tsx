@@ -47,16 +47,22 @@ export function MacMatrix({
 }) {
   const dark = useThemeName() === 'dark';
   const c = plotColours(dark);
-  const shortRows = rows.length > FULL_TICKS;
-  const shortCols = columns.length > FULL_TICKS;
-  const compact = Math.max(rows.length, columns.length) > 8;
+  // Callers build the axis lists inline; keyed by their content, so a re-render of the page does not hand
+  // plotly a "new" figure and redraw it each time.
+  const rowKey = rows.map((r) => `${r.name}\u0000${r.short}`).join('\u0001');
+  const colKey = columns.map((r) => `${r.name}\u0000${r.short}`).join('\u0001');
+  const rowList = useMemo(() => rows, [rowKey]);
+  const colList = useMemo(() => columns, [colKey]);
+  const shortRows = rowList.length > FULL_TICKS;
+  const shortCols = colList.length > FULL_TICKS;
+  const compact = Math.max(rowList.length, colList.length) > 8;
   const data = useMemo(
     () => [
       {
         type: 'heatmap',
         z: matrix,
-        x: columns.map((m) => (shortCols ? m.short : m.name)),
-        y: rows.map((m) => (shortRows ? m.short : m.name)),
+        x: colList.map((m) => (shortCols ? m.short : m.name)),
+        y: rowList.map((m) => (shortRows ? m.short : m.name)),
         zmin: 0,
         zmax: 1,
         colorscale: dark
@@ -69,7 +75,8 @@ export function MacMatrix({
               [1, '#0a5552'],
             ],
         text: matrix.map((row) => row.map((v) => cellText(v, compact))),
-        customdata: matrix.map((row, i) => row.map((_, j) => [rows[i]!.name, columns[j]!.name])),
+        // The matrix and the names can be a render apart (the page updates the table's rows before its MAC arrives).
+        customdata: matrix.map((row, i) => row.map((_, j) => [rowList[i]?.name ?? '', colList[j]?.name ?? ''])),
         texttemplate: '%{text}',
         textfont: { family: monoFont, size: compact ? 10 : 12 },
         hovertemplate: '%{customdata[0]} against %{customdata[1]}<br>MAC %{z:.3f}<extra></extra>',
@@ -78,7 +85,7 @@ export function MacMatrix({
         ygap: 1,
       },
     ],
-    [matrix, rows, columns, dark, shortRows, shortCols, compact],
+    [matrix, rowList, colList, dark, shortRows, shortCols, compact],
   );
   const layout = useMemo(
     () =>
@@ -91,6 +98,6 @@ export function MacMatrix({
       }),
     [c, shortRows, shortCols, rowTitle, columnTitle],
   );
-  const h = height ?? Math.max(240, 110 + (compact ? 30 : 40) * rows.length);
+  const h = height ?? Math.max(240, 110 + (compact ? 30 : 40) * rowList.length);
   return <Plot label={label} data={data} layout={layout} config={plotConfig} height={h} className={className} />;
 }

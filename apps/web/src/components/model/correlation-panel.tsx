@@ -29,7 +29,8 @@ function FrequencyPlot({ pairs }: { pairs: Extract<FeCorrelation, { ok: true }>[
         x: pairs.map((p) => p.modelHz),
         y: pairs.map((p) => p.testHz),
         text: pairs.map((p) => `${p.testMode}`),
-        textposition: 'top left',
+        // right of the dot: a test mode below the model's sits under the line, so the number stays clear of it
+        textposition: 'middle right',
         textfont: { size: 11 },
         name: 'paired modes',
         marker: { size: 8, color: dark ? '#6fa8e8' : '#1f5fa8' },
