@@ -43,7 +43,13 @@ describe('the FRFs a fit takes by default', () => {
     expect(flagged.map((e) => e.excitationDof)).toEqual(['P13:+Z']);
     const res = await lead.post(`/api/campaigns/${skidId}/modes/fits`).send({ bandHz: { low: 5, high: 120 }, maxOrder: 4 });
     expect(res.status).toBe(202);
-    expect(res.body.leftOut).toEqual([{ id: flagged[0]!.id, responseDof: 'P07:+Z', excitationDof: 'P13:+Z', reason: 'flagged' }]);
+    // The seed's reciprocal entry (hammer at the reference P07, the sensor at a roving point) is no
+    // column of the reference's FRF matrix, so it is left out too (packages/contracts/src/fit-selection.ts).
+    const reciprocal = entries.find((e) => e.excitationDof === 'P07:+Z' && e.responseDof !== 'P07:+Z')!;
+    expect(res.body.leftOut).toEqual([
+      { id: flagged[0]!.id, responseDof: 'P07:+Z', excitationDof: 'P13:+Z', reason: 'flagged' },
+      { id: reciprocal.id, responseDof: reciprocal.responseDof, excitationDof: 'P07:+Z', reason: 'other-reference' },
+    ]);
     const fit = (await lead.get(`/api/campaigns/${skidId}/modes/fits`)).body.fits[0];
     expect(fit.frfCount).toBe(12);
     // picked by name, the flagged FRF goes in
@@ -61,7 +67,9 @@ describe('the FRFs a fit takes by default', () => {
     const channels = (await lead.get(`/api/campaigns/${skidId}/channels`)).body.channels as { channel: number; dof: string | null; label: string }[];
     expect(channels.find((x) => x.channel === 2)).toMatchObject({ dof: 'P01:+Z', label: 'accel P01:+Z' });
     const lines = (await lead.get(`/api/campaigns/${skidId}/audit?entity=channel`)).body.events as { action: string; before: { dof: string }; after: { dof: string } }[];
-    expect(lines.filter((e) => e.action === 'update').map((e) => [e.before.dof, e.after.dof])).toEqual([['P07:+Z', 'P01:+Z']]);
+    // The seed moved the sensor to the reciprocal entry's point and back before (apps/api/src/seed.ts); the accept adds one move.
+    const moves = lines.filter((e) => e.action === 'update').map((e) => [e.before.dof, e.after.dof]);
+    expect(moves.filter(([, to]) => to === 'P01:+Z')).toEqual([['P07:+Z', 'P01:+Z']]);
 
     // The rig at two of the new entries: the response is measured, and labelled, at P01:+Z.
     const fresh = (await schedule()).filter((e) => e.responseDof === 'P01:+Z' && ['P01:+Z', 'P02:+Z'].includes(e.excitationDof));
@@ -71,10 +79,11 @@ describe('the FRFs a fit takes by default', () => {
       expect(r.status).toBe(201);
       expect(r.body.frf.channels.map((x: { responseDof: string }) => x.responseDof)).toEqual(['P01:+Z']);
     }
-    // A default fit takes the two FRFs at the new reference; the 13 at P07:+Z are listed as left out.
+    // A default fit takes the two FRFs at the new reference; the 14 at P07:+Z (13 roving entries and
+    // the seed's reciprocal entry) are listed as left out.
     const res = await lead.post(`/api/campaigns/${skidId}/modes/fits`).send({ bandHz: { low: 5, high: 120 }, maxOrder: 4 });
     expect(res.status).toBe(202);
-    expect(res.body.leftOut).toHaveLength(13);
+    expect(res.body.leftOut).toHaveLength(14);
     expect(new Set(res.body.leftOut.map((e: { reason: string }) => e.reason))).toEqual(new Set(['other-reference']));
     const fit = (await lead.get(`/api/campaigns/${skidId}/modes/fits`)).body.fits[0];
     expect(fit.frfCount).toBe(2);

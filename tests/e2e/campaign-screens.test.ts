@@ -132,7 +132,7 @@ describe('what a viewer and an outsider see', () => {
     expect(await page.getByRole('combobox').count()).toBe(0);
     expect(await page.locator('button[aria-pressed]').count()).toBe(0);
     expect(await page.locator('button[aria-label^="Move"]').count()).toBe(0);
-    await page.getByRole('link', { name: 'Kit' }).click();
+    await page.getByRole('link', { name: 'Kit', exact: true }).click();
     await page.getByTestId('settings-history').waitFor();
     for (const name of ['Save settings', 'Add hammer', 'Add accelerometer', 'Add calibration', 'Add channel', 'Edit', 'Retire']) {
       expect(await page.getByRole('button', { name, exact: true }).count(), `button ${name} on Kit`).toBe(0);
@@ -170,7 +170,7 @@ describe('screenshots of the campaign screens', () => {
       await page.getByTestId('schedule-table').waitFor();
       await waitForGeometry(page);
       await screenshot(page, `plan-${size}`);
-      await page.getByRole('link', { name: 'Kit' }).click();
+      await page.getByRole('link', { name: 'Kit', exact: true }).click();
       await page.getByTestId('settings-history').waitFor();
       await screenshot(page, `kit-${size}`);
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);

@@ -58,6 +58,8 @@ describe('Review in the browser', () => {
         return { x: Array.from(gd.data[0]!.x), range: gd.layout.xaxis.range };
       });
     const whole = await firstTrace();
+    // The mouse works in window coordinates: the plot is brought into view before its box is read.
+    await page.locator('[data-testid="overlay-plot"]').scrollIntoViewIfNeeded();
     const drag = (await page.locator('[data-testid="overlay-plot"] .nsewdrag').first().boundingBox())!;
     await page.mouse.move(drag.x + drag.width * 0.2, drag.y + drag.height / 2);
     await page.mouse.down();
@@ -81,7 +83,9 @@ describe('Review in the browser', () => {
     await settled(page);
     await screenshot(page, 'review-zoomed-1366');
     // A double-click returns to the whole axis and its decimated curves.
-    await page.mouse.dblclick(drag.x + drag.width / 2, drag.y + drag.height / 2);
+    await page.locator('[data-testid="overlay-plot"]').scrollIntoViewIfNeeded();
+    const again = (await page.locator('[data-testid="overlay-plot"] .nsewdrag').first().boundingBox())!;
+    await page.mouse.dblclick(again.x + again.width / 2, again.y + again.height / 2);
     await page.waitForFunction((n) => {
       const gd = document.querySelector('[data-testid="overlay-plot"]') as unknown as { data: { x: ArrayLike<number> }[] };
       return gd.data[0]!.x.length === n;

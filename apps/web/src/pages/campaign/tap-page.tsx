@@ -104,7 +104,8 @@ export function TapPage() {
 
   const [dialog, setDialog] = useState<{ kind: 'redo' } | { kind: 'leave'; target: string } | null>(null);
   const closeDialog = useCallback(() => setDialog(null), []);
-  const [plotBox, plotHeight] = useFitHeight(300, 560, 20);
+  // At 1024×768 the one screen leaves about 250 px for the plot below the DOF bar and the caution line.
+  const [plotBox, plotHeight] = useFitHeight(240, 560, 20);
 
   // Moving to another DOF: a question first when this one was started and is short of its hits.
   const requestMove = useCallback(

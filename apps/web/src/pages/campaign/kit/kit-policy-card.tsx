@@ -43,7 +43,16 @@ export function KitPolicyCard({ campaignId, canLead }: { campaignId: string; can
     <Panel title="Calibration policy">
       {policy.isPending && <Spinner label="Loading the policy…" />}
       {policy.isError && <Notice tone="error">The policy could not be loaded: {policy.error.message}</Notice>}
-      {p && (
+      {p && !canLead && (
+        // Read-only for everyone but the lead: the policy in words, no form controls.
+        <dl className="grid gap-1 text-sm sm:grid-cols-[auto_minmax(0,1fr)] sm:gap-x-4" data-testid="kit-policy">
+          <dt className="text-[var(--muted)]">An overdue or missing calibration on Tap</dt>
+          <dd>{p.calibration === 'block' ? 'Blocks hits until it is recorded' : 'Warns; hits are taken'}</dd>
+          <dt className="text-[var(--muted)]">Confirm a sensitivity change beyond</dt>
+          <dd className="num">{p.changeTolerancePct} % (5 % is common practice)</dd>
+        </dl>
+      )}
+      {p && canLead && (
         <form key={p.version} onSubmit={submit} className="grid items-end gap-3 sm:grid-cols-[minmax(0,1fr)_minmax(0,12rem)_auto]" aria-label="Calibration policy" data-testid="kit-policy">
           <Select
             id="policy-calibration"
