@@ -174,7 +174,11 @@ describe('numbers and words in the browser', () => {
     await plot.waitFor({ timeout: 20_000 });
     await page.getByTestId('frequency-choice').getByRole('radio', { name: 'Log' }).click();
     await page.getByTestId('phase-choice').getByRole('radio', { name: 'Unwrapped' }).click();
-    await page.waitForFunction(() => Array.from(document.querySelectorAll('[data-testid="dof-detail"] .xtick text')).some((t) => t.textContent === '100'));
+    // Both choices redraw the plot: wait until the log ticks and the unwrapped phase axis are drawn.
+    await page.waitForFunction(() => {
+      const texts = (sel: string) => Array.from(document.querySelectorAll(`[data-testid="dof-detail"] ${sel}`)).map((t) => t.textContent ?? '');
+      return texts('.xtick text').includes('100') && texts('.y2tick text').some((t) => Number(t.replace('−', '-')) < -180);
+    });
     const ticks = await page.locator('[data-testid="dof-detail"] .xtick text').allTextContents();
     expect(ticks.some((t) => /\.00$/.test(t))).toBe(false);
     // Unwrapped: the phase axis is no longer held to ±180°.
