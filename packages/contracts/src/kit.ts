@@ -27,8 +27,8 @@ export function toBaseSensitivity(value: number, unit: SensitivityUnit): number 
   }
 }
 
-const text = (max: number) => z.string().trim().max(max);
-const sensitivity = z.number({ error: 'sensitivity must be a number' }).finite().positive('sensitivity must be > 0').max(1e6);
+export const text = (max: number) => z.string().trim().max(max);
+export const sensitivity = z.number({ error: 'sensitivity must be a number' }).finite().positive('sensitivity must be > 0').max(1e6);
 const axes = z
   .array(z.enum(['X', 'Y', 'Z']))
   .min(1, 'list at least one axis')
@@ -75,20 +75,26 @@ export const kitItemPatchSchema = z.strictObject({
   confirmLargeChange: z.boolean().optional(),
 });
 
-const isoDate = z.iso.date('use a date written YYYY-MM-DD');
+export const isoDate = z.iso.date('use a date written YYYY-MM-DD');
 
-export const calibrationCreateSchema = z
-  .strictObject({
-    calibratedOn: isoDate,
-    dueOn: isoDate,
-    certificateRef: text(120).min(1, 'enter the certificate reference'),
-    performedBy: text(120).min(1, 'enter who calibrated it (lab or person)'),
-    /** The sensitivity the certificate states, in the item's unit; updates the item when given. */
-    sensitivity: sensitivity.optional(),
-    /** Confirms a sensitivity change beyond the campaign's tolerance (lab.ts largeSensitivityChange). */
-    confirmLargeChange: z.boolean().optional(),
-  })
-  .refine((c) => c.dueOn > c.calibratedOn, { message: 'the due date must be after the calibration date', path: ['dueOn'] });
+/** The fields of a calibration certificate, for a campaign's kit item and for a lab item (lab.ts). */
+export const calibrationFields = {
+  calibratedOn: isoDate,
+  dueOn: isoDate,
+  certificateRef: text(120).min(1, 'enter the certificate reference'),
+  performedBy: text(120).min(1, 'enter who calibrated it (lab or person)'),
+  /** The sensitivity the certificate states, in the item's unit; updates the item when given. */
+  sensitivity: sensitivity.optional(),
+  /** Confirms a sensitivity change beyond the campaign's tolerance (lab.ts largeSensitivityChange). */
+  confirmLargeChange: z.boolean().optional(),
+};
+
+/** A certificate's due date comes after its calibration date. */
+export function dueAfterCalibration<T extends z.ZodType<{ calibratedOn: string; dueOn: string }>>(schema: T) {
+  return schema.refine((c) => c.dueOn > c.calibratedOn, { message: 'the due date must be after the calibration date', path: ['dueOn'] });
+}
+
+export const calibrationCreateSchema = dueAfterCalibration(z.strictObject(calibrationFields));
 
 /** Days before the due date when Resonote starts warning (issue 4: 30 days). */
 export const CALIBRATION_WARNING_DAYS = 30;

@@ -1,14 +1,12 @@
 // The lab's kit inventory, bookings, the campaign's calibration policy, sensitivity-change
 // confirmation and notes/photos per DOF: schemas shared by the API and the web app.
 import { z } from 'zod';
-import { accelerometerUnits, hammerUnits, NEWTONS_PER_LBF, STANDARD_GRAVITY, toBaseSensitivity, type SensitivityUnit } from './kit.ts';
+import { accelerometerUnits, calibrationFields, dueAfterCalibration, hammerUnits, isoDate, NEWTONS_PER_LBF, sensitivity, text, STANDARD_GRAVITY, toBaseSensitivity, type SensitivityUnit } from './kit.ts';
 import { uuidSchema, versionSchema } from './common.ts';
 
 export const labKinds = ['hammer', 'accelerometer', 'conditioner'] as const;
 export type LabKind = (typeof labKinds)[number];
 
-const text = (max: number) => z.string().trim().max(max);
-const sensitivity = z.number({ error: 'sensitivity must be a number' }).finite().positive('sensitivity must be > 0').max(1e6);
 const axisList = z
   .array(z.enum(['X', 'Y', 'Z']))
   .min(1, 'list at least one axis')
@@ -16,7 +14,6 @@ const axisList = z
   .refine((a) => new Set(a).size === a.length, 'an axis is listed twice');
 /** Per-axis sensitivities of a triaxial sensor, in the item's unit. */
 const axisSensitivities = z.strictObject({ X: sensitivity.optional(), Y: sensitivity.optional(), Z: sensitivity.optional() });
-const isoDate = z.iso.date('use a date written YYYY-MM-DD');
 
 export const labItemCreateSchema = z.discriminatedUnion('kind', [
   z.strictObject({
@@ -57,19 +54,9 @@ export const labItemPatchSchema = z.strictObject({
   retired: z.boolean().optional(),
 });
 
-export const labCalibrationCreateSchema = z
-  .strictObject({
-    calibratedOn: isoDate,
-    dueOn: isoDate,
-    certificateRef: text(120).min(1, 'enter the certificate reference'),
-    performedBy: text(120).min(1, 'enter who calibrated it (lab or person)'),
-    /** In the item's unit; updates the item (and every campaign that borrows it) when given. */
-    sensitivity: sensitivity.optional(),
-    axisSensitivities: axisSensitivities.optional(),
-    /** Confirms a change beyond the tolerance (see sensitivityChange). */
-    confirmLargeChange: z.boolean().optional(),
-  })
-  .refine((c) => c.dueOn > c.calibratedOn, { message: 'the due date must be after the calibration date', path: ['dueOn'] });
+/** A lab item's certificate: a campaign item's fields (kit.ts), and per-axis values for a triaxial sensor. When a
+ * sensitivity is given it updates the item and every campaign that borrows it. */
+export const labCalibrationCreateSchema = dueAfterCalibration(z.strictObject({ ...calibrationFields, axisSensitivities: axisSensitivities.optional() }));
 
 export const bookingCreateSchema = z
   .strictObject({
