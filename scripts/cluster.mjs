@@ -108,8 +108,18 @@ http {
   scgi_temp_path ${runDir}/tmp/scgi;
   # Uploads up to the API's own limit (UPLOAD_LIMIT_MB × 4 for a backup restore); the API refuses beyond.
   client_max_body_size 512m;
+  # Cache affinity, not truth: the requests of one schedule entry (its hits, its FRF) go to the same
+  # API process while it is up, so that process's running sums already hold the DOF's earlier hits
+  # and a new hit costs one transform, not a read of the others' samples (hits/result-cache.ts). Any
+  # other request is spread at random ($request_id). A process that fails hands its entries to the
+  # others; every read still checks its input hash in PostgreSQL (docs/decisions/hit-cost.md).
+  map $request_uri $resonote_affinity {
+    ~^/api/campaigns/[^/]+/schedule/(?<entry>[^/?]+) $entry;
+    default $request_id;
+  }
   upstream resonote_api {
     # Any API process serves any request: sessions, events and jobs live in PostgreSQL.
+    hash $resonote_affinity consistent;
 ${apiPorts.map((p) => `    server 127.0.0.1:${p} max_fails=3 fail_timeout=5s;`).join('\n')}
     keepalive 64;
   }

@@ -50,7 +50,15 @@ export function splitRecords(channels: readonly ArrayLike<number>[], fs: number,
   const offset = channelOffset(force, pre);
   const centred = new Float64Array(length);
   for (let i = 0; i < length; i++) centred[i] = force[i]! - offset;
-  const cut = (start: number) => channels.map((c) => Float32Array.from({ length: n }, (_, i) => c[start + i]!));
+  // One float32 block per record, channel after channel (the stored layout): the channels are views of it.
+  const cut = (start: number) => {
+    const block = new Float32Array(channels.length * n);
+    channels.forEach((c, k) => {
+      const base = k * n;
+      for (let i = 0; i < n; i++) block[base + i] = c[start + i]!;
+    });
+    return channels.map((_, k) => block.subarray(k * n, (k + 1) * n));
+  };
   const records: SplitRecords['records'] = [];
   const skipped: SplitRecords['skipped'] = [];
 

@@ -118,7 +118,7 @@ export function decodeUpload(file: { originalname: string; mimetype: string; buf
   }
 }
 
-/** The checks and unit conversion of uploadInEngineeringUnits on a recording already decoded (and perhaps resampled). */
+/** The checks and unit conversion of uploadInEngineeringUnits on a recording already decoded (and perhaps resampled); its channels are converted in place and returned. */
 export function decodedInEngineeringUnits(decoded: DecodedRecording, map: ChannelSnapshot[], reading: UploadReading, settingsRateHz: number, ranges: ChannelRanges): Float64Array[] {
   if (decoded.channels.length !== map.length) {
     throw badRequest(`The file has ${decoded.channels.length} channel${decoded.channels.length === 1 ? '' : 's'}; the channel map has ${map.length} (${map.map((c) => `ch${c.channel} ${c.role === 'force' ? 'hammer' : c.dof}`).join(', ')}). Nothing was stored.`);
@@ -133,7 +133,8 @@ export function decodedInEngineeringUnits(decoded: DecodedRecording, map: Channe
     const factor = (volts ? (scale * 1000) / c.sensitivityBase : 1) * c.sign;
     const range = c.role === 'force' ? ranges.forceRangeN : ranges.responseRangeMs2;
     const limit = Math.min(PHYSICAL_RANGE_FACTOR * range, ABSOLUTE_LIMIT);
-    const out = new Float64Array(ch.length);
+    // In place: every caller hands over a recording it has just decoded and keeps no other use of it.
+    const out = ch;
     for (let k = 0; k < ch.length; k++) {
       const v = ch[k]! * factor;
       if (!(Math.abs(v) <= limit)) {

@@ -129,8 +129,10 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
   const remembered = rememberedResult<EntryResult>(db, entryId);
   if (remembered && remembered.inputHash === hash) return { ...remembered, excluded };
 
-  const [stored] = await db.select().from(frfResult).where(eq(frfResult.scheduleEntryId, entryId));
-  if (stored && stored.inputHash === hash) {
+  // The stored spectra (≈ 1 MB) are read only when their hash matches; after a new hit it does not.
+  const [storedHash] = await db.select({ inputHash: frfResult.inputHash }).from(frfResult).where(eq(frfResult.scheduleEntryId, entryId));
+  const [stored] = storedHash?.inputHash === hash ? await db.select().from(frfResult).where(and(eq(frfResult.scheduleEntryId, entryId), eq(frfResult.inputHash, hash))) : [];
+  if (stored) {
     const fromDb: EntryResult = {
       inputHash: hash,
       settingsVersion: stored.settingsVersion,

@@ -1,7 +1,7 @@
 // Intake of a recording for a schedule entry (upload or simulated rig): cut into records by the
 // trigger, each record judged, all records stored as hits with their verdicts and the
 // Idempotency-Key's binding in one transaction (hits/upload-keys.ts).
-import { and, asc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, eq, getTableColumns, inArray, sql } from 'drizzle-orm';
 import { checkHit, splitRecords, type HitCheck } from '@resonote/dsp';
 import type { AcquisitionSettings } from '@resonote/contracts';
 import { hit, scheduleEntry, uploadKey } from '@resonote/db/schema';
@@ -16,7 +16,11 @@ import { rememberSamples } from './result-cache.ts';
 import { earlierUse, isUniqueViolation } from './upload-keys.ts';
 import type { ScheduleEntry } from './schedule-entry.ts';
 
-export type HitRow = typeof hit.$inferSelect;
+/** A hit row without its samples: the hit path never reads back the 256 KB it has just written. */
+export type HitRow = Omit<typeof hit.$inferSelect, 'samples'>;
+const { samples: _samples, ...columns } = getTableColumns(hit);
+/** Every column of `hit` but `samples`, for `select(hitColumns)` and `returning(hitColumns)`. */
+export const hitColumns = columns;
 export interface Skipped {
   timeS: number;
   reason: string;
@@ -96,7 +100,7 @@ export async function intake(db: Db, args: IntakeRequest): Promise<Intake> {
   const replay = async () => {
     const earlier = await earlierUse(db, binding);
     if (!earlier) return null;
-    return earlier.hitIds.length ? await db.select().from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.id, earlier.hitIds))).orderBy(asc(hit.sequence)) : [];
+    return earlier.hitIds.length ? await db.select(hitColumns).from(hit).where(and(eq(hit.campaignId, campaignId), inArray(hit.id, earlier.hitIds))).orderBy(asc(hit.sequence)) : [];
   };
   const earlier = await replay();
   if (earlier) return { replayed: true, stored: earlier, skipped: [] };
@@ -138,7 +142,7 @@ export async function intake(db: Db, args: IntakeRequest): Promise<Intake> {
             recordedBy: args.userId,
           })),
         )
-        .returning();
+        .returning(hitColumns);
       await tx.insert(uploadKey).values({ ...binding, hitIds: rows.map((r) => r.id) });
       for (const r of rows) {
         await audit(tx, { campaignId, actorId: args.userId, entity: 'hit', entityId: r.id, action: 'record', after: { entry: `${entry.responseDof} / ${entry.excitationDof}`, sequence: r.sequence, verdict: r.verdict, reasons: r.reasons, source: r.source, settingsVersion: r.settingsVersion } });

@@ -79,17 +79,21 @@ export function decodeWav(buf: Buffer): DecodedRecording {
   const frames = Math.floor(data.length / frame);
   if (frames === 0) throw new RecordingError('The WAV file holds no samples.');
   const out = Array.from({ length: channels }, () => new Float64Array(frames));
-  let p = data.start;
-  for (let i = 0; i < frames; i++) {
-    for (let c = 0; c < channels; c++) {
-      let v: number;
-      if (format === 3) v = bits === 32 ? buf.readFloatLE(p) : buf.readDoubleLE(p);
-      else if (bits === 16) v = buf.readInt16LE(p) / 32768;
-      else if (bits === 24) v = buf.readIntLE(p, 3) / 8388608;
-      else v = buf.readInt32LE(p) / 2147483648;
-      out[c]![i] = v;
-      p += bytes;
-    }
+  // One loop per sample format, reading through a DataView (little-endian), channel by channel.
+  const view = new DataView(buf.buffer, buf.byteOffset + data.start, frames * frame);
+  const read: (at: number) => number =
+    format === 3
+      ? bits === 32
+        ? (at) => view.getFloat32(at, true)
+        : (at) => view.getFloat64(at, true)
+      : bits === 16
+        ? (at) => view.getInt16(at, true) / 32768
+        : bits === 24
+          ? (at) => ((view.getUint8(at) | (view.getUint8(at + 1) << 8) | (view.getInt8(at + 2) << 16)) / 8388608)
+          : (at) => view.getInt32(at, true) / 2147483648;
+  for (let c = 0; c < channels; c++) {
+    const ch = out[c]!;
+    for (let i = 0, at = c * bytes; i < frames; i++, at += frame) ch[i] = read(at);
   }
   checkFinite(out);
   return { sampleRateHz: rate, channels: out, fractionOfFullScale: format === 1 };

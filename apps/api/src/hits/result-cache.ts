@@ -51,8 +51,12 @@ interface Caches {
   scheduled: Map<string, { timer: ReturnType<typeof setTimeout>; run: () => Promise<void> }>;
 }
 
-/** A burst of hits at one DOF writes only its last result, this long after the last hit. */
-export const RESULT_WRITE_DELAY_MS = 400;
+/**
+ * A burst of hits at one DOF writes only its last result, this long after the last hit: longer
+ * than the second or so between two taps, so a DOF's five hits write about 1 MB of spectra once
+ * rather than five times (docs/decisions/hit-cost.md).
+ */
+export const RESULT_WRITE_DELAY_MS = 2000;
 
 const cachesByDb = new WeakMap<object, Caches>();
 function caches(db: Db): Caches {

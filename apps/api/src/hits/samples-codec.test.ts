@@ -13,6 +13,32 @@ describe('hit samples codec', () => {
     expect(back.map((c) => Array.from(c))).toEqual(channels.map((c) => Array.from(c)));
   });
 
+  it('stores channels that are consecutive views of one block as that block, bytes unchanged, and reads them back as views', () => {
+    const block = Float32Array.from([1.5, -2, 3.25, 0.1, 0.2, 0.3]);
+    const channels = [block.subarray(0, 3), block.subarray(3, 6)];
+    const buf = packSamples(channels);
+    // Same layout as a copy (float32 LE, channel after channel): channel 1's first value at byte 12.
+    expect(buf.length).toBe(24);
+    expect(buf.readFloatLE(12)).toBe(Math.fround(0.1));
+    expect(buf.buffer).toBe(block.buffer);
+    // Views that are not consecutive in one block are copied, in channel order.
+    const swapped = packSamples([block.subarray(3, 6), block.subarray(0, 3)]);
+    expect(swapped.buffer).not.toBe(block.buffer);
+    expect(swapped.readFloatLE(0)).toBe(Math.fround(0.1));
+    expect(swapped.readFloatLE(12)).toBe(1.5);
+    const back = unpackSamples(Buffer.from(buf), 2, 3);
+    expect(back.map((c) => Array.from(c))).toEqual(channels.map((c) => Array.from(c)));
+  });
+
+  it('reads stored bytes that start at an odd offset (a pooled buffer) through a copy', () => {
+    const bytes = Buffer.alloc(25);
+    bytes.writeFloatLE(2.5, 1);
+    bytes.writeFloatLE(-0.75, 13);
+    const back = unpackSamples(bytes.subarray(1), 2, 3);
+    expect(back[0]![0]).toBe(2.5);
+    expect(back[1]![0]).toBe(-0.75);
+  });
+
   it('refuses stored bytes that do not hold channels × samples values, with both counts', () => {
     expect(() => unpackSamples(Buffer.alloc(20), 2, 3)).toThrow('stored samples hold 5 values, expected 2 × 3');
   });

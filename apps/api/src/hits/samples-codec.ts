@@ -1,23 +1,51 @@
 // The byte layouts of what the hit path stores: a hit's samples (`hit.samples`: float32
 // little-endian, channel after channel in storage order) and an averaged FRF (`frf_result.data`:
 // float64, Gff then per response channel H1 re/im, H2 re/im, coherence, Gxx).
+import os from 'node:os';
 import type { AveragedFrf } from '@resonote/dsp';
 
+const littleEndian = os.endianness() === 'LE';
+
+/**
+ * The stored bytes of a hit's channels. Channels that are consecutive views of one float32 block
+ * (what dsp `splitRecords` cuts) are that block's bytes as they are, without a copy, on a
+ * little-endian machine; others are copied once.
+ */
 export function packSamples(channels: Float32Array[]): Buffer {
   const n = channels[0]!.length;
-  const out = Buffer.alloc(channels.length * n * 4);
   channels.forEach((ch, c) => {
     if (ch.length !== n) throw new RangeError(`channel ${c} holds ${ch.length} samples, channel 0 holds ${n}`);
-    for (let i = 0; i < n; i++) out.writeFloatLE(ch[i]!, (c * n + i) * 4);
   });
+  const first = channels[0]!;
+  if (littleEndian && channels.every((ch, c) => ch.buffer === first.buffer && ch.byteOffset === first.byteOffset + c * n * 4)) {
+    return Buffer.from(first.buffer, first.byteOffset, channels.length * n * 4);
+  }
+  const out = Buffer.alloc(channels.length * n * 4);
+  if (littleEndian) {
+    const all = new Float32Array(out.buffer, out.byteOffset, channels.length * n);
+    channels.forEach((ch, c) => all.set(ch, c * n));
+  } else {
+    channels.forEach((ch, c) => {
+      for (let i = 0; i < n; i++) out.writeFloatLE(ch[i]!, (c * n + i) * 4);
+    });
+  }
   return out;
 }
 
+/** The channels of stored samples: views of `buf` when it is 4-byte aligned on a little-endian machine, else of a copy. */
 export function unpackSamples(buf: Buffer, channelCount: number, n: number): Float32Array[] {
   if (buf.length !== channelCount * n * 4) throw new Error(`stored samples hold ${buf.length / 4} values, expected ${channelCount} × ${n}`);
-  const copy = new Uint8Array(buf.length);
-  copy.set(buf);
-  const all = new Float32Array(copy.buffer);
+  let all: Float32Array;
+  if (littleEndian && buf.byteOffset % 4 === 0) all = new Float32Array(buf.buffer, buf.byteOffset, channelCount * n);
+  else {
+    const copy = new Uint8Array(buf.length);
+    copy.set(buf);
+    all = new Float32Array(copy.buffer);
+    if (!littleEndian) {
+      const view = new DataView(copy.buffer);
+      for (let i = 0; i < all.length; i++) all[i] = view.getFloat32(i * 4, true);
+    }
+  }
   return Array.from({ length: channelCount }, (_, c) => all.subarray(c * n, (c + 1) * n));
 }
 
