@@ -17,11 +17,12 @@ export default defineConfig({
   test: {
     name: 'cluster-suites',
     include: CLUSTER_SUITES,
-    globalSetup: ['support/global-setup-api.ts', 'support/global-setup-e2e.ts'],
+    globalSetup: ['support/global-setup-api.ts', 'support/global-setup-e2e.ts', 'setup/seeded-demo-templates.ts'],
     setupFiles: ['setup/fail-on-console-error.ts', 'support/expect-visible.ts', 'setup/same-fft-as-cluster.ts'],
-    env: { RESONOTE_TEST_CLUSTER: '1' },
+    // RESONOTE_SEEDED_DEMO: the templates hold the demo already (setup/seeded-demo-templates.ts).
+    env: { RESONOTE_TEST_CLUSTER: '1', RESONOTE_SEEDED_DEMO: '1' },
     testTimeout: 90_000,
-    // The demo seed and a cluster start per file: generous on a shared machine.
+    // A cluster start per file (the demo is seeded once, in the global set-up): generous on a shared machine.
     hookTimeout: 600_000,
     pool: 'forks',
     fileParallelism: false,

@@ -14,6 +14,7 @@ import { hit } from '@resonote/db/schema';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { signUp } from '../support/accounts.ts';
 import { waitForMail } from '../support/campaign.ts';
+import { SEEDED_API_TEMPLATE } from '../setup/seeded-demo-templates.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 // The zip and CSV readers are the API package's own dependencies, loaded from there.
@@ -54,7 +55,8 @@ const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
 
 beforeAll(async () => {
   // A small JSON raw limit: the skid's raw data (≈ 1.2 million values) fits, the bar's (≈ 2.8 million) does not.
-  app = await startTestApp(API_TEMPLATE, { EXPORT_JSON_RAW_MAX_VALUES: '2000000' });
+  // Against the cluster the template holds the demo already (tests/setup/seeded-demo-templates.ts); seedDemo then adds nothing.
+  app = await startTestApp(process.env.RESONOTE_SEEDED_DEMO === '1' ? SEEDED_API_TEMPLATE : API_TEMPLATE, { EXPORT_JSON_RAW_MAX_VALUES: '2000000' });
   await seedDemo(app.handle, { log: () => undefined });
   lead = await signIn('lead@demo.resonote.local');
   viewer = await signIn('viewer@demo.resonote.local');
