@@ -59,10 +59,13 @@ describe('Tap in the browser', () => {
       await page.getByTestId('strike').click();
       await rows(page).nth(already).waitFor({ timeout: 20_000 });
       for (let n = 2; n <= 5; n++) {
+        // Space strikes only once the previous strike's answer is in (the button enabled again); the
+        // hit's row can show first, from the campaign's event stream, while the answer is on its way.
+        await page.getByTestId('strike').and(page.locator(':not([disabled])')).waitFor();
         await page.keyboard.press('Space');
         await rows(page).nth(already + n - 1).waitFor({ timeout: 20_000 });
-        await page.getByTestId('strike').and(page.locator(':not([disabled])')).waitFor();
       }
+      await page.getByTestId('strike').and(page.locator(':not([disabled])')).waitFor();
       expect(await rows(page).count()).toBe(already + 5);
       await settle(page);
 
@@ -170,6 +173,8 @@ describe('Tap in the browser', () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
     await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
     await page.getByTestId('current-dof').waitFor();
+    // The DOF's hits loaded (the list is empty until then), so the count below is the real one.
+    await page.getByText('Loading the hits…').waitFor({ state: 'detached' });
     await expect(page.getByText('You are a viewer on this campaign')).toBeDefinedAndVisible();
     for (const name of [/Strike/, /Accept/, /Reject/, /Upload/, /Listen/]) expect(await page.getByRole('button', { name }).count()).toBe(0);
     const before = await rows(page).count();
