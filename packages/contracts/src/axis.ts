@@ -48,3 +48,12 @@ export function sameAxis(a: string, b: string): boolean {
  * P:−Z against P:+Z gets −1, so its imaginary accelerance part has the usual driving-point sign.
  */
 export const frfAxisFactor = (response: string, reference: string): 1 | -1 => (axisSign(response) * axisSign(reference)) as 1 | -1;
+
+/**
+ * True when entry b is the reciprocal of entry a (response and excitation swapped), by physical
+ * axis whatever the written signs; a driving point has no reciprocal. The reciprocity check pairs
+ * entries with it (Ewins 2000, Modal Testing, ch. 3), and the web uses it to tell which checks a
+ * new hit can change.
+ */
+export const isReciprocal = (a: { responseDof: string; excitationDof: string }, b: { responseDof: string; excitationDof: string }): boolean =>
+  sameAxis(a.responseDof, b.excitationDof) && sameAxis(a.excitationDof, b.responseDof) && !sameAxis(a.responseDof, a.excitationDof);

@@ -3,7 +3,7 @@
 // the dB and phase differences at the peaks, since FRAC alone is blind to a constant factor.
 import { and, asc, eq } from 'drizzle-orm';
 import { frac, type Complex } from '@resonote/dsp';
-import { frfAxisFactor, sameAxis } from '@resonote/contracts';
+import { frfAxisFactor } from '@resonote/contracts';
 import { hit } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import type { ChannelSnapshot } from './channel-map.ts';
@@ -127,5 +127,5 @@ export function onPositiveAxis(h: Complex, responseDof: string, excitationDof: s
   return frfAxisFactor(responseDof, excitationDof) === 1 ? h : { re: h.re.map((v) => -v), im: h.im.map((v) => -v) };
 }
 
-/** True when b is the reciprocal of a (response and excitation swapped), by physical axis whatever the signs. */
-export const isReciprocal = (a: { responseDof: string; excitationDof: string }, b: { responseDof: string; excitationDof: string }) => sameAxis(a.responseDof, b.excitationDof) && sameAxis(a.excitationDof, b.responseDof) && !(sameAxis(a.responseDof, a.excitationDof));
+/** True when b is the reciprocal of a (one definition, in contracts, shared with the web). */
+export { isReciprocal } from '@resonote/contracts';

@@ -5,6 +5,7 @@ import type { ScheduleStatus } from '@resonote/contracts';
 import { Plot } from './plot.tsx';
 import { scheduleLook, statusRank } from './status.tsx';
 import { useThemeName } from '../lib/theme-name.ts';
+import { webglAvailable } from '../lib/webgl.ts';
 
 export interface ViewPoint {
   id: string;
@@ -28,14 +29,6 @@ export interface GeometryViewProps {
   height: number;
 }
 
-function webglAvailable(): boolean {
-  try {
-    const canvas = document.createElement('canvas');
-    return Boolean(canvas.getContext('webgl2') ?? canvas.getContext('webgl'));
-  } catch {
-    return false;
-  }
-}
 
 export function GeometryView({ points, lines, statusByPointId, highlightPointId, onPointClick, height }: GeometryViewProps) {
   const theme = useThemeName();

@@ -6,7 +6,8 @@ import type { FlagReason, ScheduleStatus } from '@resonote/contracts';
 import type { ChecksAnswer, EntryFrfAnswer, EntryHits, FrfJson, HitDetail, HitsAnswer, OverlayAnswer } from '@resonote/contracts';
 import { api, ApiError, retryAfterSeconds } from './api.ts';
 import type { FrfKind } from '@resonote/contracts';
-import type { ScheduleEntry } from './campaign-data.ts';
+import { keys, type ScheduleEntry } from './campaign-data.ts';
+import { readNotice, refreshChecksAfter, type CampaignNotice } from './checks-refresh.ts';
 
 // The answers' types come from the schemas the API declares on its routes (packages/contracts/src/hits.ts).
 export type {
@@ -64,7 +65,8 @@ export const useEntryFrf = (id: string, entryId: string | null | undefined, kind
     enabled: Boolean(entryId),
   });
 
-export const useChecks = (id: string) => useQuery({ queryKey: hitKeys.checks(id), queryFn: () => api<ChecksAnswer>(`/campaigns/${id}/checks`) });
+/** The campaign's checks; `enabled` false while no screen shows them (they read every entry's result). */
+export const useChecks = (id: string, enabled = true) => useQuery({ queryKey: hitKeys.checks(id), queryFn: () => api<ChecksAnswer>(`/campaigns/${id}/checks`), enabled });
 
 export const useMyCampaigns = () => useQuery({ queryKey: ['campaigns', 'mine-for-overlay'], queryFn: () => api<{ campaigns: CampaignListItem[] }>('/campaigns') });
 
@@ -96,8 +98,9 @@ function appliedAlready(data: string): boolean {
 
 /** Everything a hit or a verdict can change, for one campaign. */
 const liveParts = new Set(['arming', 'schedule', 'schedule-next', 'hits', 'frf', 'frfs', 'checks', 'progress', 'noise-checks']);
-export function invalidateTestData(client: QueryClient, campaignId: string) {
-  return client.invalidateQueries({ predicate: (q) => q.queryKey[0] === 'campaign' && q.queryKey[1] === campaignId && liveParts.has(String(q.queryKey[2])) });
+export function invalidateTestData(client: QueryClient, campaignId: string, options: { checks?: boolean } = {}) {
+  const withChecks = options.checks ?? true;
+  return client.invalidateQueries({ predicate: (q) => q.queryKey[0] === 'campaign' && q.queryKey[1] === campaignId && liveParts.has(String(q.queryKey[2])) && (withChecks || q.queryKey[2] !== 'checks') });
 }
 
 /**
@@ -111,6 +114,8 @@ export function useLiveCampaign(campaignId: string): 'live' | 'polling' | 'conne
     let source: EventSource | null = null;
     let poll: ReturnType<typeof setInterval> | undefined;
     let debounce: ReturnType<typeof setTimeout> | undefined;
+    const notices: CampaignNotice[] = [];
+    let applying: Promise<void> = Promise.resolve();
     const startPolling = () => {
       setState('polling');
       if (!poll) poll = setInterval(() => void invalidateTestData(client, campaignId), 5000);
@@ -127,11 +132,19 @@ export function useLiveCampaign(campaignId: string): 'live' | 'polling' | 'conne
         }
       };
       source.addEventListener('change', (event) => {
+        const data = (event as MessageEvent<string>).data;
         // This tab's own hit or verdict: its answer was applied and refreshed the data once already.
-        if (appliedAlready((event as MessageEvent<string>).data)) return;
-        // Several hits of one recording arrive together: refresh once.
+        if (appliedAlready(data)) return;
+        notices.push(readNotice(data) ?? { type: 'schedule' });
+        // Several hits of one recording arrive together: refresh once. The checks only when these
+        // notices can have changed them (lib/checks-refresh.ts), one window after the other.
         clearTimeout(debounce);
-        debounce = setTimeout(() => void invalidateTestData(client, campaignId), 250);
+        debounce = setTimeout(() => {
+          const batch = notices.splice(0);
+          applying = applying
+            .then(() => refreshChecksAfter(client, { schedule: keys.schedule(campaignId), checks: hitKeys.checks(campaignId) }, batch, () => invalidateTestData(client, campaignId, { checks: false })))
+            .catch(() => undefined);
+        }, 250);
       });
       source.onerror = () => {
         // The browser reconnects by itself while readyState is CONNECTING; poll meanwhile.

@@ -10,6 +10,8 @@ import { useToast } from '../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../components/ui.tsx';
 import { Select } from '../components/form-controls.tsx';
 import { formatWhen } from '../lib/format-date.ts';
+import { DataTable } from '../components/data-table.tsx';
+import { FormActions, FormFailure } from '../components/form-parts.tsx';
 
 interface TokenRow {
   id: string;
@@ -116,20 +118,12 @@ export function AccountPage() {
         {campaigns.data && mine.length === 0 && <Notice tone="info">You are not a member of any campaign yet, so there is nothing a token could be for.</Notice>}
         {mine.length > 0 && (
           <form onSubmit={create} noValidate className="grid gap-4 md:grid-cols-5 md:items-start">
-            {failure && (
-              <div className="md:col-span-5">
-                <Notice tone="error">{failure}</Notice>
-              </div>
-            )}
+            <FormFailure message={failure} span="md:col-span-5" />
             <Field id="token-name" name="name" label="Name" placeholder="bridge on the test PC" error={errors.name} />
             <Select id="token-campaign" name="campaignId" label="Campaign" value={chosen?.id ?? ''} onChange={(e) => setCampaignId(e.target.value)} options={mine.map((c) => [c.id, c.name])} error={errors.campaignId} />
             <Select id="token-role" name="role" label="Role" options={roles.map((r) => [r, roleLabel[r]])} hint="At most your role in that campaign." />
             <Field id="token-expiry" name="expiresInDays" label="Expires after (days)" inputMode="numeric" placeholder="never" error={errors.expiresInDays} />
-            <div className="md:pt-6">
-              <Button type="submit" disabled={busy}>
-                {busy ? 'Creating…' : 'Create token'}
-              </Button>
-            </div>
+            <FormActions busy={busy} submit="Create token" busyLabel="Creating…" className="md:pt-6" />
           </form>
         )}
       </Panel>
@@ -139,21 +133,7 @@ export function AccountPage() {
         {tokens.isError && <Notice tone="error">{tokens.error.message}</Notice>}
         {tokens.data && tokens.data.tokens.length === 0 && <p className="py-6 text-center text-sm text-[var(--muted)]">You have no API tokens yet.</p>}
         {tokens.data && tokens.data.tokens.length > 0 && (
-          <div className="overflow-x-auto">
-            <table className="w-full text-sm">
-              <thead className="text-left text-[var(--muted)]">
-                <tr>
-                  <th className="py-2 font-medium">Name</th>
-                  <th className="font-medium">Campaign</th>
-                  <th className="font-medium">Role</th>
-                  <th className="font-medium">Starts with</th>
-                  <th className="font-medium">Expires</th>
-                  <th className="font-medium">Last used</th>
-                  <th className="font-medium">State</th>
-                  <th />
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-[var(--line)]">
+          <DataTable th="py-2 pr-3 font-medium" body="divide-y divide-[var(--line)]" columns={['Name', 'Campaign', 'Role', 'Starts with', 'Expires', 'Last used', 'State', { label: <span className="sr-only">Actions</span>, className: '' }]}>
                 {tokens.data.tokens.map((t) => (
                   <tr key={t.id}>
                     <td className="py-2.5 font-medium">{t.name}</td>
@@ -172,9 +152,7 @@ export function AccountPage() {
                     </td>
                   </tr>
                 ))}
-              </tbody>
-            </table>
-          </div>
+          </DataTable>
         )}
       </Panel>
     </div>

@@ -14,6 +14,8 @@ import { purposeLabel, roleLabel, simulatorLabel, testTypeLabel, type MyRole } f
 import { Button, Field, Notice, Panel, Spinner } from '../components/ui.tsx';
 import { Select } from '../components/form-controls.tsx';
 import { CampaignStatusBadge, ProgressBar } from '../components/status.tsx';
+import { DataTable } from '../components/data-table.tsx';
+import { FormActions, FormFailure } from '../components/form-parts.tsx';
 
 interface CampaignRow {
   id: string;
@@ -128,19 +130,12 @@ export function CampaignsPage() {
           </div>
         )}
         {campaigns.data && campaigns.data.campaigns.length > 0 && (
-          <div className="-mx-4 overflow-x-auto px-4">
-            <table className="w-full min-w-[640px] text-sm">
-              <thead className="text-left text-xs text-[var(--muted)] uppercase">
-                <tr>
-                  <th className="py-2 pr-3 font-medium">Campaign</th>
-                  <th className="pr-3 font-medium">Client</th>
-                  <th className="pr-3 font-medium">Status</th>
-                  <th className="pr-3 font-medium">DOFs done</th>
-                  <th className="pr-3 font-medium">Leads</th>
-                  <th className="font-medium">Your role</th>
-                </tr>
-              </thead>
-              <tbody>
+          <DataTable
+            frame="-mx-4 overflow-x-auto px-4"
+            table="w-full min-w-[640px] text-sm"
+            head="text-left text-xs text-[var(--muted)] uppercase"
+            columns={['Campaign', 'Client', 'Status', 'DOFs done', 'Leads', 'Your role']}
+          >
                 {campaigns.data.campaigns.map((c) => (
                   <tr key={c.id} className="border-t border-[var(--line)] align-top hover:bg-accent-soft/40">
                     <td className="py-2.5 pr-3">
@@ -161,9 +156,7 @@ export function CampaignsPage() {
                     <td className="py-2.5">{c.myRole ? roleLabel[c.myRole] : '—'}</td>
                   </tr>
                 ))}
-              </tbody>
-            </table>
-          </div>
+          </DataTable>
         )}
       </Panel>
     </div>
@@ -208,25 +201,14 @@ function NewCampaignForm({ onClose }: { onClose: () => void }) {
   return (
     <Panel title="New campaign">
       <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-3">
-        {failure && (
-          <div className="md:col-span-3">
-            <Notice tone="error">{failure}</Notice>
-          </div>
-        )}
+        <FormFailure message={failure} span="md:col-span-3" />
         <Field id="new-name" name="name" label="Name" required error={errors.name} autoFocus />
         <Field id="new-structure" name="structure" label="Structure" placeholder="e.g. pump-skid baseplate" error={errors.structure} />
         <Field id="new-client" name="client" label="Client" error={errors.client} />
         <Select id="new-purpose" name="purpose" label="Purpose" options={Object.entries(purposeLabel)} />
         <Select id="new-test-type" name="testType" label="Test type" options={Object.entries(testTypeLabel)} />
         <Select id="new-simulator" name="simulator" label="Simulated rig model" options={Object.entries(simulatorLabel)} defaultValue="generic" hint="Structure model behind simulated hits." />
-        <div className="flex gap-2 md:col-span-3">
-          <Button type="submit" disabled={busy}>
-            {busy ? 'Creating…' : 'Create campaign'}
-          </Button>
-          <Button type="button" variant="secondary" onClick={onClose}>
-            Cancel
-          </Button>
-        </div>
+        <FormActions busy={busy} submit="Create campaign" busyLabel="Creating…" onCancel={onClose} cancelVariant="secondary" className="flex gap-2 md:col-span-3" />
       </form>
     </Panel>
   );

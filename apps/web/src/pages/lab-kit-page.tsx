@@ -11,8 +11,8 @@ import { useFailure } from '../lib/mutation.ts';
 import { useToast } from '../lib/toast.tsx';
 import { Button, Field, Notice, Panel, Spinner } from '../components/ui.tsx';
 import { Select } from '../components/form-controls.tsx';
-import { CalibrationBadge } from '../components/status.tsx';
-import { useLargeChangeConfirm } from '../components/kit/large-change-dialog.tsx';
+import { CalibrationForm, CalibrationHistory, CalibrationState } from '../components/kit/calibration-parts.tsx';
+import { FormActions } from '../components/form-parts.tsx';
 
 const KIND_TITLE: Record<LabKind, string> = { hammer: 'Hammers', accelerometer: 'Accelerometers', conditioner: 'Conditioners' };
 const sig = (v: number) => Number(v.toPrecision(4)).toString();
@@ -37,6 +37,7 @@ function Sensitivity({ item }: { item: LabItem }) {
 function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
   const [calibrating, setCalibrating] = useState(false);
   const [history, setHistory] = useState(false);
+  const client = useQueryClient();
   const today = new Date().toISOString().slice(0, 10);
   const current = item.bookings.filter((b) => b.toOn >= today);
   return (
@@ -51,10 +52,7 @@ function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
         <div className="min-w-0 text-sm">
           <Sensitivity item={item} />
         </div>
-        <div className="flex min-w-0 flex-col items-start gap-1">
-          <CalibrationBadge state={item.calibration.state} days={item.calibration.days} />
-          {item.calibration.dueOn && <span className="num text-xs text-[var(--muted)]">due {item.calibration.dueOn}</span>}
-        </div>
+        <CalibrationState calibration={item.calibration} />
         <div className="min-w-0 text-xs" data-testid="lab-bookings">
           {current.length === 0 ? (
             <span className="text-[var(--muted)]">Not booked</span>
@@ -83,107 +81,22 @@ function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
           )}
         </div>
       </div>
-      {history && (
-        <table className="w-full text-xs">
-          <thead className="text-left text-[var(--muted)]">
-            <tr>
-              <th className="py-1 pr-3 font-medium">Calibrated</th>
-              <th className="py-1 pr-3 font-medium">Due</th>
-              <th className="py-1 pr-3 font-medium">Certificate</th>
-              <th className="py-1 pr-3 font-medium">By</th>
-              <th className="py-1 pr-3 text-right font-medium">Sensitivity</th>
-            </tr>
-          </thead>
-          <tbody>
-            {item.calibrations.map((c) => (
-              <tr key={c.id} className="border-t border-[var(--line)]">
-                <td className="num py-1 pr-3">{c.calibratedOn}</td>
-                <td className="num py-1 pr-3">{c.dueOn}</td>
-                <td className="py-1 pr-3">{c.certificateRef}</td>
-                <td className="py-1 pr-3">{c.performedBy}</td>
-                <td className="num py-1 pr-3 text-right">
-                  {c.sensitivity !== null ? `${sig(c.sensitivity)} ${c.sensitivityUnit}` : ''}
-                  {Object.entries(c.axisSensitivities).map(([a, v]) => ` ${a} ${sig(v)} ${item.sensitivityBaseUnit}`)}
-                  {c.sensitivity === null && Object.keys(c.axisSensitivities).length === 0 ? '—' : ''}
-                </td>
-              </tr>
-            ))}
-            {item.calibrations.length === 0 && (
-              <tr>
-                <td colSpan={5} className="py-1 text-[var(--muted)]">
-                  No calibration recorded yet.
-                </td>
-              </tr>
-            )}
-          </tbody>
-        </table>
+      {history && <CalibrationHistory calibrations={item.calibrations} sensitivity={(c) => [c.sensitivity !== null ? `${sig(c.sensitivity)} ${c.sensitivityUnit}` : '', ...Object.entries(c.axisSensitivities).map(([a, v]) => `${a} ${sig(v)} ${item.sensitivityBaseUnit}`)].filter(Boolean).join(' ')} />}
+      {calibrating && (
+        <CalibrationForm
+          item={item}
+          path={`/lab/items/${item.id}/calibrations`}
+          schema={labCalibrationCreateSchema}
+          refresh={() => client.invalidateQueries({ queryKey: labKeys.items })}
+          staleKeys={[labKeys.items]}
+          onClose={() => setCalibrating(false)}
+          sensitivity={item.kind !== 'conditioner'}
+          axes={item.kind === 'accelerometer' && item.axes.length > 1 ? item.axes : []}
+          sensitivityHint="Optional; updates the item and the campaigns booking it."
+          testId="lab-calibration-save"
+        />
       )}
-      {calibrating && <CalibrationForm item={item} onClose={() => setCalibrating(false)} />}
     </li>
-  );
-}
-
-function CalibrationForm({ item, onClose }: { item: LabItem; onClose: () => void }) {
-  const client = useQueryClient();
-  const toast = useToast();
-  const fail = useFailure();
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
-  const { withConfirmation, dialog } = useLargeChangeConfirm();
-  const id = (n: string) => `lab-${item.id}-${n}`;
-  async function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const s = String(f.get('sensitivity') ?? '').trim();
-    const perAxis: Record<string, number | undefined> = {};
-    for (const a of item.axes.length > 1 ? item.axes : []) {
-      const v = String(f.get(`axis-${a}`) ?? '').trim();
-      if (v) perAxis[a] = numberOrUndefined(v);
-    }
-    const parsed = labCalibrationCreateSchema.safeParse({
-      calibratedOn: String(f.get('calibratedOn') ?? ''),
-      dueOn: String(f.get('dueOn') ?? ''),
-      certificateRef: String(f.get('certificateRef') ?? ''),
-      performedBy: String(f.get('performedBy') ?? ''),
-      ...(s ? { sensitivity: numberOrUndefined(s) } : {}),
-      ...(Object.keys(perAxis).length ? { axisSensitivities: perAxis } : {}),
-    });
-    if (!parsed.success) return setErrors(issuesToErrors(parsed.error));
-    setErrors({});
-    setBusy(true);
-    try {
-      const body = parsed.data;
-      const stored = await withConfirmation(`${item.model} (SN ${item.serial})`, (confirm) => api(`/lab/items/${item.id}/calibrations`, { body: confirm ? { ...body, confirmLargeChange: true } : body }));
-      if (!stored) return;
-      await client.invalidateQueries({ queryKey: labKeys.items });
-      toast('ok', `Calibration of ${item.model} (SN ${item.serial}) recorded, due ${body.dueOn}.`);
-      onClose();
-    } catch (err) {
-      fail(err, [labKeys.items]);
-    } finally {
-      setBusy(false);
-    }
-  }
-  return (
-    <form onSubmit={submit} noValidate className="grid gap-3 rounded-md border border-[var(--line)] p-3 sm:grid-cols-2 lg:grid-cols-3" aria-label={`Record a calibration of ${item.model}`}>
-      <Field id={id('on')} name="calibratedOn" type="date" label="Calibrated on" error={errors.calibratedOn} />
-      <Field id={id('due')} name="dueOn" type="date" label="Due on" error={errors.dueOn} />
-      <Field id={id('cert')} name="certificateRef" label="Certificate reference" error={errors.certificateRef} />
-      <Field id={id('by')} name="performedBy" label="Calibrated by" error={errors.performedBy} />
-      {item.kind !== 'conditioner' && <Field id={id('sens')} name="sensitivity" inputMode="decimal" label={`Stated sensitivity (${item.sensitivityUnit})`} hint="Optional; updates the item and the campaigns booking it." error={errors.sensitivity} />}
-      {item.kind === 'accelerometer' &&
-        item.axes.length > 1 &&
-        item.axes.map((a) => <Field key={a} id={id(`axis-${a}`)} name={`axis-${a}`} inputMode="decimal" label={`Axis ${a} (${item.sensitivityUnit})`} hint="Optional." error={errors[`axisSensitivities.${a}`]} />)}
-      {dialog}
-      <div className="flex items-end gap-2">
-        <Button type="submit" disabled={busy} data-testid="lab-calibration-save">
-          Save calibration
-        </Button>
-        <Button type="button" variant="ghost" onClick={onClose}>
-          Cancel
-        </Button>
-      </div>
-    </form>
   );
 }
 
@@ -253,14 +166,7 @@ function AddItemForm({ onClose }: { onClose: () => void }) {
       )}
       {kind === 'accelerometer' && axes.length > 1 && AXES.filter((a) => axes.includes(a)).map((a) => <Field key={a} id={`lab-axis-${a}`} name={`axis-${a}`} inputMode="decimal" label={`Axis ${a} sensitivity`} hint="Optional, in the unit above; else the one sensitivity." error={errors[`axisSensitivities.${a}`]} />)}
       <Field id="lab-notes" name="notes" label="Notes" error={errors.notes} />
-      <div className="flex items-end gap-2">
-        <Button type="submit" disabled={busy} data-testid="lab-add-save">
-          Add to the lab kit
-        </Button>
-        <Button type="button" variant="ghost" onClick={onClose}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions busy={busy} submit="Add to the lab kit" onCancel={onClose} testId="lab-add-save" />
     </form>
   );
 }

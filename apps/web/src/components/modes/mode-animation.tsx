@@ -5,6 +5,7 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { parseDof, type ModeRow } from '../../lib/modes-data.ts';
 import { useThemeName } from '../../lib/theme-name.ts';
+import { webglAvailable } from '../../lib/webgl.ts';
 
 interface Pt {
   id: string;
@@ -20,14 +21,6 @@ type PlotlyLike = {
   purge(div: HTMLDivElement): void;
 };
 
-function webglAvailable(): boolean {
-  try {
-    const canvas = document.createElement('canvas');
-    return Boolean(canvas.getContext('webgl2') ?? canvas.getContext('webgl'));
-  } catch {
-    return false;
-  }
-}
 
 /** Unit displacement of each point (largest |d| = 1) from the real shape of one mode. */
 export function pointDisplacements(points: Pt[], shape: ModeRow['shape']): { dx: number[]; dy: number[]; dz: number[]; unmatched: string[] } {

@@ -21,7 +21,6 @@ export function ReviewPage() {
   const { campaignId = '' } = useParams();
   const [params, setParams] = useSearchParams();
   const schedule = useSchedule(campaignId);
-  const checks = useChecks(campaignId);
   useLiveCampaign(campaignId);
   // Every Review view plots: load plotly while the schedule loads, not after the data arrives.
   useEffect(() => {
@@ -30,6 +29,8 @@ export function ReviewPage() {
   }, []);
   const entries = useMemo(() => schedule.data?.entries ?? [], [schedule.data]);
   const tab = (params.get('view') as Tab | null) ?? 'dof';
+  // Read (and kept current by the live link) only while their tab is open.
+  const checks = useChecks(campaignId, tab === 'checks');
   const entryId = params.get('entry') ?? entries.find((e) => e.acceptedHits > 0)?.id ?? null;
   const entry = entries.find((e) => e.id === entryId);
   const [picked, setPicked] = useState<string[]>([]);

@@ -9,6 +9,8 @@ import { issuesToErrors, numberOrUndefined, type FieldErrors } from '../../../li
 import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Panel } from '../../../components/ui.tsx';
+import { DataTable } from '../../../components/data-table.tsx';
+import { RowFormCell } from '../../../components/form-parts.tsx';
 
 const cell = 'min-h-9 w-full min-w-0 rounded border border-[var(--line)] bg-[var(--panel)] px-2 text-sm outline-none focus:border-accent aria-invalid:border-bad';
 
@@ -49,21 +51,13 @@ export function ChannelMap({ campaignId, channels, items, canLead }: { campaignI
         </p>
       )}
       {(channels.length > 0 || adding) && (
-        <div className="-mx-4 overflow-x-auto px-4">
-          <table className="w-full min-w-[640px] text-sm">
-            <thead className="text-left text-xs text-[var(--muted)]">
-              <tr>
-                <th className="py-2 pr-2 font-medium">Channel</th>
-                <th className="pr-2 font-medium">Sensor</th>
-                <th className="pr-2 font-medium">Axis</th>
-                <th className="pr-2 font-medium">DOF</th>
-                <th className="pr-2 font-medium">Sign</th>
-                <th className="pr-2 font-medium">Label</th>
-                <th className="pr-2 font-medium">Sensitivity</th>
-                {canLead && <th><span className="sr-only">Actions</span></th>}
-              </tr>
-            </thead>
-            <tbody>
+        <DataTable
+          frame="-mx-4 overflow-x-auto px-4"
+          table="w-full min-w-[640px] text-sm"
+          head="text-left text-xs text-[var(--muted)]"
+          th="py-2 pr-2 font-medium"
+          columns={['Channel', 'Sensor', 'Axis', 'DOF', 'Sign', 'Label', 'Sensitivity', ...(canLead ? [{ label: <span className="sr-only">Actions</span>, className: '' }] : [])]}
+        >
               {channels.map((c) =>
                 editing === c.id ? (
                   <ChannelForm key={c.id} campaignId={campaignId} items={usable} channel={c} onClose={() => setEditing(null)} />
@@ -95,9 +89,7 @@ export function ChannelMap({ campaignId, channels, items, canLead }: { campaignI
                 ),
               )}
               {adding && <ChannelForm campaignId={campaignId} items={usable} nextNumber={Math.max(0, ...channels.map((c) => c.channel)) + 1} onClose={() => setAdding(false)} />}
-            </tbody>
-          </table>
-        </div>
+        </DataTable>
       )}
     </Panel>
   );
@@ -178,16 +170,7 @@ function ChannelForm({ campaignId, items, channel, nextNumber, onClose }: { camp
         {err('label')}
       </td>
       <td className="py-1 pr-2 text-xs text-[var(--muted)]">Leave the DOF empty when the sensor roves.</td>
-      <td className="py-1 text-right whitespace-nowrap">
-        <form id={form} onSubmit={submit} noValidate className="inline-flex gap-1">
-          <Button type="submit" className="min-h-9 px-3">
-            Save
-          </Button>
-          <Button type="button" variant="ghost" className="min-h-9 px-2" onClick={onClose}>
-            Cancel
-          </Button>
-        </form>
-      </td>
+      <RowFormCell id={form} onSubmit={submit} onCancel={onClose} />
     </tr>
   );
 }

@@ -10,7 +10,8 @@ import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Field, Panel } from '../../../components/ui.tsx';
 import { Chips, NumberField, Select } from '../../../components/form-controls.tsx';
-import { CalibrationBadge } from '../../../components/status.tsx';
+import { CalibrationForm, CalibrationHistory, CalibrationState } from '../../../components/kit/calibration-parts.tsx';
+import { FormActions } from '../../../components/form-parts.tsx';
 import { useLargeChangeConfirm } from '../../../components/kit/large-change-dialog.tsx';
 
 type Kind = KitItem['kind'];
@@ -115,10 +116,7 @@ function ItemRow({ campaignId, item, canLead }: { campaignId: string; item: KitI
                 <dd className="num">{item.massG === null ? '—' : `${item.massG} g`}</dd>
               </dl>
             </div>
-            <div className="flex flex-col items-end gap-1">
-              <CalibrationBadge state={item.calibration.state} days={item.calibration.days} />
-              {item.calibration.dueOn && <span className="num text-xs text-[var(--muted)]">due {item.calibration.dueOn}</span>}
-            </div>
+            <CalibrationState calibration={item.calibration} align="end" />
           </div>
           <div className="mt-2 flex flex-wrap gap-1">
             <Button variant="ghost" className="min-h-9 px-2" onClick={() => setOpen((o) => !o)} aria-expanded={open}>
@@ -138,35 +136,20 @@ function ItemRow({ campaignId, item, canLead }: { campaignId: string; item: KitI
               </>
             )}
           </div>
-          {mode === 'calibrate' && <CalibrationForm campaignId={campaignId} item={item} onClose={() => setMode('view')} />}
+          {mode === 'calibrate' && (
+            <CalibrationForm
+              item={item}
+              path={`/campaigns/${campaignId}/kit/${item.id}/calibrations`}
+              schema={calibrationCreateSchema}
+              refresh={refresh}
+              staleKeys={[keys.kit(campaignId)]}
+              onClose={() => setMode('view')}
+              sensitivityHint="Optional; updates the item when given."
+            />
+          )}
           {open && (
-            <div className="mt-2 overflow-x-auto">
-              {item.calibrations.length === 0 ? (
-                <p className="text-sm text-[var(--muted)]">No calibration records.</p>
-              ) : (
-                <table className="w-full text-xs">
-                  <thead className="text-left text-[var(--muted)]">
-                    <tr>
-                      <th className="py-1 pr-2 font-medium">Calibrated</th>
-                      <th className="pr-2 font-medium">Due</th>
-                      <th className="pr-2 font-medium">Certificate</th>
-                      <th className="pr-2 font-medium">By</th>
-                      <th className="font-medium">Sensitivity</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {item.calibrations.map((c) => (
-                      <tr key={c.id} className="border-t border-[var(--line)]">
-                        <td className="num py-1 pr-2">{c.calibratedOn}</td>
-                        <td className="num pr-2">{c.dueOn}</td>
-                        <td className="pr-2">{c.certificateRef}</td>
-                        <td className="pr-2">{c.performedBy}</td>
-                        <td className="num">{c.sensitivity === null ? '—' : `${sig(c.sensitivity)} ${c.sensitivityUnit}`}</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              )}
+            <div className="mt-2">
+              <CalibrationHistory calibrations={item.calibrations} sensitivity={(c) => (c.sensitivity === null ? '' : `${sig(c.sensitivity)} ${c.sensitivityUnit}`)} />
             </div>
           )}
         </>
@@ -248,70 +231,7 @@ function ItemForm({ campaignId, kind, item, onClose }: { campaignId: string; kin
       </div>
       <Field id={id('notes')} name="notes" label="Notes" defaultValue={item?.notes} error={errors.notes} />
       {dialog}
-      <div className="flex gap-2">
-        <Button type="submit" disabled={busy}>
-          {item ? 'Save' : kind === 'hammer' ? 'Register hammer' : 'Register accelerometer'}
-        </Button>
-        <Button type="button" variant="ghost" onClick={onClose}>
-          Cancel
-        </Button>
-      </div>
-    </form>
-  );
-}
-
-function CalibrationForm({ campaignId, item, onClose }: { campaignId: string; item: KitItem; onClose: () => void }) {
-  const refresh = useRefreshKit(campaignId);
-  const toast = useToast();
-  const fail = useFailure();
-  const [errors, setErrors] = useState<FieldErrors>({});
-  const [busy, setBusy] = useState(false);
-  const { withConfirmation, dialog } = useLargeChangeConfirm();
-
-  async function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const f = new FormData(event.currentTarget);
-    const s = String(f.get('sensitivity') ?? '').trim();
-    const parsed = calibrationCreateSchema.safeParse({
-      calibratedOn: String(f.get('calibratedOn') ?? ''),
-      dueOn: String(f.get('dueOn') ?? ''),
-      certificateRef: String(f.get('certificateRef') ?? ''),
-      performedBy: String(f.get('performedBy') ?? ''),
-      ...(s ? { sensitivity: numberOrUndefined(s) } : {}),
-    });
-    if (!parsed.success) return setErrors(issuesToErrors(parsed.error));
-    setErrors({});
-    setBusy(true);
-    try {
-      const body = parsed.data;
-      const stored = await withConfirmation(`${item.model} (SN ${item.serial})`, (confirm) => api(`/campaigns/${campaignId}/kit/${item.id}/calibrations`, { body: confirm ? { ...body, confirmLargeChange: true } : body }));
-      if (!stored) return;
-      await refresh();
-      toast('ok', `Calibration of ${item.model} (SN ${item.serial}) recorded, due ${parsed.data.dueOn}.`);
-      onClose();
-    } catch (err) {
-      fail(err, [keys.kit(campaignId)]);
-    } finally {
-      setBusy(false);
-    }
-  }
-  const id = (n: string) => `${item.id}-cal-${n}`;
-  return (
-    <form onSubmit={submit} noValidate className="mt-2 grid gap-3 rounded-md border border-[var(--line)] p-3 sm:grid-cols-2" aria-label={`Add calibration of ${item.model}`}>
-      <Field id={id('on')} name="calibratedOn" type="date" label="Calibrated on" error={errors.calibratedOn} />
-      <Field id={id('due')} name="dueOn" type="date" label="Due on" error={errors.dueOn} />
-      <Field id={id('cert')} name="certificateRef" label="Certificate reference" error={errors.certificateRef} />
-      <Field id={id('by')} name="performedBy" label="Calibrated by (lab or person)" error={errors.performedBy} />
-      <NumberField id={id('sens')} name="sensitivity" label="Stated sensitivity" unit={item.sensitivityUnit} hint="Optional; updates the item when given." error={errors.sensitivity} />
-      {dialog}
-      <div className="flex items-end gap-2">
-        <Button type="submit" disabled={busy}>
-          Save calibration
-        </Button>
-        <Button type="button" variant="ghost" onClick={onClose}>
-          Cancel
-        </Button>
-      </div>
+      <FormActions busy={busy} submit={item ? 'Save' : kind === 'hammer' ? 'Register hammer' : 'Register accelerometer'} onCancel={onClose} className="flex gap-2" />
     </form>
   );
 }

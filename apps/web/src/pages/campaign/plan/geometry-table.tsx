@@ -10,6 +10,7 @@ import { useFailure } from '../../../lib/mutation.ts';
 import { useToast } from '../../../lib/toast.tsx';
 import { Button, Notice, Panel } from '../../../components/ui.tsx';
 import { Chips } from '../../../components/form-controls.tsx';
+import { RowFormCell } from '../../../components/form-parts.tsx';
 
 const cell = 'min-h-9 w-full min-w-0 rounded border border-[var(--line)] bg-[var(--panel)] px-2 text-sm outline-none focus:border-accent aria-invalid:border-bad';
 const fmt = (v: number) => (Number.isInteger(v) ? String(v) : v.toFixed(3).replace(/0+$/, ''));
@@ -236,16 +237,7 @@ function EditPointRow({ campaignId, point, onClose }: { campaignId: string; poin
       <td className="pr-2 text-xs text-[var(--muted)]" colSpan={2}>
         Directions: use the chips after saving.
       </td>
-      <td className="py-1 text-right whitespace-nowrap">
-        <form id={form} onSubmit={submit} className="inline-flex gap-1">
-          <Button type="submit" className="min-h-9 px-3" disabled={busy}>
-            Save
-          </Button>
-          <Button type="button" variant="ghost" className="min-h-9 px-2" onClick={onClose}>
-            Cancel
-          </Button>
-        </form>
-      </td>
+      <RowFormCell id={form} onSubmit={submit} busy={busy} noValidate={false} onCancel={onClose} />
     </tr>
   );
 }

@@ -99,37 +99,34 @@ function MapTable({ campaignId, detail, canLead }: { campaignId: string; detail:
   const nodes = useMemo(() => new Set(detail.nodes.map((n) => n.label.toLowerCase())), [detail.nodes]);
   const links = detail.map.links;
 
-  async function auto() {
+  /** Runs one change of the map (the answer's words go in the toast); a refusal for units or axes is shown in place. */
+  async function change(run: () => Promise<string>) {
     setBusy(true);
     setRefusal(undefined);
     try {
+      const said = await run();
+      await client.invalidateQueries({ queryKey: key });
+      toast('ok', said);
+      setEdits({});
+    } catch (err) {
+      if (err instanceof ApiError && (err.code === 'units-mismatch' || err.code === 'axes-mismatch')) setRefusal(err.message);
+      else fail(err, [key]);
+    } finally {
+      setBusy(false);
+    }
+  }
+  const auto = () =>
+    change(async () => {
       const r = await api<{ linked: number; unlinked: number }>(`/campaigns/${campaignId}/fe-models/${detail.model.id}/map/auto`, { body: by === 'label' ? { by } : { by, toleranceMm: Number(tolerance) } });
-      await client.invalidateQueries({ queryKey: key });
-      toast('ok', `${r.linked} point${r.linked === 1 ? '' : 's'} linked to a node${r.unlinked ? `, ${r.unlinked} without one` : ''}.`);
-      setEdits({});
-    } catch (err) {
-      if (err instanceof ApiError && (err.code === 'units-mismatch' || err.code === 'axes-mismatch')) setRefusal(err.message);
-      else fail(err, [key]);
-    } finally {
-      setBusy(false);
-    }
-  }
-  async function save() {
-    const changed = Object.entries(edits).map(([point, node]) => ({ point, node: node.trim() === '' ? null : node.trim() }));
-    setBusy(true);
-    setRefusal(undefined);
-    try {
+      return `${r.linked} point${r.linked === 1 ? '' : 's'} linked to a node${r.unlinked ? `, ${r.unlinked} without one` : ''}.`;
+    });
+  const save = () =>
+    change(async () => {
+      const changed = Object.entries(edits).map(([point, node]) => ({ point, node: node.trim() === '' ? null : node.trim() }));
       await api(`/campaigns/${campaignId}/fe-models/${detail.model.id}/map`, { method: 'PATCH', body: { version: detail.map.version, links: changed } });
-      await client.invalidateQueries({ queryKey: key });
-      toast('ok', `${changed.length} link${changed.length === 1 ? '' : 's'} saved.`);
-      setEdits({});
-    } catch (err) {
-      if (err instanceof ApiError && (err.code === 'units-mismatch' || err.code === 'axes-mismatch')) setRefusal(err.message);
-      else fail(err, [key]);
-    } finally {
-      setBusy(false);
-    }
-  }
+      return `${changed.length} link${changed.length === 1 ? '' : 's'} saved.`;
+    });
+
   const badEdits = Object.values(edits).filter((v) => v.trim() !== '' && !nodes.has(v.trim().toLowerCase()));
 
   return (
