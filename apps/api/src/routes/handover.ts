@@ -14,7 +14,7 @@ import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
 import { bundleJson, rawHits, streamBundleZip } from '../handover/bundle.ts';
 import { signReportLink, verifyReportLink } from '../handover/share-token.ts';
-import { mayRestore, restoreBackup } from '../handover/backup.ts';
+import { mayRestore, restoreBackup } from '../handover/restore.ts';
 import { startProductJob, type JobRow } from '../jobs/campaign-jobs.ts';
 import { waitForJob } from '../jobs/queue.ts';
 
