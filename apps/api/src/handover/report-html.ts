@@ -183,7 +183,7 @@ ${histRows ? `<h3>Version history</h3><table class="grid"><thead><tr><th>Version
   const reasonRows = d.hits.byReason.map((r) => `<tr><td>${esc(REASON[r.code] ?? r.code)}</td><td class="n r">${r.n}</td></tr>`).join('');
   const engRows = d.hits.byEngineer.map((e) => `<tr><td>${esc(e.name)}</td><td class="n r">${e.hits}</td><td class="n r">${e.accepted}</td><td class="n r">${e.rejected}</td><td class="n r">${e.hits ? ((100 * e.rejected) / e.hits).toFixed(1) : '–'}&#8239;%</td></tr>`).join('');
   sec.push(`<section><h2>6. Hits</h2>
-<p>${mono(d.hits.total)} hits recorded: ${mono(d.hits.accepted)} accepted (✓), ${mono(d.hits.rejected)} rejected (✗), ${mono(d.hits.overridden)} with the automatic verdict overridden by hand. Rejected hits are kept with their reasons; nothing is deleted.</p>
+<p>${mono(d.hits.total)} hits recorded: ${mono(d.hits.accepted)} accepted (✓), ${mono(d.hits.rejected)} rejected (✗), ${mono(d.hits.overridden)} with the automatic verdict overridden by hand.${d.hits.setAside ? ` ${mono(d.hits.setAside)} more hits were set aside by a redo of their DOF and are not counted here.` : ''} Rejected and set-aside hits are kept with their reasons; nothing is deleted.</p>
 <div class="two keep"><div><h3>Rejected hits by reason</h3>${reasonRows ? `<table class="grid"><thead><tr><th>Reason</th><th>Hits</th></tr></thead><tbody>${reasonRows}</tbody></table><p class="small">A hit can have more than one reason.</p>` : '<p class="muted">None rejected.</p>'}</div>
 <div><h3>By engineer</h3>${engRows ? `<table class="grid"><thead><tr><th>Engineer</th><th>Hits</th><th>✓</th><th>✗</th><th>Rejected</th></tr></thead><tbody>${engRows}</tbody></table>` : '<p class="muted">No hits.</p>'}</div></div>
 ${noiseSection(d)}
