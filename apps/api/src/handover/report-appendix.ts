@@ -1,7 +1,7 @@
 // The end of the hand-over report: the safety cautions and the appendices that trace every FRF
 // and mode to its stored inputs.
 import type { HandoverData } from './handover-data.ts';
-import { dateTime, mono } from './report-words.ts';
+import { mono } from './report-words.ts';
 import { esc } from './svg-frame.ts';
 
 /** 10. Safety and interpretation. */
