@@ -8,7 +8,7 @@ import { auditEvent, hit } from '@resonote/db/schema';
 import { encodeWav } from '@resonote/api/recording';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
+import { barCampaign, barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
@@ -181,5 +181,35 @@ describe('redo a DOF', () => {
     expect(hits.filter((h) => h.setAside).map((h) => h.sequence)).toEqual([1, 2, 3]);
     expect(hits.find((h) => h.sequence === 1)!.setAside).toMatchObject({ by: 'Eric Engineer', reason: 'accelerometer wax had let go' });
     expect(hits.filter((h) => !h.setAside).map((h) => h.sequence)).toEqual([4, 5, 6]);
+  });
+});
+
+describe('the hand-over after a redo', () => {
+  it('counts only the hits that are not set aside in the report totals, and says how many were set aside', async () => {
+    // A campaign of its own, so the counts below are only this test's uploads: 3 hits, a redo, then 2.
+    const own = await barCampaign(app, lead, { name: 'Report after a redo' });
+    for (const [email, role] of [['eng@lab.test', 'engineer'], ['view@lab.test', 'viewer']]) expect((await lead.agent.post(`/api/campaigns/${own.campaignId}/members`).send({ email, role })).status).toBe(201);
+    const saved = rig;
+    rig = own;
+    try {
+      const target = own.entries.find((e) => e.excitationDof === 'B07:+Z')!;
+      expect((await upload(engineer, target.id, 'report-b07-first', toWav(simulate('B07:+Z', 3, 71)))).status).toBe(201);
+      const before = await scheduleEntry(target.id);
+      expect((await engineer.agent.post(`${base()}/schedule/${target.id}/redo`).send({ reason: 'hammer tip was loose', version: before.version })).status).toBe(200);
+      expect((await upload(engineer, target.id, 'report-b07-again', toWav(simulate('B07:+Z', 2, 72)))).status).toBe(201);
+      // All five are still stored (raw hits are never deleted).
+      expect(await app.handle.database.db.select({ id: hit.id }).from(hit).where(eq(hit.campaignId, own.campaignId))).toHaveLength(5);
+
+      const report = await lead.agent.get(`${base()}/report.html`);
+      expect(report.status).toBe(200);
+      const text = report.text.replace(/<[^>]+>/g, '');
+      // 5 uploaded − 3 set aside = 2 counted, both accepted; the 3 are named as set aside.
+      expect(text).toContain('2 hits recorded: 2 accepted (✓), 0 rejected (✗)');
+      expect(text).toContain('3 more hits were set aside by a redo of their DOF and are not counted here.');
+      // The per-engineer table counts the same 2 hits (name, hits, accepted, rejected).
+      expect(report.text).toMatch(/<td>Eric Engineer<\/td><td class="n r">2<\/td><td class="n r">2<\/td><td class="n r">0<\/td>/);
+    } finally {
+      rig = saved;
+    }
   });
 });

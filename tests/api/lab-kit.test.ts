@@ -18,7 +18,7 @@ afterAll(async () => {
 });
 
 const dayFromToday = (days: number) => new Date(Date.now() + days * 86_400_000).toISOString().slice(0, 10);
-type LabItem = { id: string; kind: string; version: number; sensitivity: number | null; sensitivityBase: number | null; axisSensitivities: Record<string, number>; tips: string[]; calibrations: unknown[]; bookings: { campaignName: string }[] };
+type LabItem = { id: string; kind: string; version: number; sensitivity: number | null; sensitivityBase: number | null; axisSensitivities: Record<string, number>; tips: string[]; calibrations: unknown[]; bookings: { campaignId: string | null; campaignName: string | null; fromOn: string; toOn: string; bookedByName: string | null; otherCampaign: string | null }[] };
 async function labItem(id: string): Promise<LabItem> {
   const res = await crew.viewer.agent.get('/api/lab/items');
   expect(res.status).toBe(200);
@@ -147,6 +147,29 @@ describe('bookings', () => {
     expect(copy).toMatchObject({ sensitivity: 2.3, sensitivityBase: 2.3 });
     expect(copy.calibrations.map((c: { certificateRef: string }) => c.certificateRef)).toEqual(['BK-CAL-2', 'BK-CAL-1']);
     const lab = await labItem(hammerId);
-    expect(lab.bookings.map((b) => b.campaignName).sort()).toEqual(['Bracket modal survey lab', 'Other campaign lab', 'Other campaign lab']);
+    expect(lab.bookings).toHaveLength(3);
+  });
+
+  it('names the campaign that booked an item only to its members; anyone else reads "booked by another campaign" with the dates', async () => {
+    const other = { campaignId: null, campaignName: null, bookedByName: null, otherCampaign: 'booked by another campaign' };
+    // The viewer is a member of the bracket campaign only (support/campaign.ts makeCrew).
+    const seenByViewer = await labItem(hammerId);
+    expect(seenByViewer.bookings).toEqual([
+      expect.objectContaining({ campaignId: crew.campaignId, campaignName: 'Bracket modal survey lab', bookedByName: 'Lena Lead lab', fromOn: dayFromToday(1), toOn: dayFromToday(10), otherCampaign: null }),
+      expect.objectContaining({ ...other, fromOn: dayFromToday(8), toOn: dayFromToday(12) }),
+      expect.objectContaining({ ...other, fromOn: dayFromToday(11), toOn: dayFromToday(20) }),
+    ]);
+    expect(JSON.stringify(seenByViewer.bookings)).not.toContain('Other campaign lab');
+    expect(JSON.stringify(seenByViewer.bookings)).not.toContain(crew.otherCampaignId);
+    // The outsider leads the other campaign and is no member of the bracket campaign: the reverse.
+    const res = await crew.outsider.agent.get('/api/lab/items');
+    expect(res.status).toBe(200);
+    const seenByOutsider = (res.body.items as LabItem[]).find((i) => i.id === hammerId)!;
+    expect(seenByOutsider.bookings).toEqual([
+      expect.objectContaining({ ...other, fromOn: dayFromToday(1), toOn: dayFromToday(10) }),
+      expect.objectContaining({ campaignId: crew.otherCampaignId, campaignName: 'Other campaign lab', fromOn: dayFromToday(8), toOn: dayFromToday(12), otherCampaign: null }),
+      expect.objectContaining({ campaignId: crew.otherCampaignId, campaignName: 'Other campaign lab', fromOn: dayFromToday(11), toOn: dayFromToday(20), otherCampaign: null }),
+    ]);
+    expect(JSON.stringify(seenByOutsider.bookings)).not.toContain('Bracket modal survey lab');
   });
 });

@@ -4,7 +4,7 @@
 import { NOTE_TOPIC_NAMES, type NoteTopic } from '@resonote/contracts';
 import type { Db } from '@resonote/db/client';
 import { notesOf, photoOf } from '../routes/notes.ts';
-import { esc } from './svg.ts';
+import { esc } from './svg-frame.ts';
 
 export const REPORT_PHOTO_MAX_BYTES = 1.5 * 1024 * 1024;
 

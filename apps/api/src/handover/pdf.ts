@@ -3,7 +3,7 @@
 // most two renders run at once, the rest wait their turn.
 import { chromium } from 'playwright-core';
 import { HttpError } from '../errors.ts';
-import { esc } from './svg.ts';
+import { esc } from './svg-frame.ts';
 
 const CHROMIUM = '/usr/bin/chromium';
 const ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];

@@ -12,9 +12,11 @@ import { singleFileUpload } from '../http/multipart.ts';
 import { forbidden, HttpError, notFound } from '../errors.ts';
 import { collectHandover } from '../handover/collect.ts';
 import { renderReport } from '../handover/report-html.ts';
-import { bundleJson, rawHits, streamBundleZip } from '../handover/bundle.ts';
+import { bundleJson } from '../handover/bundle.ts';
+import { rawHits } from '../handover/bundle-raw.ts';
+import { streamBundleZip } from '../handover/bundle-zip.ts';
 import { signReportLink, verifyReportLink } from '../handover/share-token.ts';
-import { mayRestore, restoreBackup } from '../handover/backup.ts';
+import { mayRestore, restoreBackup } from '../handover/restore.ts';
 import { startProductJob, type JobRow } from '../jobs/campaign-jobs.ts';
 import { waitForJob } from '../jobs/queue.ts';
 

@@ -21,7 +21,8 @@ export interface LabItem {
   version: number;
   calibrations: (CalibrationRecord & { axisSensitivities: Partial<Record<'X' | 'Y' | 'Z', number>> })[];
   calibration: { state: CalibrationStateName; days: number | null; dueOn: string | null };
-  bookings: { id: string; campaignId: string; campaignName: string; fromOn: string; toOn: string; bookedByName: string | null }[];
+  /** A booking of a campaign the reader is not a member of has no campaign and carries `otherCampaign` (words) instead. */
+  bookings: { id: string; campaignId: string | null; campaignName: string | null; fromOn: string; toOn: string; bookedByName: string | null; otherCampaign: string | null }[];
 }
 
 export interface Overlap {

@@ -63,7 +63,7 @@ function ItemRow({ item, canEdit }: { item: LabItem; canEdit: boolean }) {
                   <span className="num">
                     {b.fromOn} → {b.toOn}
                   </span>{' '}
-                  {b.campaignName}
+                  {b.campaignName ?? <span className="text-[var(--muted)]">{b.otherCampaign}</span>}
                   {b.bookedByName ? ` (${b.bookedByName})` : ''}
                 </li>
               ))}

@@ -1,74 +1,5 @@
-// Inline SVG figures for the printed report: the geometry in mm, FRF and coherence thumbnails,
-// and mode shapes drawn on the geometry. No scripts and no external assets, so the page prints
-// the same in any browser and in the PDF. Lines are thin, grids light, every axis has its unit.
-
-export const esc = (s: unknown) =>
-  String(s ?? '')
-    .replace(/&/g, '&amp;')
-    .replace(/</g, '&lt;')
-    .replace(/>/g, '&gt;')
-    .replace(/"/g, '&quot;');
-
-/** Round, readable tick values covering [lo, hi] (about `count` of them). */
-export function niceTicks(lo: number, hi: number, count = 5): number[] {
-  if (!Number.isFinite(lo) || !Number.isFinite(hi)) return [];
-  if (hi - lo < 1e-12) {
-    const pad = Math.abs(lo) > 0 ? Math.abs(lo) * 0.1 : 1;
-    lo -= pad;
-    hi += pad;
-  }
-  const raw = (hi - lo) / Math.max(1, count);
-  const mag = 10 ** Math.floor(Math.log10(raw));
-  const step = [1, 2, 2.5, 5, 10].map((m) => m * mag).find((s) => s >= raw) ?? 10 * mag;
-  const out: number[] = [];
-  for (let v = Math.ceil(lo / step - 1e-9) * step; v <= hi + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : v);
-  return out;
-}
-
-const fmtTick = (v: number) => {
-  const a = Math.abs(v);
-  if (a === 0) return '0';
-  if (a >= 1000 || Number.isInteger(v)) return String(Math.round(v));
-  if (a >= 1) return v.toFixed(1).replace(/\.0$/, '');
-  return String(Number(v.toPrecision(2)));
-};
-
-const FONT = `font-family="ui-monospace, 'DejaVu Sans Mono', Menlo, Consolas, monospace"`;
-const SANS = `font-family="system-ui, 'Segoe UI', 'DejaVu Sans', Helvetica, Arial, sans-serif"`;
-
-interface Frame {
-  x0: number;
-  y0: number;
-  w: number;
-  h: number;
-  xMin: number;
-  xMax: number;
-  yMin: number;
-  yMax: number;
-}
-const sx = (f: Frame, v: number) => f.x0 + ((v - f.xMin) / (f.xMax - f.xMin || 1)) * f.w;
-const sy = (f: Frame, v: number) => f.y0 + f.h - ((v - f.yMin) / (f.yMax - f.yMin || 1)) * f.h;
-
-function axes(f: Frame, xTicks: number[], yTicks: number[], xTitle: string, yTitle: string, fontPx = 9): string {
-  const parts: string[] = [];
-  parts.push(`<rect x="${f.x0}" y="${f.y0}" width="${f.w}" height="${f.h}" fill="#fff" stroke="#8a918e" stroke-width="0.6"/>`);
-  for (const t of xTicks) {
-    if (t < f.xMin - 1e-9 || t > f.xMax + 1e-9) continue;
-    const x = sx(f, t).toFixed(1);
-    parts.push(`<line x1="${x}" y1="${f.y0}" x2="${x}" y2="${f.y0 + f.h}" stroke="#e4e7e5" stroke-width="0.5"/>`);
-    parts.push(`<text x="${x}" y="${f.y0 + f.h + fontPx + 2}" font-size="${fontPx}" text-anchor="middle" ${FONT} fill="#333">${esc(fmtTick(t))}</text>`);
-  }
-  for (const t of yTicks) {
-    if (t < f.yMin - 1e-9 || t > f.yMax + 1e-9) continue;
-    const y = sy(f, t).toFixed(1);
-    parts.push(`<line x1="${f.x0}" y1="${y}" x2="${f.x0 + f.w}" y2="${y}" stroke="#e4e7e5" stroke-width="0.5"/>`);
-    parts.push(`<text x="${f.x0 - 3}" y="${Number(y) + fontPx / 3}" font-size="${fontPx}" text-anchor="end" ${FONT} fill="#333">${esc(fmtTick(t))}</text>`);
-  }
-  parts.push(`<rect x="${f.x0}" y="${f.y0}" width="${f.w}" height="${f.h}" fill="none" stroke="#8a918e" stroke-width="0.6"/>`);
-  parts.push(`<text x="${f.x0 + f.w / 2}" y="${f.y0 + f.h + 2 * fontPx + 5}" font-size="${fontPx}" text-anchor="middle" ${SANS} fill="#222">${esc(xTitle)}</text>`);
-  parts.push(`<text transform="translate(${f.x0 - 3 * fontPx - 4},${f.y0 + f.h / 2}) rotate(-90)" font-size="${fontPx}" text-anchor="middle" ${SANS} fill="#222">${esc(yTitle)}</text>`);
-  return parts.join('');
-}
+// The geometry and mode shapes as inline SVG for the printed report (drawing kit: svg-frame.ts).
+import { FONT, type Frame, SANS, axes, esc, niceTicks, sx, sy } from './svg-frame.ts';
 
 export interface GeometryPoint {
   id: string;
@@ -152,70 +83,6 @@ export function geometrySvg(points: GeometryPoint[], lines: { pointA: string; po
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="Geometry, ${esc(a)}–${esc(b)} view in mm">${parts.join('')}</svg>`;
 }
 
-/** Keeps the extremes of each pixel column so peaks survive the thinning. */
-function minMaxDecimate(x: number[], y: number[], buckets: number): { x: number[]; y: number[] } {
-  if (x.length <= buckets * 2) return { x, y };
-  const ox: number[] = [];
-  const oy: number[] = [];
-  const per = x.length / buckets;
-  for (let b = 0; b < buckets; b++) {
-    const from = Math.floor(b * per);
-    const to = Math.min(x.length, Math.floor((b + 1) * per));
-    let lo = from;
-    let hi = from;
-    for (let k = from; k < to; k++) {
-      if (y[k]! < y[lo]!) lo = k;
-      if (y[k]! > y[hi]!) hi = k;
-    }
-    for (const k of lo < hi ? [lo, hi] : hi < lo ? [hi, lo] : [lo]) {
-      ox.push(x[k]!);
-      oy.push(y[k]!);
-    }
-  }
-  return { x: ox, y: oy };
-}
-
-function polyline(f: Frame, x: number[], y: number[], stroke: string, width = 0.8, dash = ''): string {
-  const pts = x.map((v, i) => `${sx(f, v).toFixed(1)},${sy(f, Math.min(f.yMax, Math.max(f.yMin, y[i]!))).toFixed(1)}`).join(' ');
-  return `<polyline points="${pts}" fill="none" stroke="${stroke}" stroke-width="${width}"${dash ? ` stroke-dasharray="${dash}"` : ''} stroke-linejoin="round"/>`;
-}
-
-/**
- * |H1| in dB re 1 (m/s²)/N over the band, above the ordinary coherence on 0–1, for one FRF.
- * `f` in Hz; `re`/`im` the accelerance H1 in (m/s²)/N.
- */
-export function frfThumbSvg(title: string, f: ArrayLike<number>, re: ArrayLike<number>, im: ArrayLike<number>, coherence: ArrayLike<number>, band: { low: number; high: number }, width = 330): string {
-  const xs: number[] = [];
-  const db: number[] = [];
-  const coh: number[] = [];
-  for (let k = 0; k < f.length; k++) {
-    if (f[k]! < band.low || f[k]! > band.high || f[k]! <= 0) continue;
-    xs.push(f[k]!);
-    db.push(20 * Math.log10(Math.max(Math.hypot(re[k]!, im[k]!), 1e-12)));
-    coh.push(coherence[k]!);
-  }
-  if (xs.length < 2) return `<p class="muted">${esc(title)}: no lines in the band.</p>`;
-  const plotW = width - 60;
-  const mag = minMaxDecimate(xs, db, plotW);
-  const co = minMaxDecimate(xs, coh, plotW);
-  let dMax = Math.max(...db);
-  let dMin = Math.max(Math.min(...db), dMax - 100);
-  const yt = niceTicks(dMin, dMax, 4);
-  dMin = Math.min(dMin, yt[0]!);
-  dMax = Math.max(dMax, yt.at(-1)!);
-  const xt = niceTicks(band.low, band.high, 5);
-  const top: Frame = { x0: 46, y0: 14, w: plotW, h: 92, xMin: band.low, xMax: band.high, yMin: dMin, yMax: dMax };
-  const bottom: Frame = { x0: 46, y0: top.y0 + top.h + 30, w: plotW, h: 40, xMin: band.low, xMax: band.high, yMin: 0, yMax: 1 };
-  const parts = [
-    `<text x="${top.x0}" y="9" font-size="8.5" ${FONT} fill="#111" font-weight="600">${esc(title)}</text>`,
-    axes(top, xt, yt, 'frequency (Hz)', '|H1| dB re 1 (m/s²)/N', 8),
-    polyline(top, mag.x, mag.y, '#0b4f8a', 0.7),
-    axes(bottom, xt, [0, 0.5, 1], 'frequency (Hz)', 'γ² (–)', 8),
-    polyline(bottom, co.x, co.y, '#8a3b0b', 0.7),
-  ];
-  const height = bottom.y0 + bottom.h + 30;
-  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
-}
 
 const DIR: Record<string, [number, number, number]> = { X: [1, 0, 0], Y: [0, 1, 0], Z: [0, 0, 1] };
 
@@ -305,19 +172,4 @@ export function modeShapeSvg(title: string, points: GeometryPoint[], lines: { po
   const height = 16 + plotH + 14;
   parts.push(`<text x="8" y="${height - 3}" font-size="7" ${SANS} fill="#555">${esc(caption)} · dashed: at rest${unmeasured ? ' · hollow: not fitted' : ''}</text>`);
   return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="100%" role="img" aria-label="${esc(title)}">${parts.join('')}</svg>`;
-}
-
-/** Test against model natural frequencies (Hz), one dot per pair, with the 45° line f_test = f_model. */
-export function frequencyPairSvg(pairs: { testHz: number; modelHz: number; label: string }[], width = 300): string {
-  const height = width;
-  const all = pairs.flatMap((p) => [p.testHz, p.modelHz]);
-  const ticks = niceTicks(0, Math.max(1, ...all) * 1.05, 5);
-  const top = ticks.at(-1) ?? 1;
-  const f: Frame = { x0: 46, y0: 10, w: width - 58, h: height - 50, xMin: 0, xMax: top, yMin: 0, yMax: top };
-  const parts = [axes(f, ticks, ticks, 'model frequency (Hz)', 'test frequency (Hz)')];
-  parts.push(`<line x1="${sx(f, 0)}" y1="${sy(f, 0)}" x2="${sx(f, top)}" y2="${sy(f, top)}" stroke="#8a918e" stroke-width="0.7" stroke-dasharray="4 3"/>`);
-  for (const p of pairs) {
-    parts.push(`<circle cx="${sx(f, p.modelHz).toFixed(1)}" cy="${sy(f, p.testHz).toFixed(1)}" r="2.6" fill="#1f5f8b"><title>${esc(p.label)}</title></circle>`);
-  }
-  return `<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" width="${width}" height="${height}" role="img" aria-label="Test against model frequencies, with the line where they are equal">${parts.join('')}</svg>`;
 }
