@@ -43,6 +43,7 @@ import { registerFeModelRoutes } from './routes/fe-models.ts';
 import { registerKitPolicyRoutes } from './routes/kit-policy.ts';
 import { registerLabRoutes } from './routes/lab.ts';
 import { registerNoteRoutes } from './routes/notes.ts';
+import { registerDofNoteEditRoutes } from './routes/dof-notes-edit.ts';
 import { registerRedoRoutes } from './routes/redo.ts';
 
 export interface AppHandle {
@@ -145,6 +146,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerKitPolicyRoutes(deps);
   registerLabRoutes(deps);
   registerNoteRoutes(deps);
+  registerDofNoteEditRoutes(deps);
   registerRedoRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));
