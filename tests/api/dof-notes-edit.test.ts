@@ -22,11 +22,6 @@ let base: string;
 let entryId: string;
 let otherEntryId: string;
 const key = () => `note-${randomUUID()}`;
-const binary = (r: NodeJS.ReadableStream, done: (err: Error | null, body: Buffer) => void) => {
-  const parts: Buffer[] = [];
-  r.on('data', (c: Buffer) => parts.push(c));
-  r.on('end', () => done(null, Buffer.concat(parts)));
-};
 
 beforeAll(async () => {
   app = await startTestApp(API_TEMPLATE);
@@ -168,7 +163,11 @@ describe('photo thumbnails', () => {
     const res = await engineer.agent.post(`${base}/schedule/${entryId}/notes`).set('Idempotency-Key', key()).field('text', 'With a thumbnail.').attach('file', photo, 'big.png').attach('thumbnail', thumb, 'thumb.png');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.note.photo).toEqual({ mime: 'image/png', size: photo.length, thumbnail: true });
-    const got = await viewer.agent.get(`${base}/notes/${res.body.note.id}/thumbnail`).buffer(true).parse(binary);
+    const got = await viewer.agent.get(`${base}/notes/${res.body.note.id}/thumbnail`).buffer(true).parse((r, done) => {
+      const parts: Buffer[] = [];
+      r.on('data', (c: Buffer) => parts.push(c));
+      r.on('end', () => done(null, Buffer.concat(parts)));
+    });
     expect(got.status).toBe(200);
     expect(got.headers['content-type']).toBe('image/png');
     expect(Buffer.compare(got.body as Buffer, thumb)).toBe(0);

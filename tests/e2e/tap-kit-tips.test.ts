@@ -127,7 +127,7 @@ describe('notes per DOF on Tap', () => {
         const note = panel.getByTestId('note').filter({ hasText: text });
         await note.waitFor();
         await page.waitForFunction((t) => {
-          const li = [...document.querySelectorAll('[data-testid="note"]')].find((n) => n.textContent?.includes(t as string));
+          const li = Array.from(document.querySelectorAll('[data-testid="note"]')).find((n) => n.textContent?.includes(t as string));
           const img = li?.querySelector('img') as HTMLImageElement | null;
           return Boolean(img && img.complete && img.naturalWidth === 320 && img.naturalHeight === 240 && img.src.endsWith('/thumbnail'));
         }, text);
