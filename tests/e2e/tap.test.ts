@@ -55,7 +55,7 @@ describe('Tap in the browser', () => {
       const already = await rows(page).count();
 
       // Hit 1 with the button, hits 2–5 with Space (a foot pedal sends keys).
-      await page.getByLabel('Hammer tip').selectOption('soft');
+      await page.getByLabel('Hammer tip').selectOption('tip:soft (rubber)');
       await page.getByTestId('strike').click();
       await rows(page).nth(already).waitFor({ timeout: 20_000 });
       for (let n = 2; n <= 5; n++) {

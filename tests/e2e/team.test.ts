@@ -209,3 +209,77 @@ describe('numbers and words in the browser', () => {
     await close();
   });
 });
+
+describe('team screens at every size', () => {
+  for (const viewport of [viewports.laptop, viewports.tablet, wide]) {
+    const size = `${viewport.width}x${viewport.height}`;
+    it(`lays out members, invitations, archive/delete and the list filter without overflow at ${size}`, async () => {
+      const name = `Size check ${size}`;
+      const invitee = `invitee-${viewport.width}@lab.test`;
+      await signUp(demo.app, `Ivo ${viewport.width}`, invitee);
+      const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewport);
+      const noSideways = async (what: string) => expect(await page.evaluate(() => document.documentElement.scrollWidth), `${what} fits ${viewport.width} px`).toBeLessThanOrEqual(viewport.width);
+      try {
+        await page.goto(`${demo.app.baseUrl}/campaigns`);
+        const created = await page.evaluate(async (n) => (await (await fetch('/api/campaigns', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ name: n }) })).json()) as { campaign: { id: string } }, name);
+        const id = created.campaign.id;
+
+        // Members and invitations: an invitation to an account that exists shows among the open ones.
+        await page.goto(`${demo.app.baseUrl}/campaigns/${id}/plan`);
+        await page.getByLabel('E-mail address').fill(invitee);
+        await page.getByRole('button', { name: 'Send invitation' }).click();
+        await expect(page.getByText(`Invitation sent to ${invitee} as engineer.`)).toBeDefinedAndVisible();
+        await expect(page.getByText(invitee, { exact: false }).first()).toBeDefinedAndVisible();
+        await expect(page.getByTestId('members')).toHaveTextEventually(/Lena Lead/);
+        await page.getByTestId('members').scrollIntoViewIfNeeded();
+        await settled(page);
+        await noSideways('the members card');
+        await screenshot(page, `team-members-invitations-${size}`);
+
+        // The invited person sees it in the app after signing in.
+        const context = await demo.browser.newContext({ viewport });
+        const other = await context.newPage();
+        const otherErrors = watchConsole(other);
+        await other.goto(`${demo.app.baseUrl}/sign-in`);
+        await other.getByLabel('E-mail').fill(invitee);
+        await other.getByLabel('Password').fill('correct-horse-battery');
+        await other.getByRole('button', { name: 'Sign in' }).click();
+        await expect(other.getByTestId('my-invitations')).toHaveTextEventually(new RegExp(`${name}.*as engineer, invited by`));
+        await settled(other);
+        expect(await other.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
+        await screenshot(other, `team-my-invitation-${size}`);
+        expect(otherErrors).toEqual([]);
+        await context.close();
+
+        // Archive: the banner, read-only; the list filters by status.
+        const card = page.getByRole('button', { name: 'Archive campaign' });
+        await card.scrollIntoViewIfNeeded();
+        await settled(page);
+        await noSideways('the archive card');
+        await screenshot(page, `team-lifecycle-${size}`);
+        await page.getByLabel('Reason (optional)').fill('size check over');
+        await card.click();
+        await expect(page.getByTestId('archived-banner')).toHaveTextEventually(/Archived on .* size check over\. Read-only/);
+        await settled(page);
+        await noSideways('the archived banner');
+        await screenshot(page, `team-archived-${size}`);
+        await page.goto(`${demo.app.baseUrl}/campaigns`);
+        await page.getByLabel('Show campaigns').selectOption('archived');
+        await expect(page.locator('tbody')).toHaveTextEventually(name);
+        await settled(page);
+        await noSideways('the campaign list');
+        await screenshot(page, `team-list-archived-${size}`);
+
+        // Delete (no hits were recorded): after the question, back to the list without it.
+        await page.getByRole('link', { name }).click();
+        page.once('dialog', (d) => void d.accept());
+        await page.getByRole('button', { name: 'Delete…' }).click();
+        await page.waitForURL(/\/campaigns$/);
+        await expect(page.getByText(`“${name}” deleted.`)).toBeDefinedAndVisible();
+        expect(errors.filter((e) => !/status of 404/.test(e))).toEqual([]);
+      } finally {
+        await close();
+      }
+    }, 150_000);
+  }
+});

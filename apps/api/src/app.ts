@@ -50,6 +50,7 @@ import { registerKitPolicyRoutes } from './routes/kit-policy.ts';
 import { registerLabRoutes } from './routes/lab.ts';
 import { registerLabBookingRoutes } from './routes/lab-bookings.ts';
 import { registerNoteRoutes } from './routes/notes.ts';
+import { registerDofNoteEditRoutes } from './routes/dof-notes-edit.ts';
 import { registerRedoRoutes } from './routes/redo.ts';
 
 export interface AppHandle {
@@ -159,6 +160,7 @@ export async function createApp({ config, log = (m) => console.log(m) }: AppOpti
   registerLabRoutes(deps);
   registerLabBookingRoutes(deps);
   registerNoteRoutes(deps);
+  registerDofNoteEditRoutes(deps);
   registerRedoRoutes(deps);
 
   app.use('/api', resolveApiToken(database.db, new TokenFailureLimiter()), resolveUser(auth));

@@ -22,3 +22,5 @@ export * from './live.ts';
 export * from './flag-reasons.ts';
 export * from './hits.ts';
 export * from './mode-rows.ts';
+export * from './hammer-tips.ts';
+export * from './dof-notes.ts';

@@ -3,7 +3,7 @@
 // photo over REPORT_PHOTO_MAX_BYTES is named, not embedded, to keep the report file small).
 import { NOTE_TOPIC_NAMES, type NoteTopic } from '@resonote/contracts';
 import type { Db } from '@resonote/db/client';
-import { notesOf, photoOf } from '../routes/notes.ts';
+import { notesOf, photoOf, thumbnailOf } from '../routes/notes.ts';
 import { esc } from './svg-frame.ts';
 
 export const REPORT_PHOTO_MAX_BYTES = 1.5 * 1024 * 1024;
@@ -26,7 +26,8 @@ export async function notesForHandover(db: Db, campaignId: string): Promise<Hand
     let photo: HandoverNote['photo'] = null;
     if (n.photo) {
       const small = n.photo.size <= REPORT_PHOTO_MAX_BYTES;
-      const row = small ? await photoOf(db, campaignId, n.id) : null;
+      // The thumbnail when the photo came with one (a few tens of kB), else the stored file when small.
+      const row = n.photo.thumbnail ? await thumbnailOf(db, campaignId, n.id) : small ? await photoOf(db, campaignId, n.id) : null;
       photo = { mime: n.photo.mime, size: n.photo.size, dataUri: row ? `data:${row.mime};base64,${Buffer.from(row.bytes).toString('base64')}` : null };
     }
     out.push({ id: n.id, excitationDof: n.excitationDof, responseDof: n.responseDof, topic: n.topic as NoteTopic, text: n.text, authorName: n.authorName, createdAt: new Date(n.createdAt), photo });

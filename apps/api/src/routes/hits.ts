@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
-import { entryHitsAnswerSchema, frfKindSchema, hitDetailSchema, hitsAnswerSchema, idempotencyKeySchema } from '@resonote/contracts';
+import { entryHitsAnswerSchema, frfKindSchema, hitDetailSchema, hitsAnswerSchema, idempotencyKeySchema, rigTipHardnesses } from '@resonote/contracts';
 import { campaign, hit, hitExclusion, point, user } from '@resonote/db/schema';
 import type { Deps } from './deps.ts';
 import { channelMapFor } from '../hits/channel-map.ts';
@@ -20,6 +20,7 @@ import { rigModel, rigRecording } from '../hits/simulated-rig.ts';
 import { readUploadForm, recordingUpload, uploadFields } from '../hits/upload.ts';
 import { keepOriginal, resampledSource, uploadAtCampaignRate } from '../hits/resample-upload.ts';
 import { requestSha256 } from '../hits/upload-keys.ts';
+import { tipChoice, tipSource } from './tip-choice.ts';
 import { flagReasonsOf } from '../hits/entry-flags.ts';
 import { entryResult } from '../hits/entry-result.ts';
 
@@ -66,7 +67,9 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
     summary: 'Take hits from the simulated rig (a structure model of the campaign) at this entry; they go through the same checks as real hits',
     body: z.strictObject({
       count: z.number().int().min(1).max(20).default(1),
-      tip: z.enum(['soft', 'medium', 'hard']).default('medium'),
+      tip: z.enum(rigTipHardnesses).optional(),
+      /** A tip registered for the hammer (Kit): recorded with the hits; the rig plays it as rigHardnessOf(name) unless tip says otherwise. */
+      tipName: z.string().trim().min(1).max(60).optional(),
       peakForceN: z.number().positive().max(1e5).optional(),
       seed: z.number().int().min(0).max(2 ** 31).optional(),
       doubleHitProbability: z.number().min(0).max(1).default(0.1),
@@ -84,11 +87,12 @@ export function registerHitRoutes({ routes, db, config }: Deps, events: Campaign
       const settings = await currentSettings(db, campaignId);
       const map = await channelMapFor(db, campaignId, entry);
       await refuseUncalibrated(db, campaignId, map);
+      const tip = await tipChoice(db, map.find((m) => m.role === 'force')!.kitItemId, body);
       const seed = body.seed ?? Math.floor(Math.random() * 2 ** 31);
-      const fileChannels = rigRecording(rigModel(c!.simulator, points), entry, map, settings.settings, { ...body, seed });
+      const fileChannels = rigRecording(rigModel(c!.simulator, points), entry, map, settings.settings, { ...body, tip: tip.hardness, seed });
       const { kind, idempotencyKey: _key, ...asked } = body;
       const key = body.idempotencyKey ?? randomUUID();
-      const taken = await intake(db, { campaignId, entry, fileChannels, fs: settings.settings.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:tip=${body.tip}`, key, requestSha256: requestSha256('hits:simulate', asked), userId: me.id, map, settings });
+      const taken = await intake(db, { campaignId, entry, fileChannels, fs: settings.settings.sampleRateHz, source: `simulated-rig:${c!.simulator}:seed=${seed}:${tipSource(tip)}`, key, requestSha256: requestSha256('hits:simulate', asked), userId: me.id, map, settings });
       if (taken.replayed) res.locals.status = 200;
       return answerHitChange(db, events, { campaignId, entry, ...taken, settings, kind, type: 'hit' });
     },

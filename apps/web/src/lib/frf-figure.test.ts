@@ -103,3 +103,24 @@ describe('phase and axis labels', () => {
     expect((fig(false, false).layout.xaxis as { tickformat?: string }).tickformat).toBeUndefined();
   });
 });
+
+describe('a short FRF figure (Tap at 1024×768)', () => {
+  const f = axis(5);
+  const curve = { name: 'H1', f, h: { re: new Float64Array(5).fill(1), im: new Float64Array(5) }, coherence: new Float64Array(5).fill(1), colour: '#000' };
+  const options = { kind: 'accelerance', view: 'magphase', db: true, logF: false, colours: plotColours(false), coherence: true } as const;
+  const title = (layout: Record<string, unknown>, key: string) => ((layout[key] as { title: { text: string } }).title.text);
+
+  it('names its three rows in a few characters, with fewer ticks, and the frequency once under the last row', () => {
+    const { layout } = frfFigure([curve], { ...options, compact: true });
+    expect([title(layout, 'yaxis'), title(layout, 'yaxis2'), title(layout, 'yaxis3')]).toEqual(['|H| dB', 'Phase °', 'γ²']);
+    expect((layout.yaxis2 as { tickvals: number[] }).tickvals).toEqual([-180, 0, 180]);
+    expect((layout.yaxis3 as { tickvals: number[] }).tickvals).toEqual([0, 1]);
+    expect(title(layout, 'xaxis')).toBe('Frequency (Hz)');
+    expect((layout.xaxis as { anchor: string }).anchor).toBe('y3');
+  });
+
+  it('keeps the full titles with units when there is room', () => {
+    const { layout } = frfFigure([curve], options);
+    expect([title(layout, 'yaxis'), title(layout, 'yaxis2'), title(layout, 'yaxis3')]).toEqual(['|H| (dB re 1 (m/s²)/N)', 'Phase (°)', 'Coherence γ²']);
+  });
+});

@@ -2,7 +2,7 @@
 // magnitude + phase (+ coherence), real + imaginary, or Nyquist (Re against Im). All the complex
 // arithmetic goes through frf-math.ts; here only traces, axes and labels.
 import { firstPositiveLine, frfUnit, magnitudes, magnitudesDb, phasesDeg, phasesDegUnwrapped, toFloat64, type ComplexArrays, type FrfKind } from './frf-math.ts';
-import { axis, baseLayout, baseMargin, type PlotColours } from './plot-style.ts';
+import { axis, baseLayout, baseMargin, monoFont, type PlotColours } from './plot-style.ts';
 import { minMaxDecimate } from './decimate.ts';
 
 export type FrfView = 'magphase' | 'reim' | 'nyquist';
@@ -42,6 +42,12 @@ export interface FrfFigureOptions {
   bandHz?: readonly [number, number] | null;
   /** Phase unwrapped (continuous through ±180°, frf-math `phasesDegUnwrapped`) instead of wrapped to (−180°, 180°]. */
   unwrap?: boolean;
+  /**
+   * A short plot (Tap at 1024×768, about 250 px): short row titles ("|H| dB", "Phase °", "γ²") whose
+   * full units the caller states beside the plot, smaller tick labels and fewer ticks per row, so the
+   * three rows' titles do not run into each other. The x-axis title stays once, under the last row.
+   */
+  compact?: boolean;
 }
 
 function slice(a: ArrayLike<number>, from: number, to = a.length): Float64Array {
@@ -133,17 +139,21 @@ export function frfFigure(curves: FrfCurve[], o: FrfFigureOptions): { data: Reco
     };
   }
   const domains = withCoh ? [[0.5, 1], [0.26, 0.46], [0, 0.2]] : [[0.42, 1], [0, 0.36]];
-  const top = o.view === 'magphase' ? magTitle : `Re(H) (${unit})`;
-  const mid = o.view === 'magphase' ? 'Phase (°)' : `Im(H) (${unit})`;
+  // Compact: smaller tick labels and a short title per row (the caller states the full units).
+  const tick = o.compact ? { tickfont: { family: monoFont, size: 9 } } : {};
+  const row = (full: string, short: string, extra: Record<string, unknown>) => ({ ...axis(c, full, extra), ...tick, ...(o.compact ? { title: { text: short, font: { size: 11 }, standoff: 4 } } : {}) });
+  const top = o.view === 'magphase' ? row(magTitle, o.db ? '|H| dB' : '|H|', { domain: domains[0], exponentformat: 'power', nticks: o.compact ? 5 : 10 }) : row(`Re(H) (${unit})`, 'Re(H)', { domain: domains[0], exponentformat: 'power', nticks: o.compact ? 5 : 10 });
+  const midExtra = o.view !== 'magphase' ? { domain: domains[1], exponentformat: 'power', ...(o.compact ? { nticks: 3 } : {}) } : o.unwrap ? { domain: domains[1], nticks: o.compact ? 3 : 6 } : { domain: domains[1], range: [-185, 185], tickvals: o.compact ? [-180, 0, 180] : [-180, -90, 0, 90, 180] };
+  const mid = o.view === 'magphase' ? row('Phase (°)', 'Phase °', midExtra) : row(`Im(H) (${unit})`, 'Im(H)', midExtra);
   const layout = baseLayout(c, {
     ...titled(o.title, showLegend),
     showlegend: showLegend,
     uirevision: o.uirevision,
-    xaxis: { ...fAxis, anchor: withCoh ? 'y3' : 'y2' },
+    xaxis: { ...fAxis, ...tick, anchor: withCoh ? 'y3' : 'y2' },
     // nticks: plotly's default allows one label per 40 px, too few on a short magnitude row of an overlay.
-    yaxis: axis(c, top, { domain: domains[0], exponentformat: 'power', nticks: 10 }),
-    yaxis2: axis(c, mid, o.view !== 'magphase' ? { domain: domains[1], exponentformat: 'power' } : o.unwrap ? { domain: domains[1], nticks: 6 } : { domain: domains[1], range: [-185, 185], tickvals: [-180, -90, 0, 90, 180] }),
-    ...(withCoh ? { yaxis3: axis(c, 'Coherence γ²', { domain: domains[2], range: [0, 1.05], tickvals: [0, 0.5, 1] }) } : {}),
+    yaxis: top,
+    yaxis2: mid,
+    ...(withCoh ? { yaxis3: row('Coherence γ²', 'γ²', { domain: domains[2], range: [0, 1.05], tickvals: o.compact ? [0, 1] : [0, 0.5, 1] }) } : {}),
   });
   return { data, layout };
 }

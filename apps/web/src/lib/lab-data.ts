@@ -65,9 +65,12 @@ export interface DofNote {
   responseDof: string;
   topic: NoteTopic;
   text: string;
+  authorId: string | null;
   authorName: string | null;
   createdAt: string;
-  photo: { mime: string; size: number } | null;
+  editedAt: string | null;
+  version: number;
+  photo: { mime: string; size: number; thumbnail: boolean } | null;
 }
 
 export const labKeys = {
@@ -87,19 +90,25 @@ export const useNotes = (id: string) => useQuery({ queryKey: labKeys.notes(id), 
 
 export const photoUrl = (campaignId: string, noteId: string) => `/api/campaigns/${campaignId}/notes/${noteId}/photo`;
 
-/** Sends a note as multipart/form-data (the photo, when given, in the field "file"). */
-export async function postNote(campaignId: string, entryId: string, note: { topic: NoteTopic; text: string; photo: File | null }): Promise<{ note: DofNote }> {
+export const thumbnailUrl = (campaignId: string, noteId: string) => `/api/campaigns/${campaignId}/notes/${noteId}/thumbnail`;
+
+/**
+ * Sends a note as multipart/form-data (the photo, when given, in the field "file", its thumbnail in
+ * "thumbnail") with an Idempotency-Key: the caller keeps the key for a retry of the same note.
+ */
+export async function postNote(campaignId: string, entryId: string, note: { topic: NoteTopic; text: string; photo: File | null; thumbnail?: Blob | null }, key: string): Promise<{ note: DofNote; replayed: boolean }> {
   const form = new FormData();
   form.set('topic', note.topic);
   form.set('text', note.text);
   if (note.photo) form.set('file', note.photo);
+  if (note.photo && note.thumbnail) form.set('thumbnail', note.thumbnail, 'thumbnail.jpg');
   let response: Response;
   try {
-    response = await fetch(`/api/campaigns/${campaignId}/schedule/${entryId}/notes`, { method: 'POST', body: form, credentials: 'same-origin' });
+    response = await fetch(`/api/campaigns/${campaignId}/schedule/${entryId}/notes`, { method: 'POST', body: form, credentials: 'same-origin', headers: { 'Idempotency-Key': key } });
   } catch {
     throw new ApiError(0, 'offline', 'The server cannot be reached. Check the connection; the note was not saved.');
   }
   const data = (await response.json().catch(() => undefined)) as { note?: DofNote; error?: { code: string; message: string; details?: unknown } } | undefined;
   if (!response.ok) throw new ApiError(response.status, data?.error?.code ?? `http-${response.status}`, data?.error?.message ?? `The server answered ${response.status}.`, data?.error?.details, retryAfterSeconds(response.headers.get('retry-after')));
-  return data as { note: DofNote };
+  return data as { note: DofNote; replayed: boolean };
 }

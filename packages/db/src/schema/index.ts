@@ -15,3 +15,4 @@ export * from './campaign-archive.ts';
 export * from './schedule-extra.ts';
 export * from './live.ts';
 export * from './redo.ts';
+export * from './dof-notes.ts';

@@ -109,6 +109,10 @@ export const dofNote = pgTable(
     text: text('text').notNull().default(''),
     authorId: text('author_id').references(() => user.id, { onDelete: 'set null' }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    /** Optimistic concurrency for edits (routes/dof-notes-edit.ts); 1 until first edited. */
+    version: integer('version').notNull().default(1),
+    /** When the text or topic was last edited; null while never edited. */
+    editedAt: timestamp('edited_at', { withTimezone: true }),
   },
   (t) => [index('dof_note_entry_idx').on(t.campaignId, t.entryId)],
 );

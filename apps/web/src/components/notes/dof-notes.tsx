@@ -1,9 +1,13 @@
 // Notes and photos per DOF: a compact button with the count on Tap that opens a side panel (so
 // the FRF keeps its place), the list with small photos on Review, and the form to add one.
-import { useEffect, useMemo, useState, type FormEvent } from 'react';
+import { useEffect, useMemo, useRef, useState, type FormEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { NOTE_TOPIC_NAMES, noteTopics, PHOTO_MAX_BYTES, type NoteTopic } from '@resonote/contracts';
-import { labKeys, photoUrl, postNote, useNotes, type DofNote } from '../../lib/lab-data.ts';
+import { labKeys, postNote, useNotes, type DofNote } from '../../lib/lab-data.ts';
+import { newIdempotencyKey } from '../../lib/hits-data.ts';
+import { makeThumbnail } from '../../lib/photo-thumbnail.ts';
+import { useMe } from '../../lib/session.ts';
+import { NoteItem, type NoteEditor } from './note-item.tsx';
 import { useChannels, useKit } from '../../lib/campaign-data.ts';
 import { useFailure } from '../../lib/mutation.ts';
 import { useToast } from '../../lib/toast.tsx';
@@ -11,25 +15,13 @@ import { Button, Notice, Spinner } from '../ui.tsx';
 
 const MB = PHOTO_MAX_BYTES / 1024 / 1024;
 
-/** The notes of one schedule entry, oldest first, each with its photo as a small thumbnail that opens full size. */
-export function NoteList({ campaignId, notes }: { campaignId: string; notes: DofNote[] }) {
+/** The notes of one schedule entry, oldest first, each with its photo's thumbnail (the full photo opens on a click). */
+export function NoteList({ campaignId, notes, editor = null }: { campaignId: string; notes: DofNote[]; editor?: NoteEditor }) {
   if (!notes.length) return <p className="text-sm text-[var(--muted)]">No notes at this DOF.</p>;
   return (
     <ul className="space-y-2" data-testid="note-list">
       {notes.map((n) => (
-        <li key={n.id} className="flex gap-3 rounded-md border border-[var(--line)] p-2 text-sm" data-testid="note">
-          {n.photo && (
-            <a href={photoUrl(campaignId, n.id)} target="_blank" rel="noreferrer" className="shrink-0" title="Open the photo full size">
-              <img src={photoUrl(campaignId, n.id)} alt={`Photo at ${n.responseDof} / ${n.excitationDof}${n.text ? `: ${n.text.slice(0, 60)}` : ''}`} className="h-16 w-20 rounded border border-[var(--line)] object-cover" loading="lazy" data-testid="note-photo" />
-            </a>
-          )}
-          <div className="min-w-0">
-            <p className="text-xs text-[var(--muted)]">
-              <span className="font-medium text-[var(--ink)]">{NOTE_TOPIC_NAMES[n.topic]}</span> · {n.authorName ?? 'someone no longer here'} · {new Date(n.createdAt).toLocaleString()}
-            </p>
-            {n.text ? <p className="break-words whitespace-pre-wrap">{n.text}</p> : <p className="text-[var(--muted)] italic">Photo only.</p>}
-          </div>
-        </li>
+        <NoteItem key={`${n.id}:${n.version}`} campaignId={campaignId} note={n} editor={editor} />
       ))}
     </ul>
   );
@@ -45,12 +37,19 @@ function NoteForm({ campaignId, entryId, tips, onSaved }: { campaignId: string; 
   const [error, setError] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
 
+  // One key per note: kept while the same note is retried after a failure, new once it is stored or changed.
+  const pending = useRef<{ what: string; key: string } | null>(null);
+
   async function send(note: { topic: NoteTopic; text: string; photo: File | null }) {
     setBusy(true);
+    const what = `${entryId}\n${note.topic}\n${note.text}\n${note.photo ? `${note.photo.name}:${note.photo.size}:${note.photo.lastModified}` : ''}`;
+    if (pending.current?.what !== what) pending.current = { what, key: newIdempotencyKey() };
     try {
-      await postNote(campaignId, entryId, note);
+      const thumbnail = note.photo ? await makeThumbnail(note.photo) : null;
+      const answer = await postNote(campaignId, entryId, { ...note, thumbnail }, pending.current.key);
+      pending.current = null;
       await client.invalidateQueries({ queryKey: labKeys.notes(campaignId) });
-      toast('ok', 'Note saved at this DOF.');
+      toast('ok', answer.replayed ? 'This note was already saved at this DOF.' : 'Note saved at this DOF.');
       setText('');
       setPhoto(null);
       onSaved();
@@ -109,8 +108,10 @@ function NoteForm({ campaignId, entryId, tips, onSaved }: { campaignId: string; 
 }
 
 /** Tap: "Notes (n)" with a camera mark when a photo is there; opens a panel over the side of the page. */
-export function DofNotesButton({ campaignId, entryId, canAct }: { campaignId: string; entryId: string; canAct: boolean }) {
+export function DofNotesButton({ campaignId, entryId, canAct, isLead = false }: { campaignId: string; entryId: string; canAct: boolean; isLead?: boolean }) {
   const notes = useNotes(campaignId);
+  const me = useMe();
+  const editor: NoteEditor = canAct && me.data ? { userId: me.data.user.id, lead: isLead } : null;
   // The tips registered for the hammer on the channel map (Kit, or the lab inventory it came from).
   const kit = useKit(campaignId);
   const channels = useChannels(campaignId);
@@ -148,7 +149,7 @@ export function DofNotesButton({ campaignId, entryId, canAct }: { campaignId: st
             </div>
             {notes.isPending && <Spinner label="Loading the notes…" />}
             {notes.isError && <Notice tone="error">The notes could not be loaded: {notes.error.message}</Notice>}
-            {notes.data && <NoteList campaignId={campaignId} notes={here} />}
+            {notes.data && <NoteList campaignId={campaignId} notes={here} editor={editor} />}
             {canAct && <NoteForm campaignId={campaignId} entryId={entryId} tips={tips} onSaved={() => undefined} />}
           </aside>
         </div>

@@ -39,7 +39,9 @@ export function FrfPlot({ frf, display, height = 460, showH2 = false, uirevision
       coherence: true,
       title: untitled ? undefined : frfPlotTitle(frf, display),
       uirevision,
+      // Below about 320 px the three rows' full titles run into each other (Tap at 1024×768).
+      compact: height < 320,
     });
-  }, [frf, display, theme, showH2, uirevision, untitled]);
+  }, [frf, display, theme, showH2, uirevision, untitled, height]);
   return <Plot label={`Averaged FRF and coherence from ${frf.averages} hits`} data={fig.data} layout={fig.layout} config={plotConfig} height={height} />;
 }

@@ -4,6 +4,7 @@ import { useEffect, useState } from 'react';
 import type { Waiting } from '../../lib/retry.ts';
 import type { ServerHealth } from '../../lib/server-health.ts';
 import { Button } from '../ui.tsx';
+import { formatWhen } from '../../lib/format-date.ts';
 
 function useSecondsUntil(at: number | null): number | null {
   const [now, setNow] = useState(() => Date.now());
@@ -17,9 +18,8 @@ function useSecondsUntil(at: number | null): number | null {
 }
 
 function clock(iso: string | null): string {
-  if (!iso) return '';
-  const d = new Date(iso);
-  return Number.isNaN(d.getTime()) ? '' : ` since ${d.toLocaleTimeString([], { hour: '2-digit', minute: '2-digit', second: '2-digit' })}`;
+  const when = formatWhen(iso, 'time', { fallback: '' });
+  return when ? ` since ${when}` : '';
 }
 
 export function ServerBanner({ waiting, health, onTryNow }: { waiting: Waiting | null; health: ServerHealth; onTryNow: () => void }) {

@@ -2,19 +2,15 @@
 // (file picker or drag-and-drop, units, progress bar).
 import { useRef, useState, type DragEvent, type ReactNode } from 'react';
 import { Button } from '../ui.tsx';
-import type { Tip, UploadFields } from './use-record.ts';
+import type { UploadFields } from './use-record.ts';
+import type { HammerTips, TipOption } from './use-hammer-tips.ts';
 
 export function Kbd({ children }: { children: string }) {
   return <kbd className="num ml-1 rounded border border-current/40 px-1.5 py-0.5 text-xs font-semibold opacity-90">{children}</kbd>;
 }
 
-const tips: [Tip, string][] = [
-  ['soft', 'Soft — long pulse, low band'],
-  ['medium', 'Medium'],
-  ['hard', 'Hard — short pulse, wide band'],
-];
-
 export function StrikePanel({
+  tips,
   tip,
   onTip,
   onStrike,
@@ -24,8 +20,10 @@ export function StrikePanel({
   failedUpload,
   live,
 }: {
-  tip: Tip;
-  onTip: (t: Tip) => void;
+  /** The hammer's registered tips, or the rig's own when it has none (use-hammer-tips.ts). */
+  tips: HammerTips;
+  tip: TipOption | null;
+  onTip: (t: TipOption) => void;
   onStrike: () => void;
   onUpload: (fields: UploadFields) => void;
   busy: string | null;
@@ -77,15 +75,25 @@ export function StrikePanel({
             <label htmlFor="rig-tip" className="text-sm font-medium">
               Hammer tip
             </label>
-            <select id="rig-tip" value={tip} onChange={(e) => onTip(e.target.value as Tip)} className="min-h-11 rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm">
-              {tips.map(([v, t]) => (
-                <option key={v} value={v}>
-                  {t}
+            <select id="rig-tip" value={tip?.value ?? ''} onChange={(e) => { const t = tips.options.find((o) => o.value === e.target.value); if (t) onTip(t); }} className="min-h-11 rounded-md border border-[var(--line)] bg-[var(--panel)] px-3 text-sm" data-testid="tip-select" data-registered={tips.registered}>
+              {tips.options.map((o) => (
+                <option key={o.value} value={o.value}>
+                  {o.label}
                 </option>
               ))}
             </select>
+            {tips.registered && tip && (
+              <p className="text-xs text-[var(--muted)]" data-testid="tip-as-rig">
+                Tips registered in Kit for {tips.hammer}; the simulated rig strikes with its {tip.hardness} tip for this one.
+              </p>
+            )}
+            {!tips.registered && !tips.loading && (
+              <p className="text-xs text-[var(--muted)]" data-testid="tip-fallback">
+                {tips.hammer ? `The hammer ${tips.hammer} has no tips registered in Kit` : 'No hammer is on the channel map yet'}, so the rig's own soft, medium and hard tips are offered. A lead adds the hammer's tips in Kit.
+              </p>
+            )}
           </div>
-          <Button onClick={onStrike} disabled={busy !== null} className="min-h-16 w-full text-lg" data-testid="strike">
+          <Button onClick={onStrike} disabled={busy !== null || !tip} className="min-h-16 w-full text-lg" data-testid="strike">
             {busy === 'strike' ? 'Striking…' : 'Strike'}
             <Kbd>Space</Kbd>
             <Kbd>S</Kbd>

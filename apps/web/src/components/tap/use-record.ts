@@ -7,7 +7,11 @@ import { hitKeys, invalidateTestData, markApplied, newIdempotencyKey, uploadReco
 import { useToast } from '../../lib/toast.tsx';
 import { sendUntilStored, type Waiting } from '../../lib/retry.ts';
 
-export type Tip = 'soft' | 'medium' | 'hard';
+/** A strike's tip: the rig's hardness, and the registered tip's name when one was chosen. */
+export interface Tip {
+  hardness: 'soft' | 'medium' | 'hard';
+  name: string | null;
+}
 export interface UploadFields {
   file: File;
   units: 'volts' | 'engineering';
@@ -97,7 +101,9 @@ export function useRecordHits(campaignId: string, entryId: string | null, onReco
   }
 
   const strike = (tip: Tip) =>
-    run('strike', `strike:${entryId}:${tip}`, (key) => api<HitsAnswer>(`/campaigns/${campaignId}/schedule/${entryId}/simulate`, { body: { count: 1, tip, idempotencyKey: key, kind: 'accelerance' } })).catch(() => undefined);
+    run('strike', `strike:${entryId}:${tip.hardness}:${tip.name ?? ''}`, (key) =>
+      api<HitsAnswer>(`/campaigns/${campaignId}/schedule/${entryId}/simulate`, { body: { count: 1, tip: tip.hardness, ...(tip.name ? { tipName: tip.name } : {}), idempotencyKey: key, kind: 'accelerance' } }),
+    ).catch(() => undefined);
 
   const upload = (fields: UploadFields) => {
     const form = new FormData();

@@ -66,6 +66,11 @@ export function CampaignLayout() {
           <h1 className="min-w-0 shrink truncate pb-2 text-base font-semibold" title={`${campaign.name} · ${campaign.structure}`}>
             {campaign.name}
           </h1>
+          {archived && (
+            <span className="mb-2 shrink-0 rounded border border-[var(--line)] px-1.5 py-0.5 text-xs" data-testid="tap-archived-badge">
+              Archived · read-only
+            </span>
+          )}
           <div className="ml-auto min-w-0">{nav}</div>
         </header>
         <Outlet context={context} />

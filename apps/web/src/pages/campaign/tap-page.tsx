@@ -21,7 +21,8 @@ import { HitPlots } from '../../components/tap/hit-plots.tsx';
 import { NoisePanel } from '../../components/tap/noise-panel.tsx';
 import { SafetyNote } from '../../components/tap/safety-note.tsx';
 import { Kbd, StrikePanel } from '../../components/tap/strike-panel.tsx';
-import { useRecordHits, type Tip } from '../../components/tap/use-record.ts';
+import { useRecordHits } from '../../components/tap/use-record.ts';
+import { useHammerTips, type TipOption } from '../../components/tap/use-hammer-tips.ts';
 import { VerdictPanel } from '../../components/tap/verdict-panel.tsx';
 import { ServerBanner } from '../../components/tap/server-banner.tsx';
 import { useServerHealth } from '../../lib/server-health.ts';
@@ -37,6 +38,7 @@ import { FoldPanel } from '../../components/tap/fold-panel.tsx';
 import { RedoDialog } from '../../components/tap/redo-dialog.tsx';
 import { SetAsideNote } from '../../components/tap/set-aside-note.tsx';
 import { useFitHeight } from '../../lib/fit-height.ts';
+import { formatWhen } from '../../lib/format-date.ts';
 
 const OPEN: ScheduleStatus[] = ['planned', 'in-progress'];
 const FRF_DISPLAY = { view: 'magphase', kind: 'accelerance', db: true, logF: false } as const;
@@ -57,8 +59,9 @@ function isTyping(target: EventTarget | null) {
 
 export function TapPage() {
   const { campaignId = '' } = useParams();
-  const { campaign, myRole } = useCampaignContext();
-  const canAct = myRole === 'engineer' || myRole === 'lead' || myRole === 'admin';
+  const { campaign, myRole, archived } = useCampaignContext();
+  // An archived campaign is read-only for everyone: no recording, verdicts, redo, arming or notes.
+  const canAct = !archived && (myRole === 'engineer' || myRole === 'lead' || myRole === 'admin');
   const [params, setParams] = useSearchParams();
   const entryParam = params.get('entry');
   const toast = useToast();
@@ -86,7 +89,10 @@ export function TapPage() {
   const selected = activeHits.find((h) => h.id === selectedId) ?? activeHits[activeHits.length - 1] ?? null;
   const accepted = activeHits.filter((h) => h.verdict === 'accept').length;
   const required = hits.data?.entry.requiredHits ?? entry?.requiredHits ?? 5;
-  const [tip, setTip] = useState<Tip>('soft');
+  const hammerTips = useHammerTips(campaignId);
+  const [chosenTip, setTip] = useState<TipOption | null>(null);
+  // The chosen tip while the hammer still lists it; else the hammer's first (or the rig's soft).
+  const tip = hammerTips.options.find((o) => o.value === chosenTip?.value) ?? hammerTips.options[0] ?? null;
 
   useEffect(() => setSelectedId(null), [entry?.id]);
 
@@ -127,7 +133,7 @@ export function TapPage() {
   // Single-key shortcuts (a foot pedal sends keys). Not while typing in a field.
   const actions = useRef({ strike: () => {}, accept: () => {}, reject: () => {}, next: () => {} });
   actions.current = {
-    strike: () => void record.strike(tip),
+    strike: () => tip && void record.strike(tip),
     accept: () => selected && void record.override(selected, 'accept', 'accepted by hand at the structure'),
     reject: () => selected && void record.override(selected, 'reject', 'rejected by hand at the structure'),
     next: goNext,
@@ -213,7 +219,7 @@ export function TapPage() {
           <DofHeader entry={entry} accepted={accepted} required={required} index={index} total={entries.length} aside={<DofJump entries={entries} currentId={entry.id} onJump={requestMove} />} />
           <div className="flex flex-col items-end gap-1">
             <div className="flex flex-wrap items-center justify-end gap-2">
-              <DofNotesButton campaignId={campaignId} entryId={entry.id} canAct={canAct} />
+              <DofNotesButton campaignId={campaignId} entryId={entry.id} canAct={canAct} isLead={myRole === 'lead' || myRole === 'admin'} />
               {canAct && activeHits.length > 0 && (
                 <Button variant="secondary" onClick={() => setDialog({ kind: 'redo' })} className="min-h-11" data-testid="redo-dof" title="Set this DOF's hits aside (kept) and take a new set">
                   Redo
@@ -248,7 +254,8 @@ export function TapPage() {
           </p>
         )}
       </section>
-      <SafetyNote />
+      {/* Nobody strikes on an archived campaign: no cautions before striking. */}
+      {!archived && <SafetyNote />}
 
       <div className="grid gap-3 md:grid-cols-[minmax(280px,340px)_minmax(0,1fr)]">
         <div className="space-y-3">
@@ -257,8 +264,14 @@ export function TapPage() {
           </Panel>
           {canAct ? (
             <Panel title="Record a hit" dense>
-              <StrikePanel tip={tip} onTip={setTip} onStrike={() => void record.strike(tip)} onUpload={(f) => void record.upload(f)} busy={record.busy} progress={record.progress} failedUpload={record.failedUpload} live={<LivePanel campaignId={campaignId} entryId={entry.id} entryLabel={`${entry.excitationDof} → ${entry.responseDof}`} isLead={myRole === 'lead' || myRole === 'admin'} onStored={onRecorded} />} />
+              <StrikePanel tips={hammerTips} tip={tip} onTip={setTip} onStrike={() => tip && void record.strike(tip)} onUpload={(f) => void record.upload(f)} busy={record.busy} progress={record.progress} failedUpload={record.failedUpload} live={<LivePanel campaignId={campaignId} entryId={entry.id} entryLabel={`${entry.excitationDof} → ${entry.responseDof}`} isLead={myRole === 'lead' || myRole === 'admin'} onStored={onRecorded} />} />
             </Panel>
+          ) : archived ? (
+            <Notice tone="info">
+              <span data-testid="tap-archived">
+                Archived on <span className="num">{formatWhen(campaign.archivedAt, 'date')}</span>: read-only. Its hits and FRFs can be read; nothing is recorded or judged here. A lead can un-archive it on the Plan tab.
+              </span>
+            </Notice>
           ) : (
             <Notice tone="info">You are a viewer on this campaign: you see the hits and results as they come in, but you do not record or judge hits.</Notice>
           )}
