@@ -15,6 +15,7 @@ import type { PgTable } from 'drizzle-orm/pg-core';
 import { strToU8, unzipSync, zipSync, type Zippable } from 'fflate';
 import { z } from 'zod';
 import { dofNote, dofPhoto, kitPolicy, labItem } from '@resonote/db/schema';
+import { liveInputRows, liveInputTables } from './backup-live.ts';
 import { acquisitionSettings, auditEvent, calibrationRecord, campaign, campaignInvitation, campaignMember, channel, feMode, feModel, fePointLink, frfResult, hit, hitExclusion, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry, user, type CampaignRole } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
 import { audit } from '../http/audit.ts';
@@ -49,6 +50,8 @@ const TABLES: TableSpec[] = [
   { name: 'calibration_record', table: calibrationRecord, userCols: ['recordedBy'], hasUuidId: true },
   { name: 'channel', table: channel, userCols: [], hasUuidId: true },
   { name: 'schedule_entry', table: scheduleEntry, userCols: ['assigneeId'], hasUuidId: true },
+  // Input scaling and calibrator checks of the live input (backup-live.ts).
+  ...liveInputTables,
   // Calibration policy and notes/photos per DOF; a backup from before them restores with none.
   { name: 'kit_policy', table: kitPolicy, userCols: [], hasUuidId: false, addedLater: true },
   { name: 'dof_note', table: dofNote, userCols: ['authorId'], hasUuidId: true, addedLater: true },
@@ -130,6 +133,7 @@ export async function buildBackup(db: Db, campaignId: string, sourceUrl: string)
         fe_mode: await byCampaign(feMode as never),
         fe_point_link: await byCampaign(fePointLink as never),
         audit_event: await byCampaign(auditEvent as never, asc(auditEvent.id)),
+        ...(await liveInputRows(tx, campaignId)),
       };
       const members = await tx
         .select({ userId: campaignMember.userId, role: campaignMember.role, email: user.email, name: user.name })
