@@ -6,7 +6,7 @@ import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, count, eq } from 'drizzle-orm';
-import { auditEvent, campaign, campaignMember, hit, noiseCheck, scheduleEntry, user } from '@resonote/db/schema';
+import { auditEvent, campaign, campaignMember, channel, channelInput, hit, noiseCheck, scheduleEntry, sensitivityCheck, user } from '@resonote/db/schema';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { signUp } from '../support/accounts.ts';
@@ -76,6 +76,12 @@ beforeAll(async () => {
   expect((await lead.post(`/api/campaigns/${barId}/modes/table`).send({ fitId: started.body.fit.id, modes: [1], baseVersion: 0 })).status).toBe(201);
   // A second background-noise check besides the demo's own (raw samples in its row).
   expect((await engineer.post(`/api/campaigns/${barId}/noise-checks/simulate`).send({ durationS: 2, seed: 3, humHz: 50 })).status).toBe(201);
+  // The live input's scaling of every channel and a calibrator check through it (routes/live-input.ts).
+  const chans = (await lead.get(`/api/campaigns/${barId}/channels`)).body.channels as { id: string; channel: number; kind: string }[];
+  for (const c of chans) expect((await lead.put(`/api/campaigns/${barId}/channels/${c.id}/input-scaling`).send({ fullScaleVolts: c.channel === 1 ? 0.5 : 5, acLowCutHz: 3 })).status).toBe(200);
+  const accel = chans.find((c) => c.kind === 'accelerometer')!;
+  // 0.1 V RMS at 10 m/s² RMS: 10 mV/(m/s²) measured (sensitivity = V_rms / level).
+  expect((await engineer.post(`/api/campaigns/${barId}/sensitivity-checks`).send({ channelId: accel.id, referenceMs2Rms: 10, referenceHz: 159.2, measuredVoltsRms: 0.1, measuredHz: 159.3, sampleRateHz: 48_000, durationS: 2 })).status).toBe(201);
   const res = await binary(lead.get(`/api/campaigns/${barId}/backup`));
   expect(res.status).toBe(200);
   backup = res.body as Buffer;
@@ -92,7 +98,7 @@ describe('campaign backup', () => {
     expect(manifest.version).toBe(1);
     expect(manifest.sourceUrl).toBe(app.config.publicUrl);
     expect(Date.now() - Date.parse(manifest.exportedAt)).toBeLessThan(120_000);
-    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'mode_table', 'mode_table_row', 'campaign_member']) {
+    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'channel_input', 'sensitivity_check', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'mode_table', 'mode_table_row', 'campaign_member']) {
       expect(files[`tables/${t}.json`], t).toBeDefined();
       expect(JSON.parse(Buffer.from(files[`tables/${t}.json`]!).toString('utf8')), t).toHaveLength(manifest.counts[t]);
     }
@@ -142,6 +148,37 @@ describe('campaign restore', () => {
     const settings = [(await lead.get(`/api/campaigns/${barId}/settings`)).body, (await lead.get(`/api/campaigns/${restoredId}/settings`)).body];
     expect(settings[1].current.settings).toEqual(settings[0].current.settings);
     expect(settings[1].history.length).toBe(settings[0].history.length);
+  });
+
+  it('brings back each channel’s input scaling and the calibrator checks, on the restored channels, with their checker', async () => {
+    const db = app.handle.database.db;
+    const scaling = async (id: string) =>
+      (await db.select({ n: channel.channel, v: channelInput.fullScaleVolts, cut: channelInput.acLowCutHz, version: channelInput.version }).from(channelInput).innerJoin(channel, eq(channel.id, channelInput.channelId)).where(eq(channelInput.campaignId, id)).orderBy(asc(channel.channel)));
+    const a = await scaling(barId);
+    expect(a.length).toBeGreaterThan(1);
+    expect(await scaling(restoredId)).toEqual(a);
+    const checks = async (id: string) =>
+      db.select({ n: channel.channel, chCampaign: channel.campaignId, check: sensitivityCheck }).from(sensitivityCheck).innerJoin(channel, eq(channel.id, sensitivityCheck.channelId)).where(eq(sensitivityCheck.campaignId, id));
+    const [ca, cb] = [await checks(barId), await checks(restoredId)];
+    expect(cb).toHaveLength(1);
+    expect(cb[0]!.chCampaign).toBe(restoredId);
+    expect(cb[0]!.n).toBe(ca[0]!.n);
+    // The stored numbers unchanged: 0.1 V / 10 m/s² = 10 mV/(m/s²); the checker is an account the lead shares the campaign with.
+    expect(cb[0]!.check.measuredSensitivity).toBeCloseTo(10, 12);
+    for (const k of ['measuredVoltsRms', 'kitSensitivity', 'deviationPercent', 'deviationDb', 'checkedAt', 'checkedBy'] as const) expect(cb[0]!.check[k], k).toEqual(ca[0]!.check[k]);
+  });
+
+  it('restores a backup written before the live input existed (no tables/channel_input.json, tables/sensitivity_check.json) with none', async () => {
+    const files = unzipSync(new Uint8Array(backup));
+    const manifest = JSON.parse(Buffer.from(files['manifest.json']!).toString('utf8'));
+    delete manifest.counts.channel_input;
+    delete manifest.counts.sensitivity_check;
+    const { 'tables/channel_input.json': _a, 'tables/sensitivity_check.json': _b, ...older } = files;
+    const res = await lead.post('/api/campaigns/restore').attach('file', Buffer.from(zipSync({ ...older, 'manifest.json': new TextEncoder().encode(JSON.stringify(manifest)) })), 'older-live.zip');
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    expect(res.body.counts.channel_input).toBe(0);
+    expect(res.body.counts.sensitivity_check).toBe(0);
+    expect((await lead.get(`/api/campaigns/${res.body.campaign.id}/input-scaling`)).body.scaling).toEqual([]);
   });
 
   it('gives the restored campaign the same FRF as the original, to full precision', async () => {

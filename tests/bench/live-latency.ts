@@ -9,6 +9,7 @@
 // 5 hits, as on a test day. Goal: p95 ≤ 150 ms.
 //   npm run bench:live   (or RESONOTE_TEST_DATABASE_URL=… node --import tsx tests/bench/live-latency.ts)
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { startTestApp } from '../support/app.ts';
 import { createTemplate } from '../support/db.ts';
@@ -39,6 +40,7 @@ try {
   await page.getByTestId('live-stop-after').fill(String(HITS));
   await page.getByTestId('live-start').click();
   await page.locator('[data-testid="live-panel"][data-engine="armed"]').waitFor({ timeout: 20_000 });
+  console.log(`load average at the start: ${os.loadavg().map((l) => l.toFixed(2)).join(', ')}`);
   console.log(`live input armed; capturing ${HITS} hits (about ${Math.round(HITS * 1.5)} s)…`);
   const count = () => page.evaluate(() => performance.getEntriesByName('resonote-live-verdict').length);
   let moved = 0;
@@ -54,9 +56,18 @@ try {
     await page.waitForFunction((k) => performance.getEntriesByName('resonote-live-verdict').length > k, n, { timeout: 60_000 });
   }
   const times = await page.evaluate(() => performance.getEntriesByName('resonote-live-verdict').map((e) => e.duration));
+  // Where the client's time goes, per hit: capture → sent (WAV encoding, IndexedDB write, queue),
+  // the POST round trip (the server's hit path and the network), answer applied → painted.
+  const parts = await page.evaluate(() => Object.fromEntries(['keep', 'post', 'paint'].map((n) => [n, performance.getEntriesByName(`resonote-live-${n}`).map((e) => e.duration)])));
   const pending = await page.getByTestId('live-pending').getAttribute('data-count');
   const sorted = [...times].sort((a, b) => a - b);
   const q = (p: number) => sorted[Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1)]!;
+  const pq = (xs: number[], p: number) => {
+    const o = [...xs].sort((x, y) => x - y);
+    return o[Math.min(o.length - 1, Math.ceil(p * o.length) - 1)] ?? NaN;
+  };
+  for (const [n, xs] of Object.entries(parts)) console.log(`  ${n.padEnd(5)} p50 ${pq(xs, 0.5).toFixed(0)} ms, p95 ${pq(xs, 0.95).toFixed(0)} ms over ${xs.length}`);
+  console.log(`load average (1, 5, 15 min) at the end: ${os.loadavg().map((l) => l.toFixed(2)).join(', ')} on ${os.cpus().length} cores`);
   console.log(`capture → verdict on screen over ${times.length} hits: p50 ${q(0.5).toFixed(0)} ms, p95 ${q(0.95).toFixed(0)} ms, max ${sorted[sorted.length - 1]!.toFixed(0)} ms (goal p95 ≤ 150 ms); waiting at the end: ${pending}`);
 } finally {
   await browser.close();

@@ -18,14 +18,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, eq } from 'drizzle-orm';
 import type { Browser, Page } from 'playwright-core';
 import { modelFrf, steelBar } from '@resonote/sim';
-import { hit } from '@resonote/db/schema';
+import { auditEvent, hit, sensitivityCheck } from '@resonote/db/schema';
+import { encodeWav } from '@resonote/api/recording';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { PASSWORD } from '../support/accounts.ts';
 import type { Person } from '../support/campaign.ts';
 import type { RigCampaign } from '../support/rig.ts';
 import { liveCampaign } from '../support/live-campaign.ts';
 import { fakeAudioInput, launchBrowser, screenshot, screenshotDir, settled, viewports, watchConsole } from '../support/browser.ts';
-import { LIVE_FS, LIVE_HITS, liveBarWav } from '../support/live-wav.ts';
+import { FAKE_DEVICE_FS, LIVE_FS, LIVE_HITS, LIVE_KIT, LIVE_LEAD_IN_S, LIVE_SPACING_S, liveBarWav } from '../support/live-wav.ts';
 
 let app: TestApp & { baseUrl: string };
 let browser: Browser;
@@ -65,6 +66,13 @@ async function viewShot(page: Page, name: string) {
   await page.screenshot({ path: path.join(screenshotDir, `${name}.png`) });
 }
 
+/** The engineer has read the cautions once: they fold to their one-line header (never hidden). */
+async function foldCautions(page: Page) {
+  const fold = page.getByTestId('safety-fold').first();
+  if (await fold.count()) await fold.click();
+  await page.locator('[data-testid="safety-note"][data-expanded="false"]').first().waitFor();
+}
+
 const entryOf = (dof: string) => rig.entries.find((e) => e.excitationDof === dof)!;
 const stored = (page: Page) => page.locator('[data-testid="live-capture"][data-state="stored"]');
 
@@ -73,6 +81,7 @@ async function openLive(page: Page, dof: string, stopAfter: number) {
   await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });
   // The geometry view draws in WebGL (software-rendered here): let the page settle before the click.
   await settled(page);
+  await foldCautions(page);
   await page.getByRole('tab', { name: 'Live input' }).click({ timeout: 60_000 });
   const panel = page.getByTestId('live-panel');
   await panel.or(page.getByText(/could not be loaded/)).first().waitFor({ timeout: 30_000 });
@@ -83,7 +92,7 @@ async function openLive(page: Page, dof: string, stopAfter: number) {
 }
 
 describe('Tap with the live input', () => {
-  it('captures hits from the interface by itself, gives the simulator’s verdicts, keeps force and response aligned, and says the FRF was resampled', { timeout: 240_000 }, async () => {
+  it('captures hits from the interface by itself, gives the simulator’s verdicts, keeps force and response aligned, leaves out records with a break in the stream, and averages an FRF within 2 % and 2° of the closed form', { timeout: 240_000 }, async () => {
     const { page, errors, close } = await signIn(viewports.laptop);
     try {
       await openLive(page, 'B01:+Z', LIVE_HITS.length);
@@ -103,14 +112,33 @@ describe('Tap with the live input', () => {
       await settled(page);
       await screenshot(page, 'tap-live-armed-1366');
       await viewShot(page, 'tap-live-armed-1366-view');
+      // With the first accepted hit in, the verdict and the FRF are there too.
+      await page.locator('[data-testid="live-capture"][data-verdict="accept"]').first().waitFor({ timeout: 90_000 });
+      await page.locator('[data-testid="frf-plot"] .js-plotly-plot').waitFor({ timeout: 30_000 });
+      await settled(page);
+      await viewShot(page, 'tap-live-capturing-1366-view');
 
       await stored(page).nth(LIVE_HITS.length - 1).waitFor({ timeout: 200_000 });
       // The panel stopped by itself after one pass of the looping file.
       await page.locator('[data-testid="live-panel"][data-engine="off"]').waitFor();
       expect(await page.getByTestId('live-pending').getAttribute('data-count')).toBe('0');
-      const verdicts = (await page.getByTestId('live-capture').evaluateAll((els) => els.map((e) => e.getAttribute('data-verdict')))).reverse();
+      // Under load the fake device can drop frames mid-record: such a record is shown as
+      // interrupted and not sent, and the next hit of the looping file is taken instead. Which hit
+      // of the file each capture is follows from its trigger frame (hits 8 s apart from 1.2 s into
+      // a 49 s file, support/live-wav.ts); the first capture is the file's first hit.
+      const captures = (await page.getByTestId('live-capture').evaluateAll((els) => els.map((e) => ({ state: e.getAttribute('data-state'), verdict: e.getAttribute('data-verdict'), trigger: Number(e.getAttribute('data-trigger-frame')) })))).reverse();
+      const interrupted = captures.filter((c) => c.state === 'interrupted');
+      expect(Number(await page.getByTestId('live-interrupted').getAttribute('data-count'))).toBe(interrupted.length);
+      const fileS = LIVE_LEAD_IN_S + LIVE_HITS.length * LIVE_SPACING_S;
+      const kindOf = (trigger: number) => {
+        const t = (((trigger - captures[0]!.trigger) / rate + LIVE_LEAD_IN_S + 0.2) % fileS) - LIVE_LEAD_IN_S - 0.2;
+        return LIVE_HITS[Math.round(t / LIVE_SPACING_S) % LIVE_HITS.length]!;
+      };
+      const storedKinds = captures.filter((c) => c.state === 'stored').map((c) => kindOf(c.trigger));
+      if (interrupted.length === 0) expect(storedKinds).toEqual(LIVE_HITS);
       // What the simulator put in (support/live-wav.ts): clean → accept, double → reject, clipped → reject.
-      expect(verdicts).toEqual(LIVE_HITS.map((k) => (k === 'clean' ? 'accept' : 'reject')));
+      expect(captures.filter((c) => c.state === 'stored').map((c) => c.verdict)).toEqual(storedKinds.map((k) => (k === 'clean' ? 'accept' : 'reject')));
+      if (interrupted.length) expect(await page.locator('[data-testid="live-capture"][data-state="interrupted"]').first().textContent()).toMatch(/input stream interrupted — hit again/);
       await page.locator('[data-testid="frf-plot"] .js-plotly-plot').waitFor({ timeout: 30_000 });
       await settled(page);
       await screenshot(page, 'tap-live-stored-1366');
@@ -118,8 +146,10 @@ describe('Tap with the live input', () => {
       const entry = entryOf('B01:+Z');
       const hits = (await engineer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry.id}/hits`)).body.hits as { verdict: string; reasons: { code: string }[] }[];
       expect(hits).toHaveLength(LIVE_HITS.length);
-      expect(hits[1]!.reasons.map((r) => r.code)).toContain('double-hit');
-      expect(hits[3]!.reasons.map((r) => r.code)).toContain('overload');
+      storedKinds.forEach((k, i) => {
+        if (k === 'double') expect(hits[i]!.reasons.map((r) => r.code)).toContain('double-hit');
+        if (k === 'clipped') expect(hits[i]!.reasons.map((r) => r.code)).toContain('overload');
+      });
       const rows = await app.handle.database.db.select({ key: hit.idempotencyKey, source: hit.source, fs: hit.sampleRateHz }).from(hit).where(eq(hit.scheduleEntryId, entry.id)).orderBy(asc(hit.sequence));
       expect(new Set(rows.map((r) => r.key)).size).toBe(LIVE_HITS.length);
       for (const r of rows) expect(r.fs).toBe(LIVE_FS);
@@ -141,6 +171,30 @@ describe('Tap with the live input', () => {
         return ((onset - fPeak) / r.fs) * 1000;
       });
       for (const lag of lagsMs) expect(Math.abs(lag), `response onset − force peak per hit (ms): ${lagsMs.map((l) => l.toFixed(2)).join(', ')}`).toBeLessThan(3);
+
+      // The averaged FRF of the stored clean hits against the closed form: modal superposition of
+      // the Euler–Bernoulli bar (sim modelFrf), read between resonances at 0.85·fn and 1.15·fn as in
+      // tests/api/api-tokens.test.ts; 2 % and 2° as the issue asks. A record with a break in the
+      // stream never reaches the average (above), so a dropped 10 ms cannot bend it.
+      const frf = (await engineer.agent.get(`/api/campaigns/${rig.campaignId}/schedule/${entry.id}/frf?kind=accelerance`)).body;
+      expect(frf.averages).toBe(storedKinds.filter((k) => k === 'clean').length);
+      if (rate !== LIVE_FS) expect(frf).toMatchObject({ resampled: true, resampledFromHz: rate });
+      const f: number[] = frf.f;
+      const h1 = frf.channels[0].h1;
+      const exact = modelFrf(bar.model, 'B21:+Z', 'B01:+Z', Float64Array.from(f), 'accelerance');
+      const seen: string[] = [];
+      for (const fn of [53.17, 146.55, 287.3]) {
+        for (const target of [0.85 * fn, 1.15 * fn]) {
+          const k = f.findIndex((x) => x >= target);
+          const ratio = Math.hypot(h1.re[k], h1.im[k]) / Math.hypot(exact.re[k]!, exact.im[k]!);
+          const dphase = Math.atan2(h1.im[k], h1.re[k]) - Math.atan2(exact.im[k]!, exact.re[k]!);
+          const deg = Math.abs(Math.atan2(Math.sin(dphase), Math.cos(dphase))) * (180 / Math.PI);
+          seen.push(`${f[k]!.toFixed(2)} Hz: ${((ratio - 1) * 100).toFixed(2)} %, ${deg.toFixed(2)}°`);
+          expect(Math.abs(ratio - 1), `|H1|/|H| at ${f[k]} Hz (${interrupted.length} records interrupted); ${seen.join('; ')}`).toBeLessThan(0.02);
+          expect(deg, `phase at ${f[k]} Hz; ${seen.join('; ')}`).toBeLessThan(2);
+        }
+      }
+      console.log(`live FRF against the closed form (${interrupted.length} records interrupted): ${seen.join('; ')}`);
 
       expect(errors.filter((e) => !/status of 404/.test(e)), JSON.stringify(errors)).toEqual([]);
     } finally {
@@ -189,3 +243,121 @@ describe('Tap with the live input', () => {
     }
   });
 });
+
+// A handheld accelerometer calibrator on the response channel (common practice: 10 m/s² RMS at
+// 159.2 Hz, ω = 1000 rad/s). The simulated sensor is 10.5 mV/(m/s²) while the kit says 10.2, so
+// the interface sees 10 m/s² × 10.5 mV/(m/s²) = 0.105 V RMS, 0.021 of its 5 V full scale; the
+// force input carries the hammer's noise floor only. Expected on screen (sensitivity = V_rms /
+// level; deviation = (measured − kit)/kit and 20·log10(measured/kit)): 10.500 mV/(m/s²),
+// +2.94 %, +0.25 dB. The file is 6 s long, so any 2 s recording holds only the tone.
+const CAL = { levelMs2: 10, hz: 159.2, trueMvPerMs2: 10.5 };
+function calibratorWav(): Buffer {
+  const fs = FAKE_DEVICE_FS;
+  const n = 6 * fs;
+  const force = new Float64Array(n);
+  const accel = new Float64Array(n);
+  const amp = (Math.SQRT2 * CAL.levelMs2 * CAL.trueMvPerMs2) / 1000 / LIVE_KIT.accelFullScaleV;
+  for (let i = 0; i < n; i++) {
+    // A deterministic noise floor of 0.02 N on the force input (never digital silence).
+    force[i] = ((0.02 * Math.sin(i * 12.9898) * LIVE_KIT.hammerMvPerN) / 1000 / LIVE_KIT.forceFullScaleV);
+    accel[i] = amp * Math.sin((2 * Math.PI * CAL.hz * i) / fs);
+  }
+  return encodeWav([force, accel], fs, 'float32', 1);
+}
+
+describe('Tap with the live input on a calibrator', () => {
+  let calBrowser: Browser;
+  beforeAll(async () => {
+    const wavPath = path.join(screenshotDir, '..', 'live', 'calibrator-44k1.wav');
+    fs.writeFileSync(wavPath, calibratorWav());
+    calBrowser = await launchBrowser(fakeAudioInput(wavPath));
+  }, 60_000);
+  afterAll(async () => {
+    await calBrowser?.close();
+  });
+
+  async function calPage(viewport: { width: number; height: number }, init?: () => void) {
+    const context = await calBrowser.newContext({ viewport });
+    if (init) await context.addInitScript(init);
+    const page = await context.newPage();
+    const errors = watchConsole(page);
+    await page.goto(`${app.baseUrl}/sign-in`);
+    await page.getByLabel('E-mail').fill(engineer.email);
+    await page.getByLabel('Password').fill(PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/campaigns$/);
+    await page.goto(`${app.baseUrl}/campaigns/${rig.campaignId}/tap?entry=${entryOf('B11:+Z').id}`);
+    await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });
+    await settled(page);
+    await foldCautions(page);
+    await page.getByRole('tab', { name: 'Live input' }).click({ timeout: 60_000 });
+    await page.getByTestId('live-panel').waitFor({ timeout: 30_000 });
+    return { page, errors, close: () => context.close() };
+  }
+
+  it('records the calibrator on the response channel and shows the measured sensitivity and its deviation from the kit in % and dB, stored as an audited check', { timeout: 120_000 }, async () => {
+    const { page, errors, close } = await calPage(viewports.laptop);
+    try {
+      await page.getByTestId('live-start').click();
+      await page.locator('[data-testid="live-panel"][data-engine="armed"]').waitFor({ timeout: 20_000 });
+      await page.getByTestId('sensitivity-check').locator('summary').click();
+      await page.getByRole('button', { name: 'Record the calibrator' }).click();
+      const result = page.getByTestId('sensitivity-result');
+      await result.filter({ hasText: 'Stored as a check.' }).waitFor({ timeout: 30_000 });
+      const text = (await result.textContent())!;
+      const m = /Measured ([\d.]+) mV\/\(m\/s²\) at ([\d.]+) Hz against the kit's ([\d.]+) mV\/\(m\/s²\): ([+-][\d.]+) % \(([+-][\d.]+) dB\)/.exec(text);
+      expect(m, text).not.toBeNull();
+      const [measured, hz, kit, pct, db] = m!.slice(1).map(Number) as [number, number, number, number, number];
+      // sensitivity = V_rms / level = 0.105 V / 10 m/s² = 10.5 mV/(m/s²); the tone's RMS over 2 s of a
+      // sine is exact to well under 0.1 % (a whole number of cycles ± one).
+      expect(Math.abs(measured / CAL.trueMvPerMs2 - 1)).toBeLessThan(0.001);
+      expect(Math.abs(hz - CAL.hz)).toBeLessThan(0.2);
+      expect(kit).toBe(LIVE_KIT.accelMvPerMs2);
+      expect(pct).toBeCloseTo(((CAL.trueMvPerMs2 - LIVE_KIT.accelMvPerMs2) / LIVE_KIT.accelMvPerMs2) * 100, 1); // +2.94 %
+      expect(db).toBeCloseTo(20 * Math.log10(CAL.trueMvPerMs2 / LIVE_KIT.accelMvPerMs2), 1); // +0.25 dB
+      await settled(page);
+      await screenshot(page, 'tap-live-calibrator-1366');
+
+      const db0 = app.handle.database.db;
+      const rows = await db0.select().from(sensitivityCheck).where(eq(sensitivityCheck.campaignId, rig.campaignId));
+      expect(rows).toHaveLength(1);
+      expect(rows[0]!.channelNumber).toBe(2);
+      expect(rows[0]!.referenceMs2Rms).toBe(CAL.levelMs2);
+      expect(rows[0]!.referenceHz).toBe(CAL.hz);
+      expect(rows[0]!.measuredSensitivity).toBeCloseTo(measured, 3);
+      expect(rows[0]!.deviationDb).toBeCloseTo(20 * Math.log10(rows[0]!.measuredSensitivity / rows[0]!.kitSensitivity), 9);
+      const audits = await db0.select().from(auditEvent).where(eq(auditEvent.entityId, rows[0]!.id));
+      expect(audits.map((a) => [a.entity, a.action])).toEqual([['sensitivity-check', 'create']]);
+      const listed = (await engineer.agent.get(`/api/campaigns/${rig.campaignId}/sensitivity-checks`)).body.checks;
+      expect(listed[0].deviationPercent).toBeCloseTo(pct, 2);
+      await page.getByTestId('live-stop').click();
+      expect(errors.filter((e) => !/status of 404/.test(e)), JSON.stringify(errors)).toEqual([]);
+    } finally {
+      await close();
+    }
+  });
+
+  it('says in words why it cannot arm when the chosen input is not there (a device constraint that cannot be met), and stays stopped', { timeout: 120_000 }, async () => {
+    // The page asks for an input by an id no device has, as when the interface used last time has
+    // been unplugged: Chromium refuses getUserMedia with an OverconstrainedError on deviceId.
+    const { page, errors, close } = await calPage(viewports.tablet, () => {
+      const md = navigator.mediaDevices;
+      const real = md.getUserMedia.bind(md);
+      md.getUserMedia = (c?: MediaStreamConstraints) => real(c && typeof c.audio === 'object' ? { ...c, audio: { ...c.audio, deviceId: { exact: 'unplugged-interface' } } } : c);
+    });
+    try {
+      await page.getByTestId('live-start').click();
+      const notice = page.getByTestId('live-panel').getByText(/cannot deliver what was asked/);
+      await notice.waitFor({ timeout: 20_000 });
+      expect(await notice.textContent()).toMatch(/that device is not connected.*Choose another input/);
+      expect(await page.getByTestId('live-panel').getAttribute('data-engine')).toBe('off');
+      await expect(page.getByTestId('live-start')).toBeDefinedAndVisible();
+      await settled(page);
+      await viewShot(page, 'tap-live-arming-failed-768-view');
+      expect(errors, JSON.stringify(errors)).toEqual([]);
+    } finally {
+      await close();
+    }
+  });
+});
+

@@ -23,7 +23,9 @@ export type LiveHitKind = 'clean' | 'double' | 'clipped';
 export const LIVE_HITS: LiveHitKind[] = ['clean', 'double', 'clean', 'clipped', 'clean', 'clean'];
 /** Seconds between hits: the bar's first mode (ζ ≈ 0.4 %) rings down by e^−10 before the next. */
 export const LIVE_SPACING_S = 8;
-const LEAD_IN_S = 1;
+/** Seconds of noise floor before the first hit. */
+export const LIVE_LEAD_IN_S = 1;
+const LEAD_IN_S = LIVE_LEAD_IN_S;
 
 export function liveBarWav(excitationDof: string, options: { seed?: number; kinds?: LiveHitKind[]; spacingS?: number; fs?: number } = {}): { wav: Buffer; hitStartsS: number[] } {
   const fs = options.fs ?? FAKE_DEVICE_FS;

@@ -2,7 +2,7 @@
 // query that reads its rows for one campaign. A new campaign table joins backups with one entry here.
 import { asc, eq, inArray } from 'drizzle-orm';
 import type { PgColumn, PgTable } from 'drizzle-orm/pg-core';
-import { dofNote, dofPhoto, kitPolicy } from '@resonote/db/schema';
+import { channelInput, dofNote, dofPhoto, dofPhotoThumb, kitPolicy, sensitivityCheck } from '@resonote/db/schema';
 import { acquisitionSettings, auditEvent, calibrationRecord, campaign, channel, feMode, feModel, fePointLink, frfResult, hit, hitExclusion, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry } from '@resonote/db/schema';
 import type { Tx } from '../http/audit.ts';
 
@@ -51,6 +51,10 @@ export const TABLES: TableSpec[] = [
   },
   { name: 'channel', table: channel, userCols: [], hasUuidId: true, read: own(channel, channel.channel) },
   { name: 'schedule_entry', table: scheduleEntry, userCols: ['assigneeId'], hasUuidId: true, read: own(scheduleEntry, scheduleEntry.position) },
+  // The live input's scaling per channel and the calibrator checks made through it; a backup from
+  // before them restores with none.
+  { name: 'channel_input', table: channelInput, userCols: [], hasUuidId: true, addedLater: true, read: own(channelInput, channelInput.updatedAt) },
+  { name: 'sensitivity_check', table: sensitivityCheck, userCols: ['checkedBy'], hasUuidId: true, addedLater: true, read: own(sensitivityCheck, sensitivityCheck.checkedAt) },
   // Calibration policy and notes/photos per DOF; a backup from before them restores with none.
   { name: 'kit_policy', table: kitPolicy, userCols: [], hasUuidId: false, addedLater: true, read: own(kitPolicy) },
   { name: 'dof_note', table: dofNote, userCols: ['authorId'], hasUuidId: true, addedLater: true, read: own(dofNote, dofNote.createdAt) },
@@ -61,6 +65,14 @@ export const TABLES: TableSpec[] = [
     hasUuidId: false,
     addedLater: true,
     read: async ({ tx, campaignId }) => (await tx.select({ photo: dofPhoto }).from(dofPhoto).innerJoin(dofNote, eq(dofNote.id, dofPhoto.noteId)).where(eq(dofNote.campaignId, campaignId))).map((r) => r.photo as Row),
+  },
+  {
+    name: 'dof_photo_thumb',
+    table: dofPhotoThumb,
+    userCols: [],
+    hasUuidId: false,
+    addedLater: true,
+    read: async ({ tx, campaignId }) => (await tx.select({ thumb: dofPhotoThumb }).from(dofPhotoThumb).innerJoin(dofNote, eq(dofNote.id, dofPhotoThumb.noteId)).where(eq(dofNote.campaignId, campaignId))).map((r) => r.thumb as Row),
   },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true, read: own(hit, hit.recordedAt) },
   // Hits set aside by a redo (routes/redo.ts); a backup from before them restores with none.

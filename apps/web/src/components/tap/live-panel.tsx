@@ -4,6 +4,7 @@
 // is cut by the trigger, sent to the DOF on screen with its key, and its verdict comes back while
 // the next hit is already armed. Hits that cannot be sent wait on this device and go out in order.
 import { useEffect, useMemo, useState } from 'react';
+import { createPortal } from 'react-dom';
 import { Link } from 'react-router';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { CALIBRATOR_DEFAULT, sensitivityDeviation } from '@resonote/contracts';
@@ -47,6 +48,10 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   const plan = s && { campaignId, entryId, entryLabel, channels: sorted, scaling: scale, settings: s, slope, hysteresis: hyst, stopAfter: stopN };
 
   const { retarget, resume } = live;
+  // Tap's slot under the DOF (tap-page.tsx, id tap-live-strip): while capturing, the state and the
+  // meters go there so they stay in view with the verdict and the FRF.
+  // Looked up at every render (the meters re-render it every 50 ms), so a re-rendered Tap page is followed.
+  const strip = live.running ? document.getElementById('tap-live-strip') : null;
   useEffect(() => {
     if (plan && optionsOk) retarget(plan);
   });
@@ -69,6 +74,18 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   const lowCuts = scale.filter((x) => x.acLowCutHz !== null && s !== undefined && s.bandHz.low < x.acLowCutHz);
   const blocked = !s || unscaled.length > 0 || sorted.length === 0 || !optionsOk || (rateDiffers && !s.resampleUploads);
 
+  const stateLine = (
+    <div className={`flex flex-wrap items-center justify-between gap-x-2 text-sm ${live.running ? '-order-4' : ''}`} aria-live="polite">
+      <p>
+        Live input: <strong data-testid="live-state-word">{stateWords[live.engine]}</strong>
+        {live.engine === 'armed' && s && <span className="text-[var(--muted)]"> — strike when ready (above {s.triggerLevelN} N)</span>}
+      </p>
+      <p className={live.pending ? 'font-semibold text-warn' : 'text-[var(--muted)]'} data-testid="live-pending" data-count={live.pending}>
+        {live.pending === 0 ? 'none waiting to be sent' : `${live.pending} hit${live.pending === 1 ? '' : 's'} waiting to be sent${live.waitingFor ? ` (${live.waitingFor.reason === 'unreachable' ? 'server not reachable' : 'server busy'}; kept on this device, sent in order)` : ''}`}
+      </p>
+    </div>
+  );
+
   async function takeRate() {
     if (!settings.data || rate === null) return;
     try {
@@ -80,7 +97,9 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   }
 
   return (
-    <div className="space-y-3" data-testid="live-panel" data-engine={live.engine}>
+    <div className="flex flex-col gap-3" data-testid="live-panel" data-engine={live.engine}>
+      {/* While capturing, what the engineer watches with the hammer in hand comes first (state,
+          meters, Stop, the latest captures) so it stays in view at 768×1024; the set-up below it. */}
 
       {unscaled.length > 0 && (
         <Notice tone="error">
@@ -168,7 +187,7 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
       )}
 
       {live.running ? (
-        <Button variant="secondary" onClick={() => void live.stop()} className="min-h-14 w-full text-base" data-testid="live-stop">
+        <Button variant="secondary" onClick={() => void live.stop()} className="-order-2 min-h-11 w-full" data-testid="live-stop">
           Stop the live input
         </Button>
       ) : (
@@ -176,26 +195,43 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
           Start: arm {entryLabel}
         </Button>
       )}
-      {live.error && <Notice tone="error">{live.error}</Notice>}
+      {live.error && (
+        <div className="-order-5" data-testid="live-error" role="alert">
+          <Notice tone="error">{live.error}</Notice>
+        </div>
+      )}
 
-      <div className="flex flex-wrap items-center justify-between gap-2 text-sm" aria-live="polite">
-        <p>
-          State: <strong data-testid="live-state-word">{stateWords[live.engine]}</strong>
-          {live.engine === 'armed' && s && <span className="text-[var(--muted)]"> — strike when ready (above {s.triggerLevelN} N)</span>}
-        </p>
-        <p className={live.pending ? 'font-semibold text-warn' : 'text-[var(--muted)]'} data-testid="live-pending" data-count={live.pending}>
-          {live.pending === 0 ? 'none waiting to be sent' : `${live.pending} hit${live.pending === 1 ? '' : 's'} waiting to be sent${live.waitingFor ? ` (${live.waitingFor.reason === 'unreachable' ? 'server not reachable' : 'server busy'}; kept on this device, sent in order)` : ''}`}
-        </p>
-      </div>
+      {!(live.running && strip) && stateLine}
 
-      {live.running && <Meters channels={sorted} meter={live.meter} />}
-      {live.running && (
+      {live.running && !strip && (
+        <div className="-order-3">
+          <Meters channels={sorted} meter={live.meter} />
+        </div>
+      )}
+      {live.running &&
+        strip &&
+        createPortal(
+          <div className="space-y-1 rounded-md border border-accent/40 px-3 py-1.5" data-testid="live-strip">
+            {stateLine}
+            <Meters channels={sorted} meter={live.meter} wide />
+          </div>,
+          strip,
+        )}
+      {live.running && strip && <p className="-order-3 text-xs text-[var(--muted)]">State and level meters: under the DOF, above.</p>}
+      {(live.running || live.frames.seen > 0) && (
         <p className="num text-xs text-[var(--muted)]" data-testid="live-frames">
           {live.frames.seen.toLocaleString('en')} frames read, {live.frames.dropped} skipped by the audio thread
+          {live.frames.upstream !== null ? `, ${live.frames.upstream} dropped before it` : ' (this browser does not report frames dropped before it)'}
+          {'; '}
+          <span data-testid="live-interrupted" data-count={live.frames.interrupted} className={live.frames.interrupted ? 'font-semibold text-warn' : ''}>
+            {live.frames.interrupted === 0 ? 'no record interrupted' : `${live.frames.interrupted} record${live.frames.interrupted === 1 ? '' : 's'} interrupted (not sent — hit again)`}
+          </span>
         </p>
       )}
 
-      <CaptureList captures={live.captures} />
+      <div className={live.running ? '-order-1' : ''}>
+        <CaptureList captures={live.captures} max={live.running ? 4 : 30} />
+      </div>
       {lowCuts.length > 0 && s && (
         <Notice tone="info">
           <span data-testid="live-low-cut">
@@ -203,19 +239,19 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
           </span>
         </Notice>
       )}
-      <aside className="rounded-md border border-warn/50 bg-warn/8 px-3 py-2 text-xs" data-testid="live-instrument-note">
-        <p className="font-semibold text-warn">An audio interface is not a calibrated measurement instrument</p>
-        <p className="mt-0.5">unless its scaling has been checked: enter each channel's volts at full scale in Kit and check a sensor with a handheld calibrator below before you trust levels in N and m/s².</p>
-      </aside>
+      <details className="rounded-md border border-warn/50 bg-warn/8 px-3 py-1.5 text-xs" data-testid="live-instrument-note" open={!live.running}>
+        <summary className="cursor-pointer font-semibold text-warn">An audio interface is not a calibrated measurement instrument unless its scaling has been checked</summary>
+        <p className="mt-0.5">Enter each channel's volts at full scale in Kit and check a sensor with a handheld calibrator below before you trust levels in N and m/s².</p>
+      </details>
       <SafetyNote />
       {live.running && s && <SensitivityCheck campaignId={campaignId} channels={sorted.filter((c) => c.kind === 'accelerometer')} scaling={scale} grab={live.grab} />}
     </div>
   );
 }
 
-function Meters({ channels, meter }: { channels: Channel[]; meter: { peaks: number[]; headroomDb: number[]; overload: boolean[] } | null }) {
+function Meters({ channels, meter, wide = false }: { channels: Channel[]; meter: { peaks: number[]; headroomDb: number[]; overload: boolean[] } | null; wide?: boolean }) {
   return (
-    <div className="space-y-1.5" data-testid="live-meters" aria-label="Level per channel">
+    <div className={wide ? 'grid gap-x-6 gap-y-1 sm:grid-cols-2' : 'space-y-1.5'} data-testid="live-meters" aria-label="Level per channel" title="Headroom below digital full scale; overload from 1 dB below it.">
       {channels.map((c) => {
         const i = c.channel - 1;
         const peak = meter?.peaks[i] ?? 0;
@@ -234,19 +270,19 @@ function Meters({ channels, meter }: { channels: Channel[]; meter: { peaks: numb
           </div>
         );
       })}
-      <p className="text-xs text-[var(--muted)]">Headroom below digital full scale; overload from 1 dB below it.</p>
+      {!wide && <p className="text-xs text-[var(--muted)]">Headroom below digital full scale; overload from 1 dB below it.</p>}
     </div>
   );
 }
 
-const captureWords: Record<Capture['state'], string> = { checking: 'checking', waiting: 'waiting to be sent', stored: 'stored', refused: 'refused' };
+const captureWords: Record<Capture['state'], string> = { checking: 'checking', waiting: 'waiting to be sent', stored: 'stored', refused: 'refused', interrupted: 'not sent' };
 
-function CaptureList({ captures }: { captures: Capture[] }) {
+function CaptureList({ captures, max }: { captures: Capture[]; max: number }) {
   if (captures.length === 0) return <p className="text-xs text-[var(--muted)]">No hit captured yet in this session.</p>;
   return (
     <ol className="space-y-1 text-xs" data-testid="live-captures" aria-label="Captured hits">
-      {captures.slice(0, 8).map((c) => (
-        <li key={c.key} className="flex flex-wrap items-center gap-2" data-testid="live-capture" data-state={c.state} data-verdict={c.hit?.verdict ?? ''}>
+      {captures.slice(0, max).map((c) => (
+        <li key={c.key} className="flex flex-wrap items-center gap-2" data-testid="live-capture" data-state={c.state} data-verdict={c.hit?.verdict ?? ''} data-trigger-frame={c.triggerFrame ?? ''}>
           <span className="num text-[var(--muted)]">{new Date(c.capturedAt).toLocaleTimeString()}</span>
           <span className="num">{c.entryLabel}</span>
           <span className="font-medium">{captureWords[c.state]}</span>
@@ -257,7 +293,7 @@ function CaptureList({ captures }: { captures: Capture[] }) {
             </>
           )}
           {c.peaks.some((p) => p >= OVERLOAD_PEAK) && <span className="font-semibold text-bad">✕ near full scale</span>}
-          {c.message && <span className="text-[var(--muted)]">{c.message}</span>}
+          {c.message && <span className={c.state === 'interrupted' ? 'font-semibold text-warn' : 'text-[var(--muted)]'}>{c.message}</span>}
         </li>
       ))}
     </ol>

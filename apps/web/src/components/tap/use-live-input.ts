@@ -7,13 +7,15 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import type { AcquisitionSettings } from '@resonote/contracts';
 import workletUrl from '../../lib/live/capture-worklet.ts?worker&url';
-import { recordFrames, type CaptureOptions, type MeterReading, type Slope } from '../../lib/live/capture-engine.ts';
+import { armingFailure, contextNotRunning, tooFewChannels } from '../../lib/live/arming-words.ts';
+import { DropLedger, streamBreak, trackDroppedFrames } from '../../lib/live/stream-break.ts';
+import { recordFrames, SILENT_RUN_FRAMES, type CaptureOptions, type MeterReading, type Slope } from '../../lib/live/capture-engine.ts';
 import type { WorkletIn, WorkletOut } from '../../lib/live/capture-worklet.ts';
 import { encodeFloat32Wav } from '../../lib/live/wav.ts';
 import * as outbox from '../../lib/live/outbox.ts';
 import { ApiError } from '../../lib/api.ts';
 import type { Channel } from '../../lib/campaign-data.ts';
-import { hitKeys, invalidateTestData, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary } from '../../lib/hits-data.ts';
+import { hitKeys, invalidateTestData, markApplied, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary } from '../../lib/hits-data.ts';
 import { isTransient, retryDelayMs, type Waiting } from '../../lib/retry.ts';
 
 export interface Scaling {
@@ -37,7 +39,10 @@ export interface Capture {
   key: string;
   entryLabel: string;
   capturedAt: number;
-  state: 'checking' | 'waiting' | 'stored' | 'refused';
+  /** Stream frame of the trigger (this session's captures only). */
+  triggerFrame?: number;
+  /** interrupted: the input stream broke inside the record; it was not sent (hit again). */
+  state: 'checking' | 'waiting' | 'stored' | 'refused' | 'interrupted';
   /** Largest |sample| per channel over full scale, for the overload badge of the hit. */
   peaks: number[];
   hit?: HitSummary;
@@ -68,12 +73,12 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
   const [device, setDevice] = useState<DeviceInfo | null>(null);
   const [engine, setEngine] = useState<EngineState>('off');
   const [meter, setMeter] = useState<MeterReading | null>(null);
-  const [frames, setFrames] = useState({ seen: 0, dropped: 0 });
+  const [frames, setFrames] = useState({ seen: 0, dropped: 0, upstream: null as number | null, interrupted: 0 });
   const [captures, setCaptures] = useState<Capture[]>([]);
   const [pending, setPending] = useState(0);
   const [waitingFor, setWaitingFor] = useState<Waiting | null>(null);
   const [error, setError] = useState<string | null>(null);
-  const run = useRef<{ ctx: AudioContext; stream: MediaStream; node: AudioWorkletNode; plan: LivePlan; taken: number } | null>(null);
+  const run = useRef<{ ctx: AudioContext; stream: MediaStream; node: AudioWorkletNode; plan: LivePlan; taken: number; interrupted: number } | null>(null);
   const sending = useRef(false);
   const onStoredRef = useRef(onStored);
   onStoredRef.current = onStored;
@@ -92,19 +97,22 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
 
   const patch = (key: string, change: Partial<Capture>) => setCaptures((list) => list.map((c) => (c.key === key ? { ...c, ...change } : c)));
 
+  // The verdict comes from the POST answer alone; the entry's full FRF (every channel) is fetched
+  // once by `refresh` after the verdict is painted, so the plot's redraw and the refetches never
+  // delay it. markApplied: the campaign event of this same change then refetches nothing again.
   const apply = useCallback(
     (campaignId: string, entryId: string, answer: HitsAnswer) => {
-      if (answer.frf) client.setQueryData(hitKeys.frf(campaignId, entryId, 'accelerance'), answer.frf);
+      markApplied(answer.hits);
       client.setQueryData<EntryHits>(hitKeys.entryHits(campaignId, entryId), (old) => {
         if (!old) return old;
         const byId = new Map(old.hits.map((h) => [h.id, h]));
         for (const h of answer.hits) byId.set(h.id, { ...byId.get(h.id), ...h } as HitSummary);
         return { ...old, entry: { ...old.entry, status: answer.entry.status }, hits: [...byId.values()].sort((a, b) => a.sequence - b.sequence) };
       });
-      void invalidateTestData(client, campaignId);
     },
     [client],
   );
+  const refresh = useCallback((campaignId: string) => void invalidateTestData(client, campaignId), [client]);
 
   /** Sends the campaign's waiting hits one at a time, oldest first, until none is left. */
   const drain = useCallback(
@@ -123,16 +131,37 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
           form.append('kind', 'accelerance');
           form.append('file', new Blob([item.wav], { type: 'audio/wav' }), `live-${new Date(item.capturedAt).toISOString()}.wav`);
           try {
+            const sentAt = performance.now();
+            // Capture → sent: the WAV encoding and the IndexedDB write (and any hit before it in the queue).
+            performance.measure('resonote-live-keep', { start: item.capturedAt - performance.timeOrigin, end: sentAt });
             const answer = await uploadRecording(`/campaigns/${campaignId}/schedule/${item.entryId}/hits`, form, item.key, () => {});
+            performance.measure('resonote-live-post', { start: sentAt, end: performance.now() });
             await outbox.drop(item.id!);
             attempt = 0;
             setWaitingFor(null);
             apply(campaignId, item.entryId, answer);
             patch(item.key, { state: 'stored', hit: answer.hits[0], message: answer.hits.length === 0 ? answer.skipped.map((s) => s.reason).join('; ') || 'no hit found in the record' : undefined });
-            // Capture → verdict on screen (two frames later it is painted), read by tests/bench/live-latency.ts.
+            // Capture → verdict on screen (two frames later it is painted), read by tests/bench/live-latency.ts;
+            // then the FRF and the rest are refetched and redrawn.
             const start = item.capturedAt - performance.timeOrigin;
-            requestAnimationFrame(() => requestAnimationFrame(() => performance.measure('resonote-live-verdict', { start, end: performance.now() })));
+            const applied = performance.now();
             onStoredRef.current(answer);
+            let refreshed = false;
+            const refreshOnce = () => {
+              if (refreshed) return;
+              refreshed = true;
+              refresh(item.campaignId);
+            };
+            requestAnimationFrame(() =>
+              requestAnimationFrame(() => {
+                const end = performance.now();
+                performance.measure('resonote-live-paint', { start: applied, end });
+                performance.measure('resonote-live-verdict', { start, end });
+                refreshOnce();
+              }),
+            );
+            // A tab in the background paints no frames: refresh anyway.
+            setTimeout(refreshOnce, 1000);
           } catch (err) {
             if (isTransient(err)) {
               attempt += 1;
@@ -152,7 +181,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
         setWaitingFor(null);
       }
     },
-    [apply],
+    [apply, refresh],
   );
 
   const stop = useCallback(async () => {
@@ -178,7 +207,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
       s.getTracks().forEach((t) => t.stop());
       await refreshDevices();
     } catch (err) {
-      setError(`The browser gave no access to the audio input: ${err instanceof Error ? err.message : String(err)}`);
+      setError(armingFailure(err));
     }
   }, [refreshDevices]);
 
@@ -188,14 +217,34 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
       setError(null);
       setEngine('starting');
       const n = neededChannels(plan.channels);
+      let opened: MediaStream | null = null;
       try {
         const stream = await navigator.mediaDevices.getUserMedia({
           audio: { deviceId: deviceId ? { exact: deviceId } : undefined, channelCount: { ideal: n }, echoCancellation: false, noiseSuppression: false, autoGainControl: false },
         });
-        const track = stream.getAudioTracks()[0]!;
+        opened = stream;
+        const track = stream.getAudioTracks()[0];
+        if (!track) throw new DOMException('the stream has no audio track', 'NotFoundError');
         const got = track.getSettings();
+        if (got.channelCount !== undefined && got.channelCount < n) {
+          stream.getTracks().forEach((t) => t.stop());
+          setEngine('off');
+          setDevice({ label: track.label || 'audio input', trackRateHz: got.sampleRate ?? null, trackChannels: got.channelCount, contextRateHz: got.sampleRate ?? 0 });
+          setError(tooFewChannels(got.channelCount, n));
+          return;
+        }
         const ctx = new AudioContext(got.sampleRate ? { sampleRate: got.sampleRate, latencyHint: 'interactive' } : { latencyHint: 'interactive' });
         await ctx.audioWorklet.addModule(workletUrl);
+        // resume() stays pending where the browser holds audio back; 3 s is ample for a running one.
+        if (ctx.state !== 'running') await Promise.race([ctx.resume().catch(() => undefined), new Promise((r) => setTimeout(r, 3000))]);
+        if (ctx.state !== 'running') {
+          stream.getTracks().forEach((t) => t.stop());
+          const state = ctx.state;
+          await ctx.close().catch(() => undefined);
+          setEngine('off');
+          setError(contextNotRunning(state));
+          return;
+        }
         const fs = ctx.sampleRate;
         setDevice({ label: track.label || 'audio input', trackRateHz: got.sampleRate ?? null, trackChannels: got.channelCount ?? null, contextRateHz: fs });
         const s = plan.settings;
@@ -221,14 +270,22 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
         const mute = ctx.createGain();
         mute.gain.value = 0;
         source.connect(node).connect(mute).connect(ctx.destination);
-        const current = { ctx, stream, node, plan, taken: 0 };
+        const current = { ctx, stream, node, plan, taken: 0, interrupted: 0 };
         run.current = current;
+        // Upstream drops (docs/methods.md#stream-break): the track's counter against worklet frames.
+        const ledger = new DropLedger(options.recordSamples + Math.round(fs));
+        // Frames reach the worklet some time after the source counted a drop among them: a reading
+        // counts as "before the record" only this long before its first frame (common practice: 0.2 s,
+        // far above the interactive path's 10–40 ms).
+        const marginFrames = Math.round(0.2 * fs);
         node.port.onmessage = (e: MessageEvent<WorkletOut>) => {
           const m = e.data;
           if (run.current !== current) return;
           if (m.type === 'meter') {
+            const upstream = trackDroppedFrames(track);
+            if (upstream !== null) ledger.add({ frame: m.framesSeen, dropped: upstream });
             setMeter(m);
-            setFrames({ seen: m.framesSeen, dropped: m.droppedFrames });
+            setFrames({ seen: m.framesSeen, dropped: m.droppedFrames, upstream, interrupted: current.interrupted });
             setEngine(m.state);
           } else if (m.type === 'grab') {
             grabs.current.get(m.id)?.(m.channels);
@@ -236,6 +293,15 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
           } else if (m.type === 'record') {
             const p = current.plan;
             if (p.stopAfter !== null && current.taken >= p.stopAfter) return;
+            const upstreamNow = trackDroppedFrames(track);
+            const broken = streamBreak({ lostInWorklet: m.lostFrames, silentRun: m.silentRun, droppedUpstream: upstreamNow === null ? 0 : ledger.droppedSince(m.startFrame - marginFrames, upstreamNow) }, SILENT_RUN_FRAMES, fs);
+            if (broken) {
+              // Not a measurement of one hit: not sent, counted, and the next hit is already armed.
+              current.interrupted += 1;
+              setFrames((f) => ({ ...f, interrupted: current.interrupted }));
+              setCaptures((list) => [{ key: `interrupted-${m.triggerFrame}`, entryLabel: p.entryLabel, capturedAt: Date.now(), triggerFrame: m.triggerFrame, state: 'interrupted' as const, peaks: sorted.map((c) => m.peaks[c.channel - 1] ?? 0), message: `input stream interrupted — hit again (${broken}; not sent)` }, ...list].slice(0, 30));
+              return;
+            }
             current.taken += 1;
             const capturedAt = Date.now();
             const volts = sorted.map((c) => {
@@ -246,7 +312,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
               return out;
             });
             const key = `live-${newIdempotencyKey()}`;
-            setCaptures((list) => [{ key, entryLabel: p.entryLabel, capturedAt, state: 'checking' as const, peaks: sorted.map((c) => m.peaks[c.channel - 1] ?? 0) }, ...list].slice(0, 30));
+            setCaptures((list) => [{ key, entryLabel: p.entryLabel, capturedAt, triggerFrame: m.triggerFrame, state: 'checking' as const, peaks: sorted.map((c) => m.peaks[c.channel - 1] ?? 0) }, ...list].slice(0, 30));
             void (async () => {
               const wav = await encodeFloat32Wav(volts, Math.round(fs)).arrayBuffer();
               await outbox.keep({ key, campaignId: p.campaignId, entryId: p.entryId, entryLabel: p.entryLabel, capturedAt, sampleRateHz: fs, wav });
@@ -256,8 +322,9 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
           }
         };
       } catch (err) {
+        if (!run.current) opened?.getTracks().forEach((t) => t.stop());
         setEngine('off');
-        setError(`The live input could not start: ${err instanceof Error ? err.message : String(err)}`);
+        setError(armingFailure(err));
       }
     },
     [drain, stop],

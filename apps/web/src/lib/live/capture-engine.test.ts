@@ -89,7 +89,8 @@ describe('live capture engine', () => {
     expect(meters[0]!.headroomDb[1]).toBeCloseTo(6.0206, 4);
   });
 
-  it('counts every frame of a long 96 kHz × 4-channel run and finds every hit at its frame', () => {
+  // A correctness test, not a speed test (tests/bench/live-samples.ts prints the speed): a loaded machine may need long.
+  it('counts every frame of a long 96 kHz × 4-channel run and finds every hit at its frame', { timeout: 120_000 }, () => {
     const fs = 96_000;
     const opts = { ...base, channels: 4, sampleRateHz: fs, ...recordFrames(fs, 0.5, 0.01), meterFrames: 4800 };
     const engine = new CaptureEngine(opts);

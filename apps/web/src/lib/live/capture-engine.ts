@@ -35,6 +35,14 @@ export interface CapturedRecord {
   channels: Float32Array[];
   /** Largest |sample| per channel within the record, digital units. */
   peaks: number[];
+  /**
+   * Breaks in the input stream inside the record (docs/methods.md#stream-break): frames reported
+   * lost by `markBreak` while the record was open, and the longest run of frames in which every
+   * channel was exactly 0 (what a starved stream delivers instead of samples). A record with
+   * either is not a measurement of one hit and must not be uploaded as one.
+   */
+  lostFrames: number;
+  silentRun: number;
 }
 
 export interface MeterReading {
@@ -49,6 +57,13 @@ export interface MeterReading {
 }
 
 export type CaptureState = 'armed' | 'recording';
+
+/**
+ * A run of this many frames with every channel exactly 0 inside a record is a break in the stream,
+ * not a signal: a live interface's noise spans several LSBs, and a sensor with a hammer attached is
+ * never digital silence for 32 frames (0.7 ms at 44.1 kHz) while it rings. Common practice.
+ */
+export const SILENT_RUN_FRAMES = 32;
 
 /** Peak at or above this is "within 1 dB of full scale" (10^(−1/20)). */
 export const OVERLOAD_PEAK = 10 ** (-1 / 20);
@@ -94,6 +109,12 @@ export class CaptureEngine {
   private readonly levelUnits: number;
   private readonly rearmUnits: number;
   private readonly sign: number;
+  private recordLost = 0;
+  private zeroRun = 0;
+  private recordSilentRun = 0;
+  /** Frame after the last run of all-zero frames, and its length. */
+  private lastRunEnd = -1;
+  private lastRunLength = 0;
 
   constructor(options: CaptureOptions) {
     check(options);
@@ -116,6 +137,21 @@ export class CaptureEngine {
   }
 
   /**
+   * Tells the engine that `frames` frames of the stream were lost before the next block (the audio
+   * thread skipped them, or the source reported them dropped). A record open now, or starting
+   * within its pre-trigger of now, is marked broken.
+   */
+  markBreak(frames: number): void {
+    if (!(frames > 0)) return;
+    this.pendingBreak += frames;
+  }
+
+  private pendingBreak = 0;
+  private lostBeforeNext = 0;
+  /** Frame up to which a break still reaches into a record's pre-trigger. */
+  private brokenUntil = -1;
+
+  /**
    * Feeds one block (one array per channel, all of the same length). Calls `onRecord` for every
    * record completed inside the block and `onMeter` at every `meterFrames` frames.
    */
@@ -125,15 +161,31 @@ export class CaptureEngine {
     const frames = block[0]!.length;
     for (let c = 1; c < channels; c++) if (block[c]!.length !== frames) throw new RangeError(`channel ${c} has ${block[c]!.length} frames, channel 0 has ${frames}`);
     const force = block[forceChannel]!;
+    if (this.pendingBreak > 0) {
+      if (this.recordStart >= 0) this.recordLost += this.pendingBreak;
+      // A record that starts later but whose pre-trigger reaches back over the break holds it too.
+      this.brokenUntil = this.frame + preTriggerSamples;
+      this.lostBeforeNext = this.pendingBreak;
+      this.pendingBreak = 0;
+    }
     for (let i = 0; i < frames; i++) {
       const at = this.frame % this.cap;
+      let silent = true;
       for (let c = 0; c < channels; c++) {
         const v = block[c]![i]!;
         this.ring[c]![at] = v;
+        if (v !== 0) silent = false;
         const a = v < 0 ? -v : v;
         if (a > this.meterPeaks[c]!) this.meterPeaks[c] = a;
         if (this.recordStart >= 0 && a > this.recordPeaks[c]!) this.recordPeaks[c] = a;
       }
+      if (silent) this.zeroRun += 1;
+      else if (this.zeroRun > 0) {
+        this.lastRunEnd = this.frame;
+        this.lastRunLength = this.zeroRun;
+        this.zeroRun = 0;
+      }
+      if (this.recordStart >= 0 && this.zeroRun > this.recordSilentRun) this.recordSilentRun = this.zeroRun;
       const f = this.sign * force[i]!;
       if (this.recordStart < 0) {
         if (!this.rearmed && f < this.rearmUnits) this.rearmed = true;
@@ -142,6 +194,9 @@ export class CaptureEngine {
           this.recordStart = this.frame - preTriggerSamples;
           this.recordTrigger = this.frame;
           this.rearmed = false;
+          this.recordLost = this.frame < this.brokenUntil ? this.lostBeforeNext : 0;
+          // A silent run that ended inside the pre-trigger is inside the record.
+          this.recordSilentRun = this.lastRunEnd > this.recordStart ? Math.min(this.lastRunLength, this.lastRunEnd - this.recordStart) : 0;
           for (let c = 0; c < channels; c++) {
             let peak = 0;
             for (let k = this.recordStart; k <= this.frame; k++) {
@@ -164,7 +219,9 @@ export class CaptureEngine {
           copy.set(r.subarray(0, from), this.cap - from);
           return copy;
         });
-        onRecord({ startFrame: this.recordStart, triggerFrame: this.recordTrigger, channels: out, peaks: [...this.recordPeaks] });
+        onRecord({ startFrame: this.recordStart, triggerFrame: this.recordTrigger, channels: out, peaks: [...this.recordPeaks], lostFrames: this.recordLost, silentRun: this.recordSilentRun });
+        this.recordLost = 0;
+        this.recordSilentRun = 0;
         this.recordStart = -1;
         this.recordTrigger = -1;
         this.recordPeaks.fill(0);

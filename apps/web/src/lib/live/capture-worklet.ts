@@ -15,7 +15,7 @@ declare class AudioWorkletProcessor {
 
 export type WorkletIn = { type: 'grab'; frames: number; id: number } | { type: 'stop' };
 export type WorkletOut =
-  | { type: 'record'; startFrame: number; triggerFrame: number; channels: Float32Array[]; peaks: number[] }
+  | { type: 'record'; startFrame: number; triggerFrame: number; channels: Float32Array[]; peaks: number[]; lostFrames: number; silentRun: number }
   | { type: 'meter'; frame: number; peaks: number[]; headroomDb: number[]; overload: boolean[]; state: 'armed' | 'recording'; framesSeen: number; droppedFrames: number }
   | { type: 'grab'; id: number; channels: Float32Array[] };
 
@@ -40,9 +40,14 @@ class LiveCaptureProcessor extends AudioWorkletProcessor {
     const input = inputs[0];
     // The audio thread calls once per render quantum (128 frames); a gap in currentFrame between
     // two calls is frames it never rendered. Quanta before the stream delivers have no channels.
-    if (this.lastFrame >= 0 && currentFrame - this.lastFrame > 128) this.dropped += currentFrame - this.lastFrame - 128;
+    const skipped = this.lastFrame >= 0 ? currentFrame - this.lastFrame - 128 : 0;
     this.lastFrame = currentFrame;
     if (!input || input.length === 0) return true;
+    // Skipped quanta once the stream delivers are a break in it (docs/methods.md#stream-break).
+    if (skipped > 0) {
+      this.dropped += skipped;
+      this.engine.markBreak(skipped);
+    }
     const frames = input[0]!.length;
     const n = this.engine.options.channels;
     const block = Array.from({ length: n }, (_, c) => input[c] ?? new Float32Array(frames));

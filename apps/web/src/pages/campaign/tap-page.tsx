@@ -239,6 +239,8 @@ export function TapPage() {
           </div>
         </div>
         <FlagReasons reasons={reasons} compact />
+        {/* The live input's state and level meters while it captures (components/tap/live-panel.tsx). */}
+        <div id="tap-live-strip" className="empty:hidden" />
         {otherFlagged.length > 0 && (
           <p className="truncate text-xs text-[var(--muted)]" data-testid="other-flagged">
             <span className="font-semibold text-bad">⚑ Flagged elsewhere:</span>{' '}
