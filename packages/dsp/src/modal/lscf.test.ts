@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { classifyPoles, pickStablePoles, stabilizationDiagram, type PoleForStability } from './lscf.ts';
+import { classifyPoles, pickStablePoles, type PoleForStability } from './stability.ts';
+import { stabilizationDiagram } from './lscf.ts';
 import { axis, loadModalFixture, threeDof, twoDof63 } from '../../test/modal-systems.ts';
 import { closeModes } from '../../test/close-modes.ts';
 import type { Complex } from '../types.ts';

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { mac } from '../assurance.ts';
-import { pickStablePoles, stabilizationDiagram } from './lscf.ts';
+import { pickStablePoles } from './stability.ts';
+import { stabilizationDiagram } from './lscf.ts';
 import { estimateShapes, synthesize } from './lsfd.ts';
 import { axis, loadModalFixture, maxRelDiff, peakRelDiff, threeDof, twoDof63 } from '../../test/modal-systems.ts';
 
