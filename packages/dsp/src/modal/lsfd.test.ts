@@ -55,6 +55,7 @@ describe('estimateShapes and synthesize', () => {
       [-s, 0, s],
       [0.5, -s, 0.5],
     ];
+    expect(model.modes).toHaveLength(3);
     model.modes.forEach((m, r) => {
       expect(mac(m.shape, exact[r])).toBeGreaterThanOrEqual(0.999);
       const wd = sys.threeDof73d.lambdaIm[r];
