@@ -1,17 +1,16 @@
 // Personal API tokens, armed DOFs and resampled uploads (issue 16, the watched-folder bridge)
 // against the real API and database.
 import { createHash } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
-import { createRng, hitSeries, modelFrf, steelBar } from '@resonote/sim';
+import { modelFrf, steelBar } from '@resonote/sim';
 import { apiToken, hit, originalRecording } from '@resonote/db/schema';
-import { encodeWav } from '@resonote/api/recording';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import { PASSWORD, signUp } from '../support/accounts.ts';
 import { invite, type Person } from '../support/campaign.ts';
-import { barCampaign, barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { atRate, barHitsWav, simulateBarHits } from '../support/bar-hits.ts';
+import { barCampaign, useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 let app: TestApp & { baseUrl: string };
 let lead: Person;
@@ -25,14 +24,10 @@ const fs = BAR_SETTINGS.sampleRateHz;
 const n = fs * BAR_SETTINGS.recordLengthS;
 const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof === excitation)!;
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE, { UPLOAD_LIMIT_MB: '8' }, { listen: true });
-  ({ lead, engineer, viewer, rig } = await barCrew(app));
+useBarRig(async (r) => {
+  ({ app, lead, engineer, viewer, rig } = r);
   otherCampaignId = (await barCampaign(app, lead, { name: 'Second bar' })).campaignId;
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+}, { UPLOAD_LIMIT_MB: '8' }, { listen: true });
 
 async function makeToken(person: Person, body: Record<string, unknown>) {
   const res = await person.agent.post('/api/account/tokens').send({ name: 'bridge on the test PC', campaignId: rig.campaignId, ...body });
@@ -40,21 +35,8 @@ async function makeToken(person: Person, body: Record<string, unknown>) {
 }
 const bearer = (secret: string) => request(app.handle.app).get(`/api/campaigns/${rig.campaignId}/schedule`).set('authorization', `Bearer ${secret}`);
 
-/** Volts as the front end would record them (2.25 mV/N hammer, 10.2 mV/(m/s²) accelerometer). */
-function hitsWav(excitationDof: string, rateHz: number, seed: number, count = 3) {
-  const samples = Math.round(rateHz * BAR_SETTINGS.recordLengthS);
-  // 50 N, 1 ms contact, low noise: as in tests/api/hits.test.ts.
-  const hits = hitSeries(bar.model, { excitationDof, responseDofs: ['B21:+Z'], fs: rateHz, samples, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500 }, count, createRng(seed), { doubleHitProbability: 0, overloadProbability: 0 });
-  const force = new Float64Array(samples * count);
-  const accel = new Float64Array(samples * count);
-  hits.forEach((h, i) => {
-    for (let k = 0; k < samples; k++) {
-      force[i * samples + k] = (h.force[k]! * 2.25) / 1000;
-      accel[i * samples + k] = (h.responses[0]![k]! * 10.2) / 1000;
-    }
-  });
-  return encodeWav([force, accel], rateHz, 'float32');
-}
+/** Volts as the front end would record them (the rig's 2.25 mV/N hammer, 10.2 mV/(m/s²) accelerometer), at `rateHz`. */
+const hitsWav = (excitationDof: string, rateHz: number, seed: number, count = 3) => barHitsWav(rig, simulateBarHits(excitationDof, count, seed, atRate(rateHz)), 'float32', rateHz);
 
 describe('personal API tokens', () => {
   let secret: string;

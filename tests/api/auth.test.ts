@@ -3,9 +3,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
-import { capturedMail } from '@resonote/db/schema';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { PASSWORD, signUp } from '../support/accounts.ts';
+import { waitForMail } from '../support/campaign.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
@@ -16,16 +16,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await app?.close();
 });
-
-async function waitForMail(to: string, subject: RegExp) {
-  for (let i = 0; i < 50; i++) {
-    const rows = await app.handle.database.db.select().from(capturedMail);
-    const found = rows.find((m) => m.toAddresses.includes(to) && subject.test(m.subject));
-    if (found) return found;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error(`no mail to ${to} matching ${subject}`);
-}
 
 describe('sign-in and roles', () => {
   it('makes the first account on an empty instance its admin and later accounts members', async () => {
@@ -77,7 +67,7 @@ describe('sign-in and roles', () => {
     await signUp(app, 'Finn Forgetful', 'finn@lab.test');
     const ask = await app.agent().post('/api/auth/request-password-reset').send({ email: 'finn@lab.test', redirectTo: `${app.origin}/reset-password` });
     expect(ask.status).toBe(200);
-    const mail = await waitForMail('finn@lab.test', /Reset your Resonote password/);
+    const mail = await waitForMail(app, 'finn@lab.test', /Reset your Resonote password/);
     const link = mail.text.match(/https?:\/\/\S+/)?.[0];
     expect(link).toBeDefined();
     // The mailed link goes through the API, which redirects to the page with the token.
@@ -99,7 +89,7 @@ describe('sign-in and roles', () => {
 
   it('sends a confirmation mail on sign-up', async () => {
     await signUp(app, 'Gil Verified', 'gil@lab.test');
-    const mail = await waitForMail('gil@lab.test', /Confirm your e-mail address/);
+    const mail = await waitForMail(app, 'gil@lab.test', /Confirm your e-mail address/);
     expect(mail.text).toMatch(/verify-email\?token=/);
   });
 

@@ -5,40 +5,25 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
-import { createRng, hitSeries, steelBar } from '@resonote/sim';
 import { hit } from '@resonote/db/schema';
-import { encodeWav } from '@resonote/api/recording';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { atRate, barHitsWav, simulateBarHits } from '../support/bar-hits.ts';
+import { useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 let app: TestApp & { baseUrl: string };
 let lead: Person;
 let engineer: Person;
 let rig: RigCampaign;
-const bar = steelBar();
 const fs0 = BAR_SETTINGS.sampleRateHz;
 const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof === excitation)!;
 const hitsAt = async (excitation: string) => (await app.handle.database.db.select({ id: hit.id }).from(hit).where(eq(hit.scheduleEntryId, entry(excitation).id))).length;
 
-/** Hits as volts in a float32 WAV (2.25 mV/N hammer, 10.2 mV/(m/s²) accelerometer), as in tests/api/hits.test.ts. */
-function wav(excitationDof: string, seed: number, count: number, rateHz: number = fs0) {
-  const samples = Math.round(rateHz * BAR_SETTINGS.recordLengthS);
-  const hits = hitSeries(bar.model, { excitationDof, responseDofs: ['B21:+Z'], fs: rateHz, samples, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500 }, count, createRng(seed), { doubleHitProbability: 0, overloadProbability: 0 });
-  const force = new Float64Array(samples * count);
-  const accel = new Float64Array(samples * count);
-  hits.forEach((h, i) => {
-    for (let k = 0; k < samples; k++) {
-      force[i * samples + k] = (h.force[k]! * 2.25) / 1000;
-      accel[i * samples + k] = (h.responses[0]![k]! * 10.2) / 1000;
-    }
-  });
-  return encodeWav([force, accel], rateHz, 'float32');
-}
+/** Hits as volts in a float32 WAV (the rig's 2.25 mV/N hammer, 10.2 mV/(m/s²) accelerometer) at `rateHz`. */
+const wav = (excitationDof: string, seed: number, count: number, rateHz: number = fs0) => barHitsWav(rig, simulateBarHits(excitationDof, count, seed, atRate(rateHz)), 'float32', rateHz);
 
 /** Writes a file in eight pieces, each appended only after the bridge could have looked at the last. */
 async function writeInPieces(file: string, bytes: Buffer) {
@@ -95,15 +80,13 @@ class RunningBridge {
 let folder: string;
 let token: { id: string; secret: string };
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE, { UPLOAD_LIMIT_MB: '8' }, { listen: true });
-  ({ lead, engineer, rig } = await barCrew(app));
+useBarRig(async (r) => {
+  ({ app, lead, engineer, rig } = r);
   folder = fs.mkdtempSync(path.join(os.tmpdir(), 'resonote-bridge-'));
   const made = await engineer.agent.post('/api/account/tokens').send({ name: 'bridge test', campaignId: rig.campaignId });
   token = { id: made.body.token.id, secret: made.body.secret };
-}, 120_000);
+}, { UPLOAD_LIMIT_MB: '8' }, { listen: true });
 afterAll(async () => {
-  await app?.close();
   if (folder) fs.rmSync(folder, { recursive: true, force: true });
 });
 

@@ -2,7 +2,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { signUp } from '../support/accounts.ts';
-import { invite, waitForMail, type Person } from '../support/campaign.ts';
+import { staffedCampaign, waitForMail, type Person } from '../support/campaign.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
@@ -15,17 +15,8 @@ let campaignId: string;
 
 beforeAll(async () => {
   app = await startTestApp(API_TEMPLATE);
-  admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
-  lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
-  engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
-  viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
+  ({ campaignId, admin, lead, engineer, viewer } = await staffedCampaign(app, { name: 'Pump skid baseplate', structure: 'Baseplate, skid 3', client: 'Northwind Pumps (fictional)', testType: 'roving-hammer' }));
   stranger = await signUp(app, 'Sam Stranger', 'sam@lab.test');
-  const made = await admin.agent.post('/api/campaigns').send({ name: 'Pump skid baseplate', structure: 'Baseplate, skid 3', client: 'Northwind Pumps (fictional)', testType: 'roving-hammer' });
-  expect(made.status).toBe(201);
-  campaignId = made.body.campaign.id;
-  await invite(app, admin, campaignId, lead, 'lead');
-  await invite(app, admin, campaignId, engineer, 'engineer');
-  await invite(app, admin, campaignId, viewer, 'viewer');
 });
 afterAll(async () => {
   await app?.close();

@@ -2,7 +2,7 @@
 // averaging code (packages/dsp FRF_ALGORITHM_VERSION): a row written by older code is recomputed,
 // never served.
 import { createHash } from 'node:crypto';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { FRF_ALGORITHM_VERSION } from '@resonote/dsp';
 import { createRng, hitSeries, steelBar } from '@resonote/sim';
@@ -11,22 +11,15 @@ import { openDb } from '@resonote/db/client';
 import { encodeWav } from '@resonote/api/recording';
 import { entryInputHash, entryResult } from '../../apps/api/src/hits/entry-result.ts';
 import { flushResultWrites } from '../../apps/api/src/hits/result-cache.ts';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 let app: TestApp;
 let engineer: Person;
 let rig: RigCampaign;
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ engineer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, engineer, rig } = r));
 
 describe('an entry without accepted hits', () => {
   it('answers its FRF request with the state in words, not an error', async () => {

@@ -187,6 +187,7 @@ describe('the plan proposal on a simply supported beam', () => {
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ pointsAdded: 5, pointsUpdated: 0, referenceDofs: [proposal.reference.dof], schedule: { added: 5, removed: 0 } });
     const { points } = (await crew.viewer.agent.get(`${base()}/points`)).body;
+    expect(proposal.kept).toHaveLength(5);
     for (const k of proposal.kept) {
       const p = points.find((q: { label: string }) => `${q.label}:+Z` === k.dof);
       expect(p).toMatchObject({ x: k.x, y: 0, z: 0, directions: ['+Z'] });

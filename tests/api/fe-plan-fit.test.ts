@@ -3,9 +3,9 @@
 // the force), and accepting a plan with another reference moves the accelerometer channel there, so
 // the new entries' hits are recorded at the new reference and a default fit takes only those.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { seedDemo, DEMO_PASSWORD, SKID_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { SKID_CAMPAIGN } from '@resonote/api/seed';
+import type { TestApp } from '../support/app.ts';
+import { campaignIdByName, signInDemo, startSeededApp } from '../support/demo-api.ts';
 
 let app: TestApp;
 let lead: ReturnType<TestApp['agent']>;
@@ -21,12 +21,9 @@ interface Entry {
 }
 
 beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  await seedDemo(app.handle, { log: () => undefined });
-  lead = app.agent();
-  await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  const campaigns = (await lead.get('/api/campaigns')).body.campaigns as { id: string; name: string }[];
-  skidId = campaigns.find((c) => c.name === SKID_CAMPAIGN)!.id;
+  app = await startSeededApp();
+  lead = await signInDemo(app, 'lead@demo.resonote.local');
+  skidId = await campaignIdByName(lead, SKID_CAMPAIGN);
   modelId = (await lead.get(`/api/campaigns/${skidId}/fe-models`)).body.models[0].id;
 }, 120_000);
 afterAll(async () => {

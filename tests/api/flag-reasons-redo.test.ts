@@ -1,15 +1,14 @@
 // Why a DOF is flagged (packages/contracts/src/flag-reasons.ts) in every answer that carries its
 // status, and the redo of a DOF (routes/redo.ts): the old hits kept and set aside with who and why,
 // a new set of hits averaged on its own, bad input refused with 4xx.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
-import { createRng, hitSeries, steelBar } from '@resonote/sim';
+import { createRng } from '@resonote/sim';
 import { auditEvent, hit } from '@resonote/db/schema';
-import { encodeWav } from '@resonote/api/recording';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCampaign, barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { barHitsWav, simulateBarHits } from '../support/bar-hits.ts';
+import { barCampaign, useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 let app: TestApp;
 let lead: Person;
@@ -17,14 +16,10 @@ let engineer: Person;
 let viewer: Person;
 let rig: RigCampaign;
 
-const bar = steelBar();
 const fs = BAR_SETTINGS.sampleRateHz;
 const n = BAR_SETTINGS.sampleRateHz * BAR_SETTINGS.recordLengthS;
 
-function simulate(excitationDof: string, count: number, seed: number) {
-  const options = { excitationDof, responseDofs: ['B21:+Z'], fs, samples: n, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500 };
-  return hitSeries(bar.model, options, count, createRng(seed), { doubleHitProbability: 0, overloadProbability: 0 });
-}
+const simulate = (excitationDof: string, count: number, seed: number) => simulateBarHits(excitationDof, count, seed);
 
 /** Hits whose response is decaying noise unrelated to the force: they pass the hit checks, but γ² stays low. */
 function unrelated(excitationDof: string, count: number, seed: number) {
@@ -34,30 +29,14 @@ function unrelated(excitationDof: string, count: number, seed: number) {
   return hits;
 }
 
-function toWav(hits: ReturnType<typeof simulate>) {
-  const force = new Float64Array(n * hits.length);
-  const accel = new Float64Array(n * hits.length);
-  hits.forEach((h, i) => {
-    for (let k = 0; k < n; k++) {
-      force[i * n + k] = (h.force[k]! * rig.hammerSensitivity) / 1000;
-      accel[i * n + k] = (h.responses[0]![k]! * rig.accelSensitivity) / 1000;
-    }
-  });
-  return encodeWav([force, accel], fs, 'float32', 1);
-}
+const toWav = (hits: ReturnType<typeof simulate>) => barHitsWav(rig, hits);
 
 const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof === excitation)!;
 const base = () => `/api/campaigns/${rig.campaignId}`;
 const upload = (who: Person, entryId: string, key: string, wav: Buffer) => who.agent.post(`${base()}/schedule/${entryId}/hits`).set('idempotency-key', key).attach('file', wav, `${key}.wav`);
 const scheduleEntry = async (id: string) => ((await viewer.agent.get(`${base()}/schedule`)).body.entries as { id: string; status: string; version: number; acceptedHits: number; flagReasons: { code: string; message: string; value: number; threshold: number; advice: string }[] }[]).find((e) => e.id === id)!;
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ lead, engineer, viewer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, lead, engineer, viewer, rig } = r));
 
 describe('flag reasons', () => {
   it('says why an entry with all its good hits is flagged: the mean coherence over the band, the threshold, and what to try', async () => {

@@ -3,8 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { hit, point } from '@resonote/db/schema';
 import { startTestApp, type TestApp } from '../support/app.ts';
-import { signUp } from '../support/accounts.ts';
-import { invite, type Person } from '../support/campaign.ts';
+import { staffedCampaign, type Person } from '../support/campaign.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
@@ -19,14 +18,7 @@ const countPoints = async () => (await app.handle.database.db.select().from(poin
 
 beforeAll(async () => {
   app = await startTestApp(API_TEMPLATE);
-  admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
-  lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
-  engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
-  viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
-  campaignId = (await admin.agent.post('/api/campaigns').send({ name: 'Calibration bar', structure: 'Free-free steel bar 1000 × 40 × 10 mm' })).body.campaign.id;
-  await invite(app, admin, campaignId, lead, 'lead');
-  await invite(app, admin, campaignId, engineer, 'engineer');
-  await invite(app, admin, campaignId, viewer, 'viewer');
+  ({ campaignId, admin, lead, engineer, viewer } = await staffedCampaign(app, { name: 'Calibration bar', structure: 'Free-free steel bar 1000 × 40 × 10 mm' }));
 });
 afterAll(async () => {
   await app?.close();

@@ -1,16 +1,16 @@
 // The test day on the server: intake, verdicts, averaged FRFs, schedule status, overrides,
 // idempotency, bad input — against the real API and database.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { averageFrf } from '@resonote/dsp';
-import { createRng, hitSeries, modelFrf, simulateHit, steelBar } from '@resonote/sim';
+import { createRng, modelFrf, steelBar } from '@resonote/sim';
 import { hit } from '@resonote/db/schema';
 import { checksAnswerSchema, entryFrfAnswerSchema, hitDetailSchema, hitsAnswerSchema } from '@resonote/contracts';
 import { encodeWav } from '@resonote/api/recording';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCampaign, barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { barHitsWav, simulateBarHits } from '../support/bar-hits.ts';
+import { barCampaign, useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 let app: TestApp;
 let lead: Person;
@@ -22,36 +22,13 @@ const bar = steelBar();
 const fs = BAR_SETTINGS.sampleRateHz;
 const n = BAR_SETTINGS.sampleRateHz * BAR_SETTINGS.recordLengthS;
 
-function simulate(excitationDof: string, count: number, seed: number, extra: Partial<Parameters<typeof hitSeries>[1]> = {}) {
-  // 50 N with a 1 ms contact (medium tip): the light bar's response stays inside the 500 m/s² range.
-  const options = { excitationDof, responseDofs: ['B21:+Z'], fs, samples: n, preTriggerS: 0.0105, peakForceN: 50, pulseWidthS: 0.001, forceNoiseN: 0.02, responseNoise: 0.02, forceRangeN: 2000, responseRangeMs2: 500, ...extra };
-  if (extra.doubleHit) return Array.from({ length: count }, () => simulateHit(bar.model, options, createRng(seed)));
-  return hitSeries(bar.model, options, count, createRng(seed), { doubleHitProbability: 0, overloadProbability: 0 });
-}
-
-/** Volts as the front end would record them: force × 2.25 mV/N, acceleration × 10.2 mV/(m/s²). */
-function toWav(hits: ReturnType<typeof simulate>, format: 'float32' | 'pcm24' = 'float32') {
-  const force = new Float64Array(n * hits.length);
-  const accel = new Float64Array(n * hits.length);
-  hits.forEach((h, i) => {
-    for (let k = 0; k < n; k++) {
-      force[i * n + k] = (h.force[k]! * rig.hammerSensitivity) / 1000;
-      accel[i * n + k] = (h.responses[0]![k]! * rig.accelSensitivity) / 1000;
-    }
-  });
-  return encodeWav([force, accel], fs, format, format === 'float32' ? 1 : 10);
-}
+const simulate = simulateBarHits;
+const toWav = (hits: ReturnType<typeof simulate>, format: 'float32' | 'pcm24' = 'float32') => barHitsWav(rig, hits, format);
 
 const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof === excitation)!;
 const hitsOf = async (entryId: string) => app.handle.database.db.select().from(hit).where(eq(hit.scheduleEntryId, entryId));
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE, { UPLOAD_LIMIT_MB: '3' });
-  ({ lead, engineer, viewer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, lead, engineer, viewer, rig } = r), { UPLOAD_LIMIT_MB: '3' });
 
 describe('hit intake and averaged FRFs', () => {
   it('splits a WAV of three hits by the trigger, judges each, and averages them exactly as packages/dsp does', async () => {

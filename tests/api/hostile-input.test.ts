@@ -5,16 +5,15 @@
 // shape that names what was wrong, and stores nothing — against the real API and database.
 import http from 'node:http';
 import net from 'node:net';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { count, eq } from 'drizzle-orm';
 import { strToU8, unzipSync, zipSync } from 'fflate';
 import { campaign, hit, noiseCheck, point } from '@resonote/db/schema';
 import { encodeWav } from '@resonote/api/recording';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
+import { useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 import { PASSWORD } from '../support/accounts.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp & { baseUrl: string };
 let lead: Person;
@@ -63,14 +62,10 @@ function expectRefusal(res: { status: number; body: unknown }, status: number, c
   expect(error.message).toMatch(message);
 }
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE, { HTTP_HEADERS_TIMEOUT_S: '1', HTTP_REQUEST_TIMEOUT_S: '2' }, { listen: true });
-  ({ lead, engineer, rig } = await barCrew(app));
+useBarRig(async (r) => {
+  ({ app, lead, engineer, rig } = r);
   barPoints = await pointRows();
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+}, { HTTP_HEADERS_TIMEOUT_S: '1', HTTP_REQUEST_TIMEOUT_S: '2' }, { listen: true });
 
 describe('values beyond any sensor are refused by channel, sample and value', () => {
   // Limits: 1000 × the settings' ranges (2000 N, 500 m/s²); sensitivities 2.25 mV/N and 10.2 mV/(m/s²) (tests/support/rig.ts).

@@ -1,25 +1,18 @@
 // Idempotency-Keys of recordings: a key is bound to its campaign, its schedule entry and the
 // SHA-256 of its request, and matched exactly. A retry replays; any other reuse is refused by name.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { hit, noiseCheck, uploadKey } from '@resonote/db/schema';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, type RigCampaign } from '../support/rig.ts';
+import { useBarRig, type RigCampaign } from '../support/rig.ts';
 import { barWav } from '../support/bar-recording.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 let app: TestApp;
 let engineer: Person;
 let rig: RigCampaign;
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ engineer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, engineer, rig } = r));
 
 const entry = (excitation: string) => rig.entries.find((e) => e.excitationDof === excitation)!;
 const hitsAt = async (excitation: string) => app.handle.database.db.select({ id: hit.id, sequence: hit.sequence }).from(hit).where(eq(hit.scheduleEntryId, entry(excitation).id));

@@ -1,10 +1,9 @@
 // The campaign's calibration policy (warn or block on an overdue or missing calibration, enforced
 // at hit intake) and the confirmation a large sensitivity change needs, against the real app and
 // PostgreSQL (design.md "Kit"; docs/methods.md#units).
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
-import { barCrew, type RigCampaign } from '../support/rig.ts';
+import { beforeAll, describe, expect, it } from 'vitest';
+import type { TestApp } from '../support/app.ts';
+import { useBarRig, type RigCampaign } from '../support/rig.ts';
 import type { Person } from '../support/campaign.ts';
 
 let app: TestApp;
@@ -16,13 +15,9 @@ let base: string;
 
 const dayFromToday = (days: number) => new Date(Date.now() + days * 86_400_000).toISOString().slice(0, 10);
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ lead, engineer, viewer, rig } = await barCrew(app));
+useBarRig(async (r) => {
+  ({ app, lead, engineer, viewer, rig } = r);
   base = `/api/campaigns/${rig.campaignId}`;
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
 });
 
 const entry = (dof: string) => rig.entries.find((e: { excitationDof: string }) => e.excitationDof === dof)!;

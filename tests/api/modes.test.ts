@@ -4,32 +4,20 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mac } from '@resonote/dsp';
 import { steelBar, STEEL_BAR_ZETA } from '@resonote/sim';
-import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startTestApp, type TestApp } from '../support/app.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { BAR_CAMPAIGN } from '@resonote/api/seed';
+import type { TestApp } from '../support/app.ts';
+import { campaignIdByName, signInDemo, startSeededApp, waitForFit } from '../support/demo-api.ts';
 
 let app: TestApp;
 let lead: ReturnType<TestApp['agent']>;
 let viewer: ReturnType<TestApp['agent']>;
 let barId: string;
 
-async function waitForFit(id: string) {
-  for (let i = 0; i < 600; i++) {
-    const res = await lead.get(`/api/campaigns/${barId}/modes/fits/${id}`);
-    if (res.body.fit.status === 'done' || res.body.fit.status === 'failed') return res.body.fit;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error('the fit did not finish in 60 s');
-}
-
 beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  await seedDemo(app.handle, { log: () => undefined });
-  lead = app.agent();
-  await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  viewer = app.agent();
-  await viewer.post('/api/auth/sign-in/email').send({ email: 'viewer@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  barId = (await lead.get('/api/campaigns')).body.campaigns.find((c: { name: string }) => c.name === BAR_CAMPAIGN).id;
+  app = await startSeededApp();
+  lead = await signInDemo(app, 'lead@demo.resonote.local');
+  viewer = await signInDemo(app, 'viewer@demo.resonote.local');
+  barId = await campaignIdByName(lead, BAR_CAMPAIGN);
 }, 180_000);
 afterAll(async () => {
   await app?.close();
@@ -52,7 +40,7 @@ describe('modal fit of the demo bar', () => {
     fitId = res.body.fit.id;
     // The API answers while the fit runs.
     expect((await lead.get('/api/health')).status).toBe(200);
-    fit = await waitForFit(fitId);
+    fit = await waitForFit(lead, barId, fitId);
     console.log(`[figure] modal fit of the demo bar (21 FRFs, orders 2–30): ${((performance.now() - started) / 1000).toFixed(1)} s`);
     expect(fit.status).toBe('done');
     const again = await lead.post(`/api/campaigns/${barId}/modes/fits`).send({ bandHz: { low: 20, high: 600 }, maxOrder: 30 });
@@ -74,6 +62,7 @@ describe('modal fit of the demo bar', () => {
     const res = await lead.post(`/api/campaigns/${barId}/modes/fits/${fitId}/modes`).send({ poles: picks });
     expect(res.status).toBe(200);
     const table = res.body.modes.table as { fHz: number; zetaPercent: number; estimated: { zetaPercent: number }; mpc: number; shape: { dof: string; real: number }[] }[];
+    expect(table).toHaveLength(HANDBOOK_HZ.length);
     const bar = steelBar();
     table.forEach((m, i) => {
       expect(Math.abs(m.fHz / HANDBOOK_HZ[i]! - 1), `mode ${i + 1} frequency ${m.fHz} Hz`).toBeLessThan(0.005);
@@ -139,7 +128,7 @@ describe('modal fit of the demo bar', () => {
   it('warns in words, with the frequency, when the CMIF peaks where no stable column stands', async () => {
     // Orders 2 and 4 only: too few orders for any mode to be suggested, so every CMIF peak lacks a column.
     const res = await lead.post(`/api/campaigns/${barId}/modes/fits`).send({ bandHz: { low: 20, high: 600 }, maxOrder: 4 });
-    const low = await waitForFit(res.body.fit.id);
+    const low = await waitForFit(lead, barId, res.body.fit.id);
     expect(low.status).toBe('done');
     const warnings = (await viewer.get(`/api/campaigns/${barId}/modes/fits/${res.body.fit.id}`)).body.fit.warnings as { code: string; fHz: number; message: string }[];
     const cmifPeaks = warnings.filter((w) => w.code === 'cmif-peak-without-column');
@@ -187,7 +176,7 @@ describe("the campaign's mode table", () => {
   async function bandFit(low: number, high: number, maxOrder = 30) {
     const res = await lead.post(`/api/campaigns/${barId}/modes/fits`).send({ bandHz: { low, high }, maxOrder });
     expect(res.status === 202 || res.status === 200).toBe(true);
-    const done = await waitForFit(res.body.fit.id);
+    const done = await waitForFit(lead, barId, res.body.fit.id);
     expect(done.status).toBe('done');
     return done as { id: string; result: { diagram: { orders: { order: number; poles: { fHz: number; stable: string }[] }[] } } };
   }

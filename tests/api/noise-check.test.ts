@@ -2,14 +2,13 @@
 // read per channel (RMS in the band, peak against the trigger level, tones such as mains hum),
 // stored with its samples and an audit line, replayed for a repeated key, refused with a clear
 // message for bad input — against the real API and database.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { and, eq } from 'drizzle-orm';
 import { auditEvent, noiseCheck } from '@resonote/db/schema';
 import { createRng } from '@resonote/sim';
-import { startTestApp, type TestApp } from '../support/app.ts';
+import type { TestApp } from '../support/app.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
-import { API_TEMPLATE } from '../support/global-setup-api.ts';
+import { useBarRig, BAR_SETTINGS, type RigCampaign } from '../support/rig.ts';
 
 let app: TestApp;
 let lead: Person;
@@ -44,13 +43,7 @@ function jsonRecording(channels: number[][]) {
   return Buffer.from(JSON.stringify({ sampleRateHz: fs, channels }));
 }
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ lead, engineer, viewer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, lead, engineer, viewer, rig } = r));
 
 describe('background-noise checks', () => {
   it("reads the simulated rig's sensor noise: rms in the band as white noise predicts, far below the trigger, stored with an audit line", async () => {

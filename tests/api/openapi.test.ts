@@ -16,6 +16,7 @@ describe('OpenAPI document', () => {
   it('lists every registered route with its method', async () => {
     const doc = (await request(app.handle.app).get('/api/openapi.json')).body;
     expect(doc.openapi).toBe('3.1.0');
+    expect(app.handle.routes.length).toBeGreaterThan(0);
     for (const route of app.handle.routes) {
       const path = '/api' + route.path.replace(/:([A-Za-z]+)/g, '{$1}');
       expect(doc.paths[path]?.[route.method], `${route.method} ${path}`).toBeDefined();

@@ -1,7 +1,7 @@
 // Guards in front of every route: cookie-carrying writes must come from this Resonote's own
 // pages (Origin, else Referer), /api answers are never cached, and sign-in attempts are limited
 // per e-mail address and, more loosely, per client IP.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { eq } from 'drizzle-orm';
 import { campaign, hit } from '@resonote/db/schema';
@@ -9,7 +9,7 @@ import { loadConfig } from '@resonote/api/config';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { PASSWORD, signUp } from '../support/accounts.ts';
 import type { Person } from '../support/campaign.ts';
-import { barCrew, type RigCampaign } from '../support/rig.ts';
+import { useBarRig, type RigCampaign } from '../support/rig.ts';
 import { barWav } from '../support/bar-recording.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
@@ -19,13 +19,7 @@ let engineer: Person;
 let rig: RigCampaign;
 const foreign = 'https://attacker.example';
 
-beforeAll(async () => {
-  app = await startTestApp(API_TEMPLATE);
-  ({ lead, engineer, rig } = await barCrew(app));
-}, 120_000);
-afterAll(async () => {
-  await app?.close();
-});
+useBarRig((r) => ({ app, lead, engineer, rig } = r));
 
 const campaignRow = async () => (await app.handle.database.db.select().from(campaign).where(eq(campaign.id, rig.campaignId)))[0]!;
 

@@ -1,17 +1,11 @@
 // The account page with personal API tokens, and arming a DOF on Tap, in the real browser
 // against the seeded demo (issue 16).
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startDemo, type DemoRun } from '../support/demo.ts';
+import { describe, expect, it } from 'vitest';
+import { useDemo } from '../support/demo.ts';
 import { screenshot, viewports } from '../support/browser.ts';
 import { SKID_CAMPAIGN } from '@resonote/api/seed';
 
-let demo: DemoRun;
-beforeAll(async () => {
-  demo = await startDemo();
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
-});
+const demo = useDemo();
 
 describe('account page and armed DOFs', () => {
   it('creates a token shown once, lists it, revokes it, and arms a DOF on Tap for everyone to see', async () => {

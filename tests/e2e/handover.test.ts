@@ -2,24 +2,18 @@
 // sharing and backup controls and downloads bundle.zip (when the server part is in); a viewer
 // sees the report link only.
 import fs from 'node:fs';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startDemo, type DemoRun } from '../support/demo.ts';
+import { useDemo } from '../support/demo.ts';
 import { screenshot, viewports } from '../support/browser.ts';
 
-let demo: DemoRun;
-let barId: string;
+const demo = useDemo(BAR_CAMPAIGN);
 let zipStatus: number;
 
 beforeAll(async () => {
-  demo = await startDemo();
-  barId = await demo.campaignId(BAR_CAMPAIGN);
   const lead = demo.app.agent();
   await lead.post('/api/auth/sign-in/email').send({ email: 'lead@demo.resonote.local', password: DEMO_PASSWORD }).expect(200);
-  zipStatus = (await lead.get(`/api/campaigns/${barId}/export/bundle.zip`).buffer(true).parse((res, cb) => { res.on('data', () => undefined); res.on('end', () => cb(null, null)); })).status;
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
+  zipStatus = (await lead.get(`/api/campaigns/${demo.campaign}/export/bundle.zip`).buffer(true).parse((res, cb) => { res.on('data', () => undefined); res.on('end', () => cb(null, null)); })).status;
 });
 
 const signedIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport, { acceptDownloads: true });
@@ -27,11 +21,11 @@ const signedIn = (email: string, viewport: { width: number; height: number } = v
 describe('the Hand-over screen', () => {
   it('gives the lead the report, the bundles, sharing and backup, and downloads bundle.zip', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local');
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}`);
     await page.getByRole('link', { name: 'Hand-over' }).click();
     await page.waitForURL(/\/handover$/);
     await expect(page.getByRole('link', { name: /Open report/ })).toBeDefinedAndVisible();
-    expect(await page.getByRole('link', { name: /Open report/ }).getAttribute('href')).toBe(`/api/campaigns/${barId}/report.html`);
+    expect(await page.getByRole('link', { name: /Open report/ }).getAttribute('href')).toBe(`/api/campaigns/${demo.campaign}/report.html`);
     expect(await page.getByRole('link', { name: /Open report/ }).getAttribute('target')).toBe('_blank');
     for (const name of ['Download PDF', 'Download bundle.zip', 'Download bundle.json', 'Send', 'Download backup', 'Restore as a new campaign']) {
       await expect(page.getByRole('button', { name })).toBeDefinedAndVisible();
@@ -63,7 +57,7 @@ describe('the Hand-over screen', () => {
 
   it('fits the tablet width', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local', viewports.tablet);
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/handover`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/handover`);
     await expect(page.getByRole('button', { name: 'Download bundle.zip' })).toBeDefinedAndVisible();
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(768);
     await screenshot(page, 'handover-768');
@@ -73,7 +67,7 @@ describe('the Hand-over screen', () => {
 
   it('shows a viewer the report link only', async () => {
     const { page, errors, close } = await signedIn('viewer@demo.resonote.local');
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/handover`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/handover`);
     await expect(page.getByRole('link', { name: /Open report/ })).toBeDefinedAndVisible();
     for (const name of ['Download PDF', 'Download bundle.zip', 'Download bundle.json', 'Send', 'Download backup', 'Restore as a new campaign']) {
       expect(await page.getByRole('button', { name }).count(), name).toBe(0);

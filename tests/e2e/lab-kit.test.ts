@@ -3,8 +3,9 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser } from 'playwright-core';
 import { startTestApp, type TestApp } from '../support/app.ts';
-import { screenshot, settled, viewports, watchConsole } from '../support/browser.ts';
+import { screenshot, settled, viewports } from '../support/browser.ts';
 import { PASSWORD } from '../support/accounts.ts';
+import { signInThroughForm } from '../support/sign-in.ts';
 import { makeCrew, type CampaignCrew } from '../support/campaign.ts';
 import { platePng } from '../support/photo.ts';
 import { launchBrowserWithWebgl, seedCampaign } from './campaign-fixtures.ts';
@@ -36,17 +37,7 @@ afterAll(async () => {
   await app?.close();
 });
 
-async function signedIn(email: string, viewport: { width: number; height: number } = viewports.laptop) {
-  const context = await browser.newContext({ viewport });
-  const page = await context.newPage();
-  const errors = watchConsole(page);
-  await page.goto(`${app.baseUrl}/sign-in`);
-  await page.getByLabel('E-mail').fill(email);
-  await page.getByLabel('Password').fill(PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL(/\/campaigns$/);
-  return { page, errors, close: () => context.close() };
-}
+const signedIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => signInThroughForm(browser, app.baseUrl, email, PASSWORD, viewport);
 
 describe('the lab kit in the browser', () => {
   it('lists hammers with tips, a triaxial sensor per axis and a conditioner, with calibration and bookings, at three sizes', async () => {

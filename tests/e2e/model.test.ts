@@ -7,27 +7,18 @@
 // hand-over report. Closed form: K' = 1.04·K with the same M keeps the mass-normalised shapes and
 // multiplies every frequency by √1.04 (f ∝ √k; Blevins 1979), so each test mode reads
 // Δf = 1/√1.04 − 1 = −1.942 % against its model mode, at MAC ≈ 1. Screenshots at 1366×768 and 768×1024.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { SKID_CAMPAIGN } from '@resonote/api/seed';
 import { feModelCsvFromStructure } from '@resonote/api/demo-fe-model';
 import { pumpSkidBaseplate } from '@resonote/sim';
-import { startDemo, type DemoRun } from '../support/demo.ts';
+import { useDemo } from '../support/demo.ts';
 import { screenshot, settled, viewports } from '../support/browser.ts';
 
-let demo: DemoRun;
-let skidId: string;
+const demo = useDemo(SKID_CAMPAIGN);
 
 /** (f_test − f_model)/f_model × 100 for K × 1.04, same M (f ∝ √k, Blevins 1979): −1.942 %. */
 const EXPECTED_DIFF_PERCENT = (1 / Math.sqrt(1.04) - 1) * 100;
-
-beforeAll(async () => {
-  demo = await startDemo();
-  skidId = await demo.campaignId(SKID_CAMPAIGN);
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
-});
 
 /** The API from inside the signed-in page (same origin, its cookies). */
 async function call(page: Page, method: string, path: string, body?: unknown): Promise<{ status: number; body: any }> {
@@ -51,7 +42,7 @@ async function correlationRows(page: Page) {
 describe('planning from the model and correlating with it', () => {
   it('lets the lead import a model, plan points and reference, accept, test, fit and read the correlation', async () => {
     const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewports.laptop, { reducedMotion: 'reduce' });
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/plan`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/plan`);
     await page.getByTestId('model-section').waitFor();
     await page.getByTestId('model-versions').getByText('design v1').waitFor();
 
@@ -100,24 +91,24 @@ describe('planning from the model and correlating with it', () => {
     await page.getByRole('radio', { name: `Reference at ${proposedRef}` }).check();
     await page.getByRole('button', { name: 'Accept into geometry and schedule' }).click();
     await page.getByText(new RegExp(`Plan accepted: .* reference ${proposedRef.replace('+', '\\+')}, 20 schedule entries added\\. Channel 2 \\(accelerometer\\) now measures at ${proposedRef.replace('+', '\\+')}`)).waitFor();
-    const channels = (await call(page, 'GET', `/campaigns/${skidId}/channels`)).body.channels as { channel: number; dof: string | null }[];
+    const channels = (await call(page, 'GET', `/campaigns/${demo.campaign}/channels`)).body.channels as { channel: number; dof: string | null }[];
     expect(channels.find((c) => c.channel === 2)!.dof).toBe(proposedRef);
 
     // The rig strikes every planned entry; each FRF is measured at the new reference.
-    const entries = (await call(page, 'GET', `/campaigns/${skidId}/schedule`)).body.entries as { id: string; status: string; responseDof: string; excitationDof: string }[];
+    const entries = (await call(page, 'GET', `/campaigns/${demo.campaign}/schedule`)).body.entries as { id: string; status: string; responseDof: string; excitationDof: string }[];
     const planned = entries.filter((x) => x.status === 'planned');
     expect(planned).toHaveLength(20);
     let seed = 5000;
     for (const e of planned) {
       expect(e.responseDof).toBe(proposedRef);
-      const r = await call(page, 'POST', `/campaigns/${skidId}/schedule/${e.id}/simulate`, { count: 5, seed: seed++, tip: 'soft', peakForceN: 60, doubleHitProbability: 0, overloadProbability: 0, idempotencyKey: `e2e-model-${e.id}` });
+      const r = await call(page, 'POST', `/campaigns/${demo.campaign}/schedule/${e.id}/simulate`, { count: 5, seed: seed++, tip: 'soft', peakForceN: 60, doubleHitProbability: 0, overloadProbability: 0, idempotencyKey: `e2e-model-${e.id}` });
       expect(r.status, JSON.stringify(r.body)).toBe(201);
       expect(r.body.entry.acceptedHits).toBe(5);
       expect(r.body.frf.channels.map((c: { responseDof: string }) => c.responseDof)).toEqual([proposedRef]);
     }
 
     // Modes: the fit leaves out the 14 FRFs at the former reference (one of them flagged, one the seed's reciprocal entry) by itself.
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await page.getByTestId('modes-empty').waitFor();
     const leftOut = page.getByTestId('fit-left-out');
     await leftOut.waitFor();
@@ -158,10 +149,10 @@ describe('planning from the model and correlating with it', () => {
     const corrShot = await screenshot(page, 'model-modes-correlation-1366x768');
 
     // The hand-over page shows the same, and so does the printable report.
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/handover`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/handover`);
     await page.getByTestId('correlation-table').locator('tbody tr').nth(suggested - 1).waitFor({ timeout: 30_000 });
     expect(await correlationRows(page)).toEqual(modes);
-    const report = await page.evaluate(async (id) => (await fetch(`/api/campaigns/${id}/report.html`)).text(), skidId);
+    const report = await page.evaluate(async (id) => (await fetch(`/api/campaigns/${id}/report.html`)).text(), demo.campaign);
     expect(report).toContain('Correlation with the finite-element model');
     expect(report).toContain('aria-label="Test against model frequencies');
     // the report prints Δf with two decimals: −1.94 for a paired plate mode
@@ -174,13 +165,13 @@ describe('planning from the model and correlating with it', () => {
 
     // The same screens on a tablet, as a viewer: reading only.
     const tablet = await demo.signIn('viewer@demo.resonote.local', viewports.tablet, { reducedMotion: 'reduce' });
-    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/plan`);
+    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/plan`);
     await tablet.page.getByTestId('model-versions').getByText('design v2').waitFor();
     expect(await tablet.page.getByRole('button', { name: 'Upload model' }).count()).toBe(0);
     await tablet.page.getByTestId('model-map').waitFor();
     await settled(tablet.page);
     const a = await screenshot(tablet.page, 'model-plan-map-768x1024');
-    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/modes`);
+    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await tablet.page.getByTestId('correlation-table').locator('tbody tr').nth(suggested - 1).waitFor({ timeout: 30_000 });
     await tablet.page.locator('.frequency-plot .main-svg').first().waitFor();
     await settled(tablet.page);

@@ -2,24 +2,15 @@
 // poles of the first four bending modes (the choice survives a reload), computes shapes, and
 // builds the campaign's mode table from one wide fit and from two band fits; the synthesis always
 // shows the current pole set; a viewer reads the same table without any action controls.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { BAR_CAMPAIGN } from '@resonote/api/seed';
-import { startDemo, type DemoRun } from '../support/demo.ts';
-import { screenshot, viewports } from '../support/browser.ts';
+import { useDemo } from '../support/demo.ts';
+import { screenshot, settled, viewports } from '../support/browser.ts';
 
-let demo: DemoRun;
-let barId: string;
+const demo = useDemo(BAR_CAMPAIGN);
 
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
-
-beforeAll(async () => {
-  demo = await startDemo();
-  barId = await demo.campaignId(BAR_CAMPAIGN);
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
-});
 
 // Reduced motion: the mode-shape animation starts still (a test presses Play itself).
 const signedIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport, { reducedMotion: 'reduce' });
@@ -48,9 +39,10 @@ async function choosePoles(page: Page, targets: number[]) {
   }, targets);
 }
 
+/** Waits until the mode-shape view has drawn its scene (data-drawn after Plotly.react) and painted it. */
 async function waitForAnimation(page: Page) {
-  await page.locator('[data-testid="mode-animation"] canvas').first().waitFor({ timeout: 20_000 });
-  await page.waitForTimeout(800);
+  await page.locator('[data-testid="mode-animation"][data-drawn="yes"] canvas').first().waitFor({ timeout: 20_000 });
+  await settled(page);
 }
 
 /** Runs a fit over a band from the form and waits for its diagram. */
@@ -72,7 +64,7 @@ async function choiceSaved(page: Page) {
  * (the defect: a cached synthesis of the previous pole set stayed on the screen until a reload).
  */
 async function synthesisShowsCurrentPoles(page: Page, fitId: string) {
-  const url = `/api/campaigns/${barId}/modes/fits/${fitId}/synthesis?response=B21:%2BZ&reference=B21:%2BZ&kind=accelerance`;
+  const url = `/api/campaigns/${demo.campaign}/modes/fits/${fitId}/synthesis?response=B21:%2BZ&reference=B21:%2BZ&kind=accelerance`;
   await page.waitForFunction(
     async (url) => {
       const plot = document.querySelector('[data-testid="fit-synthesis"] .synthesis-plot') as (HTMLElement & { data?: { y: number[] }[] }) | null;
@@ -92,7 +84,7 @@ const tableRows = (page: Page) => page.getByTestId('mode-table').locator('tbody 
 describe('the Modes screen', () => {
   it('keeps the chosen poles over a reload, computes shapes and builds the mode table from one wide fit', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local');
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await page.getByRole('link', { name: 'Modes' }).waitFor();
     await expect(page.getByTestId('modes-empty')).toBeDefinedAndVisible();
     await expect(page.getByTestId('mode-table-empty')).toBeDefinedAndVisible();
@@ -129,7 +121,7 @@ describe('the Modes screen', () => {
     await page.getByRole('button', { name: 'Compute shapes' }).click();
     await page.getByTestId('fit-modes').locator('tr[data-fit-mode="4"]').waitFor({ timeout: 30_000 });
     expect(await page.getByTestId('mass-note').textContent()).toMatch(/driving point B21:\+Z/);
-    const fitId = await page.evaluate(async (barId) => ((await (await fetch(`/api/campaigns/${barId}/modes/fits`)).json()) as { fits: { id: string }[] }).fits[0]!.id, barId);
+    const fitId = await page.evaluate(async (campaignId) => ((await (await fetch(`/api/campaigns/${campaignId}/modes/fits`)).json()) as { fits: { id: string }[] }).fits[0]!.id, demo.campaign);
     await synthesisShowsCurrentPoles(page, fitId);
 
     // The other defect: after a new "Compute shapes" the synthesis showed the previous pole set. Three poles now.
@@ -174,7 +166,7 @@ describe('the Modes screen', () => {
 
   it('builds the table from two band fits, points out a mode found twice, and reads at tablet width', async () => {
     const { page, errors, close } = await signedIn('lead@demo.resonote.local');
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await tableRows(page).nth(3).waitFor({ timeout: 20_000 });
     // Empty the table (the wide fit keeps its modes).
     for (let left = 4; left > 0; left--) {
@@ -218,7 +210,7 @@ describe('the Modes screen', () => {
     await close();
 
     const tablet = await signedIn('lead@demo.resonote.local', viewports.tablet);
-    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
+    await tablet.page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await tablet.page.getByTestId('mode-table').locator('tbody tr').nth(4).waitFor({ timeout: 20_000 });
     await tablet.page.locator('.stabilization-plot .scatterlayer').first().waitFor();
     await waitForAnimation(tablet.page);
@@ -232,7 +224,7 @@ describe('the Modes screen', () => {
 
   it('shows a viewer the mode table without any action controls', async () => {
     const { page, errors, close } = await signedIn('viewer@demo.resonote.local');
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/modes`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/modes`);
     await tableRows(page).nth(4).waitFor({ timeout: 20_000 });
     await page.locator('.stabilization-plot .scatterlayer').first().waitFor();
     await waitForAnimation(page);

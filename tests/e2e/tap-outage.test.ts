@@ -2,23 +2,14 @@
 // database restarting) and then no answer at all is kept, announced in a banner in words above the
 // plots, sent again with the same Idempotency-Key until the server has it, and stored once. With
 // no hit pending, the screen says the same when /api/health reports the database unreachable.
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { eq } from 'drizzle-orm';
 import { hit } from '@resonote/db/schema';
 import { SKID_CAMPAIGN } from '@resonote/api/seed';
-import { startDemo, type DemoRun } from '../support/demo.ts';
+import { useDemo } from '../support/demo.ts';
 import { screenshot, viewports } from '../support/browser.ts';
 
-let demo: DemoRun;
-let skidId: string;
-
-beforeAll(async () => {
-  demo = await startDemo();
-  skidId = await demo.campaignId(SKID_CAMPAIGN);
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
-});
+const demo = useDemo(SKID_CAMPAIGN);
 
 describe('Tap while the server cannot take hits', () => {
   // No retry: the states are awaited in order, never timed.
@@ -49,7 +40,7 @@ describe('Tap while the server cannot take hits', () => {
       return route.continue({ postData: JSON.stringify({ ...body, seed: 8101 }) });
     });
     try {
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/tap`);
       await page.waitForURL(/\/tap\?entry=/);
       const entryId = new URL(page.url()).searchParams.get('entry')!;
       await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });

@@ -1,23 +1,14 @@
 // Tap in the real browser: an engineer at the pump-skid baseplate takes five simulated hits at the
 // current DOF (button and Space), rejects one with R, watches the averaged FRF follow, and moves
 // on with N. Screenshots at 1366 px, 768 px (portrait tablet) and 1024 × 768 (landscape tablet).
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { Page } from 'playwright-core';
 import { SKID_CAMPAIGN } from '@resonote/api/seed';
-import { startDemo, type DemoRun } from '../support/demo.ts';
+import { useDemo } from '../support/demo.ts';
 import path from 'node:path';
 import { screenshot, screenshotDir, settled, viewports } from '../support/browser.ts';
 
-let demo: DemoRun;
-let skidId: string;
-
-beforeAll(async () => {
-  demo = await startDemo();
-  skidId = await demo.campaignId(SKID_CAMPAIGN);
-}, 240_000);
-afterAll(async () => {
-  await demo?.close();
-});
+const demo = useDemo(SKID_CAMPAIGN);
 
 const signIn = (email: string, viewport: { width: number; height: number } = viewports.laptop) => demo.signIn(email, viewport);
 
@@ -42,7 +33,7 @@ describe('Tap in the browser', () => {
     });
     let tabletUrl = '';
     try {
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/tap`);
       await page.waitForURL(/\/tap\?entry=/);
       const dof = page.getByTestId('current-dof');
       await dof.waitFor({ timeout: 30_000 });
@@ -135,7 +126,7 @@ describe('Tap in the browser', () => {
   it('records background noise with the simulated rig and shows each channel in words, with its spectrum', async () => {
     const { page, errors, close } = await signIn('engineer@demo.resonote.local', viewports.laptop);
     try {
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/tap`);
       // The noise check folds away on Tap; open it.
       await page.getByTestId('fold-noise').getByRole('button').click();
       const panel = page.getByTestId('noise-panel');
@@ -171,7 +162,7 @@ describe('Tap in the browser', () => {
 
   it('shows a viewer the hits and the FRF but no action controls', async () => {
     const { page, errors, close } = await signIn('viewer@demo.resonote.local', viewports.laptop);
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap`);
+    await page.goto(`${demo.app.baseUrl}/campaigns/${demo.campaign}/tap`);
     await page.getByTestId('current-dof').waitFor();
     // The DOF's hits loaded (the list is empty until then), so the count below is the real one.
     await page.getByText('Loading the hits…').waitFor({ state: 'detached' });

@@ -4,6 +4,7 @@
 import { capturedMail } from '@resonote/db/schema';
 import type { TestApp } from './app.ts';
 import { signUp } from './accounts.ts';
+import { until } from './poll.ts';
 
 type Agent = ReturnType<TestApp['agent']>;
 
@@ -26,14 +27,13 @@ export interface CampaignCrew {
   outsider: Person;
 }
 
+/** The first captured mail to `to` whose subject matches, polled for up to 5 s. */
 export async function waitForMail(app: TestApp, to: string, subject: RegExp) {
-  for (let i = 0; i < 50; i++) {
-    const rows = await app.handle.database.db.select().from(capturedMail);
-    const found = rows.find((m) => m.toAddresses.includes(to) && subject.test(m.subject));
-    if (found) return found;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error(`no mail to ${to} matching ${subject}`);
+  return until(
+    `a mail to ${to} matching ${subject}`,
+    async () => (await app.handle.database.db.select().from(capturedMail)).find((m) => m.toAddresses.includes(to) && subject.test(m.subject)),
+    5_000,
+  );
 }
 
 /** Invites `person` to the campaign with `role` and accepts through the mailed link. */
@@ -68,4 +68,22 @@ export async function makeCrew(app: TestApp, tag = 'c'): Promise<CampaignCrew> {
   await invite(app, lead, campaignId, viewer, 'viewer');
   await invite(app, admin, otherCampaignId, outsider, 'lead');
   return { campaignId, otherCampaignId, admin, lead, engineer, viewer, outsider };
+}
+
+/**
+ * On a fresh database: an admin (the first account), a lead, an engineer and a viewer signed up, and
+ * one campaign the admin creates from `body` with the other three invited to their roles.
+ */
+export async function staffedCampaign(app: TestApp, body: Record<string, unknown>): Promise<{ campaignId: string; admin: Person; lead: Person; engineer: Person; viewer: Person }> {
+  const admin = await signUp(app, 'Ada Admin', 'admin@lab.test');
+  const lead = await signUp(app, 'Lena Lead', 'lead@lab.test');
+  const engineer = await signUp(app, 'Eric Engineer', 'eng@lab.test');
+  const viewer = await signUp(app, 'Vera Viewer', 'view@lab.test');
+  const made = await admin.agent.post('/api/campaigns').send(body);
+  if (made.status !== 201) throw new Error(`campaign creation failed: ${made.status} ${JSON.stringify(made.body)}`);
+  const campaignId = made.body.campaign.id as string;
+  await invite(app, admin, campaignId, lead, 'lead');
+  await invite(app, admin, campaignId, engineer, 'engineer');
+  await invite(app, admin, campaignId, viewer, 'viewer');
+  return { campaignId, admin, lead, engineer, viewer };
 }

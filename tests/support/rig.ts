@@ -1,7 +1,9 @@
 // A campaign ready for hits: the demo steel bar's geometry, a hammer and one or two
 // accelerometers on the channel map, acquisition settings, and the schedule.
+import { afterAll, beforeAll } from 'vitest';
 import { steelBar } from '@resonote/sim';
-import type { TestApp } from './app.ts';
+import { startTestApp, type TestApp } from './app.ts';
+import { API_TEMPLATE } from './global-setup-api.ts';
 import { signUp } from './accounts.ts';
 import { invite, type Person } from './campaign.ts';
 
@@ -71,4 +73,22 @@ export async function barCrew(app: TestApp): Promise<{ lead: Person; engineer: P
   await invite(app, lead, rig.campaignId, engineer, 'engineer');
   await invite(app, lead, rig.campaignId, viewer, 'viewer');
   return { lead, engineer, viewer, rig };
+}
+
+export type BarRig = { app: Awaited<ReturnType<typeof startTestApp>> } & Awaited<ReturnType<typeof barCrew>>;
+
+/**
+ * The file's app on a fresh database with `barCrew` on it: started in a beforeAll (120 s) that hands
+ * it to `use` (which assigns the file's variables and may add its own set-up), closed in an afterAll.
+ * `env` and `options` go to startTestApp.
+ */
+export function useBarRig(use: (rig: BarRig) => unknown, env: Record<string, string> = {}, options: Parameters<typeof startTestApp>[2] = {}): void {
+  let app: BarRig['app'] | undefined;
+  beforeAll(async () => {
+    app = await startTestApp(API_TEMPLATE, env, options);
+    await use({ app, ...(await barCrew(app)) });
+  }, 120_000);
+  afterAll(async () => {
+    await app?.close();
+  });
 }

@@ -29,30 +29,37 @@ export function toBaseSensitivity(value: number, unit: SensitivityUnit): number 
 
 export const text = (max: number) => z.string().trim().max(max);
 export const sensitivity = z.number({ error: 'sensitivity must be a number' }).finite().positive('sensitivity must be > 0').max(1e6);
-const axes = z
+/** The measuring axes of a sensor, each at most once. */
+export const axisList = z
   .array(z.enum(['X', 'Y', 'Z']))
   .min(1, 'list at least one axis')
   .max(3)
   .refine((a) => new Set(a).size === a.length, 'an axis is listed twice');
 
-export const hammerCreateSchema = z.strictObject({
-  kind: z.literal('hammer'),
+/** What names every transducer and conditioner, campaign kit or lab kit: model and serial number. */
+export const itemIdentityFields = {
   model: text(120).min(1, 'enter the model'),
   serial: text(80).min(1, 'enter the serial number'),
+};
+/** A hammer's tips, by name. */
+export const hammerTips = z.array(text(60).min(1)).max(12);
+
+export const hammerCreateSchema = z.strictObject({
+  kind: z.literal('hammer'),
+  ...itemIdentityFields,
   sensitivity,
   sensitivityUnit: z.enum(hammerUnits),
-  tips: z.array(text(60).min(1)).max(12).default([]),
+  tips: hammerTips.default([]),
   massG: z.number().positive().max(50_000).nullable().default(null),
   notes: text(2000).default(''),
 });
 
 export const accelerometerCreateSchema = z.strictObject({
   kind: z.literal('accelerometer'),
-  model: text(120).min(1, 'enter the model'),
-  serial: text(80).min(1, 'enter the serial number'),
+  ...itemIdentityFields,
   sensitivity,
   sensitivityUnit: z.enum(accelerometerUnits),
-  axes: axes.default(['Z']),
+  axes: axisList.default(['Z']),
   massG: z.number().positive().max(50_000).nullable().default(null),
   notes: text(2000).default(''),
 });
@@ -60,17 +67,22 @@ export const accelerometerCreateSchema = z.strictObject({
 export const kitItemCreateSchema = z.discriminatedUnion('kind', [hammerCreateSchema, accelerometerCreateSchema]);
 export type KitItemCreate = z.infer<typeof kitItemCreateSchema>;
 
-export const kitItemPatchSchema = z.strictObject({
+/** The fields a change to any kit item may carry (campaign kit and lab kit), beside the version read. */
+export const itemPatchFields = {
   version: versionSchema,
   model: text(120).min(1).optional(),
   serial: text(80).min(1).optional(),
-  sensitivity: sensitivity.optional(),
-  sensitivityUnit: z.enum([...hammerUnits, ...accelerometerUnits]).optional(),
-  tips: z.array(text(60).min(1)).max(12).optional(),
-  axes: axes.optional(),
-  massG: z.number().positive().max(50_000).nullable().optional(),
+  tips: hammerTips.optional(),
+  axes: axisList.optional(),
   notes: text(2000).optional(),
   retired: z.boolean().optional(),
+};
+
+export const kitItemPatchSchema = z.strictObject({
+  ...itemPatchFields,
+  sensitivity: sensitivity.optional(),
+  sensitivityUnit: z.enum([...hammerUnits, ...accelerometerUnits]).optional(),
+  massG: z.number().positive().max(50_000).nullable().optional(),
   /** Confirms a sensitivity change beyond the campaign's tolerance (lab.ts largeSensitivityChange). */
   confirmLargeChange: z.boolean().optional(),
 });

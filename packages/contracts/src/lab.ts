@@ -1,34 +1,27 @@
 // The lab's kit inventory, bookings, the campaign's calibration policy, sensitivity-change
 // confirmation and notes/photos per DOF: schemas shared by the API and the web app.
 import { z } from 'zod';
-import { accelerometerUnits, calibrationFields, dueAfterCalibration, hammerUnits, isoDate, NEWTONS_PER_LBF, sensitivity, text, STANDARD_GRAVITY, toBaseSensitivity, type SensitivityUnit } from './kit.ts';
+import { accelerometerUnits, axisList, calibrationFields, dueAfterCalibration, hammerTips, hammerUnits, isoDate, itemIdentityFields, itemPatchFields, NEWTONS_PER_LBF, sensitivity, text, STANDARD_GRAVITY, toBaseSensitivity, type SensitivityUnit } from './kit.ts';
 import { uuidSchema, versionSchema } from './common.ts';
 
 export const labKinds = ['hammer', 'accelerometer', 'conditioner'] as const;
 export type LabKind = (typeof labKinds)[number];
 
-const axisList = z
-  .array(z.enum(['X', 'Y', 'Z']))
-  .min(1, 'list at least one axis')
-  .max(3)
-  .refine((a) => new Set(a).size === a.length, 'an axis is listed twice');
 /** Per-axis sensitivities of a triaxial sensor, in the item's unit. */
 const axisSensitivities = z.strictObject({ X: sensitivity.optional(), Y: sensitivity.optional(), Z: sensitivity.optional() });
 
 export const labItemCreateSchema = z.discriminatedUnion('kind', [
   z.strictObject({
     kind: z.literal('hammer'),
-    model: text(120).min(1, 'enter the model'),
-    serial: text(80).min(1, 'enter the serial number'),
+    ...itemIdentityFields,
     sensitivity,
     sensitivityUnit: z.enum(hammerUnits),
-    tips: z.array(text(60).min(1)).max(12).default([]),
+    tips: hammerTips.default([]),
     notes: text(2000).default(''),
   }),
   z.strictObject({
     kind: z.literal('accelerometer'),
-    model: text(120).min(1, 'enter the model'),
-    serial: text(80).min(1, 'enter the serial number'),
+    ...itemIdentityFields,
     sensitivity,
     sensitivityUnit: z.enum(accelerometerUnits),
     axes: axisList.default(['Z']),
@@ -37,22 +30,13 @@ export const labItemCreateSchema = z.discriminatedUnion('kind', [
   }),
   z.strictObject({
     kind: z.literal('conditioner'),
-    model: text(120).min(1, 'enter the model'),
-    serial: text(80).min(1, 'enter the serial number'),
+    ...itemIdentityFields,
     notes: text(2000).default(''),
   }),
 ]);
 export type LabItemCreate = z.infer<typeof labItemCreateSchema>;
 
-export const labItemPatchSchema = z.strictObject({
-  version: versionSchema,
-  model: text(120).min(1).optional(),
-  serial: text(80).min(1).optional(),
-  tips: z.array(text(60).min(1)).max(12).optional(),
-  axes: axisList.optional(),
-  notes: text(2000).optional(),
-  retired: z.boolean().optional(),
-});
+export const labItemPatchSchema = z.strictObject(itemPatchFields);
 
 /** A lab item's certificate: a campaign item's fields (kit.ts), and per-axis values for a triaxial sensor. When a
  * sensitivity is given it updates the item and every campaign that borrows it. */

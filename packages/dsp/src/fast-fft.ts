@@ -9,7 +9,7 @@
 // averaging engine stay in float64. For what this means for 24-bit data see docs/decisions/fast-fft.md.
 // Separate entry point (@resonote/dsp/fast-fft) so the web bundle never pulls the WebAssembly glue.
 /// <reference path="./pffft-wasm.d.ts" />
-import { setFastPlanFactory, type RealFftPlan } from './fft.ts';
+import { addCrossLine, setFastPlanFactory, type ForwardCross, type RealFftPlan } from './fft.ts';
 import type { PffftModule } from '@echogarden/pffft-wasm/simd';
 
 const PFFFT_REAL = 0; // pffft.h: typedef enum { PFFFT_REAL, PFFFT_COMPLEX }
@@ -62,37 +62,17 @@ class PffftPlan implements RealFftPlan {
     }
   }
 
-  forwardCross(
-    input: Float64Array,
-    refRe: Float64Array,
-    refIm: Float64Array,
-    auto: Float64Array,
-    crossRe: Float64Array,
-    crossIm: Float64Array,
-  ): number {
+  forwardCross: ForwardCross = (input, refRe, refIm, auto, crossRe, crossIm) => {
     const { heap, o } = this.run(input);
     const m = this.n >>> 1;
     // The sums read the spectrum straight from WebAssembly memory (no copy) and stay in float64.
     const x0 = heap[o];
     const xm = heap[o + 1];
-    auto[0] += x0 * x0;
-    crossRe[0] += refRe[0] * x0;
-    crossIm[0] += -refIm[0] * x0;
-    auto[m] += xm * xm;
-    crossRe[m] += refRe[m] * xm;
-    crossIm[m] += -refIm[m] * xm;
-    for (let k = 1; k < m; k++) {
-      const a = heap[o + 2 * k];
-      const b = heap[o + 2 * k + 1];
-      const p = refRe[k];
-      const q = refIm[k];
-      auto[k] += a * a + b * b;
-      // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa)
-      crossRe[k] += p * a + q * b;
-      crossIm[k] += p * b - q * a;
-    }
+    addCrossLine(0, x0, 0, refRe, refIm, auto, crossRe, crossIm);
+    addCrossLine(m, xm, 0, refRe, refIm, auto, crossRe, crossIm);
+    for (let k = 1; k < m; k++) addCrossLine(k, heap[o + 2 * k], heap[o + 2 * k + 1], refRe, refIm, auto, crossRe, crossIm);
     return x0;
-  }
+  };
 }
 
 let loaded: PffftModule | null = null;

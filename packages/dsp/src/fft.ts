@@ -25,14 +25,27 @@ export interface RealFftPlan {
    * same length: the averaging engine's inner step, with X kept in the plan's own buffers (no
    * allocation per record). Returns X_0 (real), so the caller can check it is finite.
    */
-  forwardCross(
-    input: Float64Array,
-    refRe: Float64Array,
-    refIm: Float64Array,
-    auto: Float64Array,
-    crossRe: Float64Array,
-    crossIm: Float64Array,
-  ): number;
+  forwardCross: ForwardCross;
+}
+
+/** `RealFftPlan.forwardCross`: the input record, the reference spectrum R, and the sums it adds to. */
+export type ForwardCross = (
+  input: Float64Array,
+  refRe: Float64Array,
+  refIm: Float64Array,
+  auto: Float64Array,
+  crossRe: Float64Array,
+  crossIm: Float64Array,
+) => number;
+
+/** Adds line k of X = a + jb to the sums: |X_k|² to auto[k], conj(R_k)·X_k to crossRe[k] + j·crossIm[k]. */
+export function addCrossLine(k: number, a: number, b: number, refRe: Float64Array, refIm: Float64Array, auto: Float64Array, crossRe: Float64Array, crossIm: Float64Array): void {
+  const p = refRe[k];
+  const q = refIm[k];
+  auto[k] += a * a + b * b;
+  // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa)
+  crossRe[k] += p * a + q * b;
+  crossIm[k] += p * b - q * a;
 }
 
 /** forwardCross for every plan: forward() into buffers the plan owns, then the sums. */
@@ -41,30 +54,14 @@ abstract class CrossSums {
   abstract forward(input: Float64Array, outRe: Float64Array, outIm: Float64Array): void;
   private xr: Float64Array | null = null;
   private xi: Float64Array | null = null;
-  forwardCross(
-    input: Float64Array,
-    refRe: Float64Array,
-    refIm: Float64Array,
-    auto: Float64Array,
-    crossRe: Float64Array,
-    crossIm: Float64Array,
-  ): number {
+  forwardCross: ForwardCross = (input, refRe, refIm, auto, crossRe, crossIm) => {
     const bins = this.bins;
     const xr = (this.xr ??= new Float64Array(bins));
     const xi = (this.xi ??= new Float64Array(bins));
     this.forward(input, xr, xi);
-    for (let k = 0; k < bins; k++) {
-      const a = xr[k];
-      const b = xi[k];
-      const p = refRe[k];
-      const q = refIm[k];
-      auto[k] += a * a + b * b;
-      // conj(p + jq)·(a + jb) = (pa + qb) + j(pb − qa)
-      crossRe[k] += p * a + q * b;
-      crossIm[k] += p * b - q * a;
-    }
+    for (let k = 0; k < bins; k++) addCrossLine(k, xr[k], xi[k], refRe, refIm, auto, crossRe, crossIm);
     return xr[0];
-  }
+  };
 }
 
 function isPowerOfTwo(n: number): boolean {

@@ -16,7 +16,11 @@ describe('forcePulseSpectrum', () => {
   it('gives the half-sine pulse’s closed-form level at f = 1/T', () => {
     const spec = forcePulseSpectrum(pulse, fs, { offsetN: 0, fromIndex: 0, toIndex: n })!;
     expect(spec.f[100]).toBe(1000);
-    expect(spec.levelDb[0]).toBe(0);
+    // The level is relative to DC (0 dB there by definition); a positive pulse has |F(f)| ≤ F(0) = ∫x dt,
+    // so no line may stand above it.
+    expect(Math.max(...spec.levelDb)).toBeLessThanOrEqual(spec.levelDb[0]);
+    // closed form at f = 1/(4T): cos²(π/4)/(1 − 1/4)² = 0.5/0.5625, −0.512 dB; at f = 1/T: 1/9, −9.542 dB
+    expect(spec.levelDb[25]).toBeCloseTo(10 * Math.log10(0.5 / 0.5625), 2);
     expect(spec.levelDb[100]).toBeCloseTo(10 * Math.log10(1 / 9), 2);
   });
 

@@ -42,6 +42,15 @@ function run(x: ArrayLike<number>, y: ArrayLike<number> | null, p: Prepared): Sp
   return avg;
 }
 
+/** The checks every Welch function makes at entry (fs, x, y of x's length unless 'none', options), then the averaging. */
+function checkedRun(x: ArrayLike<number>, y: ArrayLike<number> | 'none', fs: number, options: WelchOptions | undefined): { p: Prepared; avg: SpectralAverager } {
+  checkFs(fs);
+  const n = checkSamples(x, 'x');
+  if (y !== 'none') checkSameLength(n, checkSamples(y, 'y'), 'x', 'y');
+  const p = prepare(n, fs, options);
+  return { p, avg: run(x, y === 'none' ? null : y, p) };
+}
+
 /**
  * Power spectral density of a random signal by Welch's method: segments of `segmentLength`
  * samples, `overlapSamples` apart less than a full step, each multiplied by the window, no
@@ -57,10 +66,7 @@ export function welchPsd(
   fs: number,
   options?: WelchOptions,
 ): { f: Float64Array; psd: Float64Array; segments: number } {
-  checkFs(fs);
-  const n = checkSamples(x, 'x');
-  const p = prepare(n, fs, options);
-  const avg = run(x, null, p);
+  const { p, avg } = checkedRun(x, 'none', fs, options);
   return { f: frequencyAxis(p.nseg, fs, avg.bins), psd: oneSided(avg.refAuto, p.nseg, p.scale / avg.count), segments: avg.count };
 }
 
@@ -78,11 +84,7 @@ export function welchCsd(
   fs: number,
   options?: WelchOptions,
 ): { f: Float64Array; re: Float64Array; im: Float64Array; segments: number } {
-  checkFs(fs);
-  const n = checkSamples(x, 'x');
-  checkSameLength(n, checkSamples(y, 'y'), 'x', 'y');
-  const p = prepare(n, fs, options);
-  const avg = run(x, y, p);
+  const { p, avg } = checkedRun(x, y, fs, options);
   const k = p.scale / avg.count;
   return {
     f: frequencyAxis(p.nseg, fs, avg.bins),
@@ -104,10 +106,6 @@ export function welchCoherence(
   fs: number,
   options?: WelchOptions,
 ): { f: Float64Array; coherence: Float64Array; segments: number } {
-  checkFs(fs);
-  const n = checkSamples(x, 'x');
-  checkSameLength(n, checkSamples(y, 'y'), 'x', 'y');
-  const p = prepare(n, fs, options);
-  const avg = run(x, y, p);
+  const { p, avg } = checkedRun(x, y, fs, options);
   return { f: frequencyAxis(p.nseg, fs, avg.bins), coherence: coherenceFromSums(avg, 0), segments: avg.count };
 }

@@ -94,9 +94,11 @@ describe('bad input is refused with a RangeError that names the value', () => {
     const zero = new Float64Array(64);
     const r = dsp.averageFrf([{ force: zero, responses: [zero] }], 100, { ...noWin, hv: true });
     for (const arr of [r.h1[0].re, r.h1[0].im, r.h2[0].re, r.hv![0].re, r.coherence[0], r.gff]) {
+      expect(arr).toHaveLength(33); // 64 samples → 33 one-sided lines
       for (const v of arr) expect(v).toBe(0);
     }
     const c = dsp.welchCoherence(zero, zero, 100, { segmentLength: 16 });
+    expect(c.coherence).toHaveLength(9); // 16-sample segments → 9 one-sided lines
     for (const v of c.coherence) expect(v).toBe(0);
   });
 });

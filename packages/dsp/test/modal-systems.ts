@@ -198,16 +198,23 @@ export function maxRelDiff(a: Complex, b: Complex, k0 = 0, k1 = b.re.length): nu
   return m;
 }
 
+/** M = I kg and K = [[2k, −k], [−k, 2k]] N/m: two 1 kg masses between fixed ends on three springs k (N/m). */
+export function fixedChain2(k: number): { M: number[][]; K: number[][] } {
+  return {
+    M: [
+      [1, 0],
+      [0, 1],
+    ],
+    K: [
+      [2 * k, -k],
+      [-k, 2 * k],
+    ],
+  };
+}
+
 /** 2-DOF of docs/methods.md#chain-2dof-lscf: M = I kg, K = 400·[[2000, −1000], [−1000, 2000]] N/m, ζ = 1 % and 2 %. */
 export function twoDof63(f: Float64Array, references = [0], kind: ModalFrfKind = 'receptance'): FrfSet {
-  const M = [
-    [1, 0],
-    [0, 1],
-  ];
-  const K = [
-    [800000, -400000],
-    [-400000, 800000],
-  ];
+  const { M, K } = fixedChain2(400000);
   // ω² = 400·1000 and 400·3000 (eigenvalues of K, modes [1, 1]/√2 and [1, −1]/√2)
   const w1 = Math.sqrt(400000);
   const w2 = Math.sqrt(1200000);

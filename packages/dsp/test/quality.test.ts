@@ -24,6 +24,7 @@ describe('fit quality numbers', () => {
     expect(full.modes.map((m) => m.mpc)).toEqual([1, 1, 1].map(() => expect.closeTo(1, 9)));
     const missing = fitQuality(set, estimateShapes(set, all.slice(0, 2), { bandHz: [20, 180] }));
     // without the 120 Hz mode its resonance is left unexplained: several percent on every FRF (against < 1e-6 %)
+    expect(missing.frfs).toHaveLength(set.frfs.length);
     for (const x of missing.frfs) expect(x.errorPercent).toBeGreaterThan(5);
   });
 

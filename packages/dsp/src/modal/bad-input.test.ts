@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { cmif, sumFrf } from './cmif.ts';
-import { classifyPoles, pickStablePoles, stabilizationDiagram } from './lscf.ts';
+import { classifyPoles, pickStablePoles } from './stability.ts';
+import { stabilizationDiagram } from './lscf.ts';
 import { estimateShapes, synthesize } from './lsfd.ts';
 import { macMatrix, mpc } from './shape-tools.ts';
 import { axis, twoDof63 } from '../../test/modal-systems.ts';

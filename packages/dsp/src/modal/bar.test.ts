@@ -2,7 +2,8 @@
 import { describe, expect, it } from 'vitest';
 import { mac } from '../assurance.ts';
 import { clusterStablePoles } from './clusters.ts';
-import { pickStablePoles, stabilizationDiagram } from './lscf.ts';
+import { pickStablePoles } from './stability.ts';
+import { stabilizationDiagram } from './lscf.ts';
 import { estimateShapes } from './lsfd.ts';
 import { axis, freeFreeRoot, freeFreeShape, gaussianCosOnly, loadModalFixture } from '../../test/modal-systems.ts';
 import type { FrfSet } from './types.ts';

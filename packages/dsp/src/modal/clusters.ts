@@ -3,6 +3,7 @@
 // one or two orders only is a numerical (noise) pole. This replaces "take the stable poles of the
 // highest order", which at high orders can pick noise poles that happen to pass the three checks.
 import { median } from '../stats.ts';
+import { groupKeepRules, type GroupKeepOptions } from './grouping-options.ts';
 
 /** What clustering needs of a diagram pole. */
 export interface ClusterablePole {
@@ -11,15 +12,9 @@ export interface ClusterablePole {
   stable: 'new' | 'freq' | 'freq-damp' | 'all';
 }
 
-export interface PoleClusterOptions {
+export interface PoleClusterOptions extends GroupKeepOptions {
   /** Poles closer than this relative frequency gap chain into one cluster; default 0.01 (1 %, the frequency tolerance of the stability checks). */
   frequencyTolerance?: number;
-  /** A member whose ζ differs from the cluster's median by more than this fraction is dropped; default 0.5. */
-  dampingTolerance?: number;
-  /** A cluster is kept when its poles come from at least this share of the diagram's orders; default 0.4. */
-  minShare?: number;
-  /** …and from at least this many orders; default 3. */
-  minOrders?: number;
 }
 
 export interface PoleCluster {
@@ -57,17 +52,7 @@ export interface PoleCluster {
 export function clusterStablePoles(diagram: { orders: { order: number; poles: ClusterablePole[] }[] }, options: PoleClusterOptions = {}): PoleCluster[] {
   if (!diagram || !Array.isArray(diagram.orders)) throw new RangeError('diagram has no orders: run stabilizationDiagram first');
   const tol = options.frequencyTolerance ?? 0.01;
-  const dTol = options.dampingTolerance ?? 0.5;
-  const minShare = options.minShare ?? 0.4;
-  const minOrders = options.minOrders ?? 3;
-  for (const [name, v, lo, hi] of [
-    ['frequencyTolerance', tol, 0, 0.5],
-    ['dampingTolerance', dTol, 0, 10],
-    ['minShare', minShare, 0, 1],
-  ] as const) {
-    if (!(Number.isFinite(v) && v > lo && v <= hi)) throw new RangeError(`${name}=${v} must be in (${lo}, ${hi}]`);
-  }
-  if (!(Number.isInteger(minOrders) && minOrders >= 1)) throw new RangeError(`minOrders=${minOrders} must be an integer ≥ 1`);
+  const { dTol, minShare, minOrders } = groupKeepRules(options, [['frequencyTolerance', tol, 0, 0.5]]);
   const totalOrders = diagram.orders.length;
   if (totalOrders === 0) return [];
 

@@ -106,15 +106,8 @@ function hqr(a: Float64Array, n: number, N: number, wr: Float64Array, wi: Float6
   let anorm = 0;
   for (let i = 1; i <= n; i++) for (let j = Math.max(i - 1, 1); j <= n; j++) anorm += Math.abs(a[i * N + j]);
   let nn = n;
-  let t = 0;
-  let p = 0;
-  let q = 0;
-  let r = 0;
-  let s = 0;
-  let w = 0;
-  let x = 0;
-  let y = 0;
-  let z = 0;
+  // Numerical Recipes' scalar names for the shift and the Householder reflector.
+  let [t, p, q, r, s, w, x, y, z] = [0, 0, 0, 0, 0, 0, 0, 0, 0];
   while (nn >= 1) {
     let its = 0;
     let l: number;

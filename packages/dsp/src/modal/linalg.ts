@@ -217,3 +217,37 @@ export function normalise(v: Complex): Complex {
   }
   return { re, im };
 }
+
+/** Σ_c conj(X_ca)·X_cb, i.e. XᴴX, for X = A (transposed false) or Aᵀ, A = ar + j·ai (n×n, row-major parts). */
+function conjGram(ar: Float64Array, ai: Float64Array, n: number, transposed: boolean): [Float64Array, Float64Array] {
+  const gr = new Float64Array(n * n);
+  const gi = new Float64Array(n * n);
+  const at = (c: number, a: number) => (transposed ? a * n + c : c * n + a);
+  for (let a = 0; a < n; a++) {
+    for (let b = 0; b < n; b++) {
+      let sr = 0;
+      let si = 0;
+      for (let c = 0; c < n; c++) {
+        const xr = ar[at(c, a)];
+        const xi = ai[at(c, a)];
+        const yr = ar[at(c, b)];
+        const yi = ai[at(c, b)];
+        sr += xr * yr + xi * yi;
+        si += xr * yi - xi * yr;
+      }
+      gr[a * n + b] = sr;
+      gi[a * n + b] = si;
+    }
+  }
+  return [gr, gi];
+}
+
+/**
+ * AᴴA and AAᴴ of a complex n×n matrix A = ar + j·ai (row-major parts), as real and imaginary parts.
+ * AAᴴ = conj((Aᵀ)ᴴAᵀ), since Σ_c A_ac·conj(A_bc) is the conjugate of Σ_c conj(A_ac)·A_bc.
+ */
+export function gramians(ar: Float64Array, ai: Float64Array, n: number): { ahaRe: Float64Array; ahaIm: Float64Array; aahRe: Float64Array; aahIm: Float64Array } {
+  const [ahaRe, ahaIm] = conjGram(ar, ai, n, false);
+  const [aahRe, conjIm] = conjGram(ar, ai, n, true);
+  return { ahaRe, ahaIm, aahRe, aahIm: conjIm.map((v) => -v) };
+}

@@ -3,7 +3,7 @@
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import type { Complex } from '../types.ts';
 import { eigenvalues } from './linalg-eig.ts';
-import { hermitianEigen, normalise } from './linalg.ts';
+import { gramians, hermitianEigen, normalise } from './linalg.ts';
 import type { LscfCoefficients } from './lscf-normal.ts';
 import type { DiagramPole } from './stability.ts';
 
@@ -105,41 +105,10 @@ function nullVectors(alpha: Float64Array, n: number, ni: number, zre: number, zi
       ai[i * ni + l] = bi;
     }
   }
-  // G1 = AᴴA (right null vector), G2 = AAᴴ (u with uᴴA = 0; the left null vector is conj(u)).
-  const g1r = new Float64Array(ni * ni);
-  const g1i = new Float64Array(ni * ni);
-  const g2r = new Float64Array(ni * ni);
-  const g2i = new Float64Array(ni * ni);
-  for (let a = 0; a < ni; a++) {
-    for (let b = 0; b < ni; b++) {
-      let s1r = 0;
-      let s1i = 0;
-      let s2r = 0;
-      let s2i = 0;
-      for (let c = 0; c < ni; c++) {
-        // (AᴴA)_ab = Σ_c conj(A_ca)·A_cb
-        const xr = ar[c * ni + a];
-        const xi = ai[c * ni + a];
-        const yr = ar[c * ni + b];
-        const yi = ai[c * ni + b];
-        s1r += xr * yr + xi * yi;
-        s1i += xr * yi - xi * yr;
-        // (AAᴴ)_ab = Σ_c A_ac·conj(A_bc)
-        const ur = ar[a * ni + c];
-        const ui = ai[a * ni + c];
-        const vr = ar[b * ni + c];
-        const vi = ai[b * ni + c];
-        s2r += ur * vr + ui * vi;
-        s2i += ui * vr - ur * vi;
-      }
-      g1r[a * ni + b] = s1r;
-      g1i[a * ni + b] = s1i;
-      g2r[a * ni + b] = s2r;
-      g2i[a * ni + b] = s2i;
-    }
-  }
-  const e1 = hermitianEigen(g1r, g1i, ni, true);
-  const e2 = hermitianEigen(g2r, g2i, ni, true);
+  // AᴴA gives the right null vector, AAᴴ u with uᴴA = 0 (the left null vector is conj(u)).
+  const g = gramians(ar, ai, ni);
+  const e1 = hermitianEigen(g.ahaRe, g.ahaIm, ni, true);
+  const e2 = hermitianEigen(g.aahRe, g.aahIm, ni, true);
   const u = e2.vim[ni - 1];
   return {
     right: { re: e1.vre[ni - 1], im: e1.vim[ni - 1] },

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { classifyPoles, pickStablePoles, stabilizationDiagram, type PoleForStability } from './lscf.ts';
+import { classifyPoles, pickStablePoles, type PoleForStability } from './stability.ts';
+import { stabilizationDiagram } from './lscf.ts';
 import { axis, loadModalFixture, threeDof, twoDof63 } from '../../test/modal-systems.ts';
 import { closeModes } from '../../test/close-modes.ts';
 import type { Complex } from '../types.ts';
@@ -30,6 +31,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
   it('recovers the docs/methods.md#chain-2dof-lscf 2-DOF poles to 1e-4 in frequency and 1e-3 in damping at orders 6–20, all stable', () => {
     const set = twoDof63(axis(0, 0.125, 4097), [0]);
     const d = stabilizationDiagram(set, { bandHz: [50, 200], orders: [6, 8, 10, 12, 16, 20] });
+    expect(d.orders).toHaveLength(6);
     for (const o of d.orders) {
       for (let r = 0; r < 2; r++) {
         const p = o.poles.find((q) => rel(q.fHz, sys.twoDof63.fn[r]) < 1e-4);
@@ -59,6 +61,7 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
   it('resolves two modes 1 % apart (100 and 101 Hz, ζ = 0.5 %) with two references at the lowest order', () => {
     const m = closeModes([0, 4], 0);
     const d = stabilizationDiagram(m.set, { bandHz: [95, 106], orders: [2, 4, 6], });
+    expect(d.orders).toHaveLength(3);
     // order 2 with 2 references has 4 poles, i.e. exactly the 2 modes
     for (const o of d.orders) {
       expect(o.poles.length).toBeGreaterThanOrEqual(2);
@@ -94,6 +97,9 @@ describe('stabilizationDiagram (poly-reference LSCF)', () => {
   it('keeps only poles inside the band with 0 < ζ ≤ maxDampingRatio, sorted by frequency', () => {
     const set = twoDof63(axis(0, 0.125, 4097), [0]);
     const d = stabilizationDiagram(set, { bandHz: [50, 200], orders: [30, 40], maxDampingRatio: 0.05 });
+    expect(d.orders).toHaveLength(2);
+    // the band holds both modes, so each order keeps poles to check
+    for (const o of d.orders) expect(o.poles.length).toBeGreaterThanOrEqual(2);
     for (const o of d.orders) {
       for (let r = 0; r < o.poles.length; r++) {
         const p = o.poles[r];

@@ -7,18 +7,6 @@ import { polesOfOrder } from './lscf-poles.ts';
 import { checkTolerances, classifyPoles, type DiagramPole, type StabilityTolerances, type StabilizationDiagram } from './stability.ts';
 import type { FrfSet } from './types.ts';
 
-export { normalise } from './linalg.ts';
-export {
-  classifyPoles,
-  pickStablePoles,
-  DEFAULT_STABILITY_TOLERANCES,
-  type Stability,
-  type StabilityTolerances,
-  type StabilizationDiagram,
-  type DiagramPole,
-  type PoleForStability,
-} from './stability.ts';
-
 /**
  * Default time base: 1/(2Δt) = max(1.25·f_hi, f_lo + f_hi). A wide band then spans the unit circle from
  * 0.8π·f_lo/f_hi to 0.8π, leaving a guard arc of 0.2π each side of z = −1 between the band's top modes and the

@@ -1,7 +1,10 @@
+// Residues (mode shapes) and residual terms of given poles by least squares in the frequency domain
+// (docs/methods.md#lsfd); the QR solver is in least-squares.ts, the synthesis in synthesize.ts.
 import type { Complex } from '../types.ts';
 import { bandLines, kindPower, toGrid } from './frf-set.ts';
-import { normalise } from './lscf.ts';
-import { poleValues } from './poles.ts';
+import { leastSquares } from './least-squares.ts';
+import { normalise } from './linalg.ts';
+import { polePairTerms, poleValues } from './poles.ts';
 import { mpc, realShape } from './shape-tools.ts';
 import type { ComplexValue, FrfSet, ModalFrfKind, PoleInput } from './types.ts';
 
@@ -106,20 +109,15 @@ export function estimateShapes(frfSet: FrfSet, poles: readonly PoleInput[], opti
     G[c * rows + k] = re;
     G[c * rows + nl + k] = im;
   };
+  const t = new Float64Array(4);
   for (let k = 0; k < nl; k++) {
     const w = 2 * Math.PI * g.f[k0 + k];
     for (let r = 0; r < nm; r++) {
-      const { re: a, im: b } = pv[r].lambda;
-      // 1/(jω − λ) and 1/(jω − λ*)
-      const d1 = a * a + (w - b) * (w - b);
-      const d2 = a * a + (w + b) * (w + b);
-      const p1r = -a / d1;
-      const p1i = -(w - b) / d1;
-      const p2r = -a / d2;
-      const p2i = -(w + b) / d2;
-      put(2 * r, k, p1r + p2r, p1i + p2i, w);
+      // 1/(jω − λ) and 1/(jω − λ*) as t = [re₁, im₁, re₂, im₂]
+      polePairTerms(t, pv[r].lambda, w);
+      put(2 * r, k, t[0] + t[2], t[1] + t[3], w);
       // j/(jω − λ) − j/(jω − λ*)
-      put(2 * r + 1, k, -(p1i - p2i), p1r - p2r, w);
+      put(2 * r + 1, k, -(t[1] - t[3]), t[0] - t[2], w);
     }
     if (withRes) {
       put(2 * nm, k, 1, 0, w);
@@ -194,112 +192,4 @@ export function estimateShapes(frfSet: FrfSet, poles: readonly PoleInput[], opti
   };
 }
 
-/**
- * Least squares min‖G·x − b‖ for every column b of B (G rows×np and B rows×nrhs, both column-major) by
- * Householder QR of the column-scaled G. Returns x as nrhs blocks of np values. Throws when G is rank deficient.
- */
-function leastSquares(G: Float64Array, rows: number, np: number, B: Float64Array, nrhs: number): Float64Array {
-  const scale = new Float64Array(np);
-  for (let c = 0; c < np; c++) {
-    let s = 0;
-    for (let k = 0; k < rows; k++) s += G[c * rows + k] * G[c * rows + k];
-    s = Math.sqrt(s);
-    if (!(s > 0) || !Number.isFinite(s)) throw new RangeError(`basis column ${c} is ${s}: a pole or residual term is undefined on the band`);
-    scale[c] = s;
-    for (let k = 0; k < rows; k++) G[c * rows + k] /= s;
-  }
-  const diag = new Float64Array(np);
-  for (let j = 0; j < np; j++) {
-    const cj = j * rows;
-    let nrm = 0;
-    for (let k = j; k < rows; k++) nrm += G[cj + k] * G[cj + k];
-    nrm = Math.sqrt(nrm);
-    if (!(nrm > 1e-10)) {
-      throw new RangeError(
-        `the fit is singular at unknown ${j} (${j < np - 2 || np % 2 === 1 ? `pole ${Math.floor(j / 2)}` : 'residual term'}): two poles too close for the band's resolution, or a basis the band cannot separate`,
-      );
-    }
-    const alpha = G[cj + j] > 0 ? -nrm : nrm;
-    G[cj + j] -= alpha; // v = x − α·e_j, stored in place
-    let vv = 0;
-    for (let k = j; k < rows; k++) vv += G[cj + k] * G[cj + k];
-    diag[j] = alpha;
-    const apply = (M: Float64Array, c: number) => {
-      let s = 0;
-      for (let k = j; k < rows; k++) s += G[cj + k] * M[c + k];
-      s = (2 * s) / vv;
-      for (let k = j; k < rows; k++) M[c + k] -= s * G[cj + k];
-    };
-    for (let c = j + 1; c < np; c++) apply(G, c * rows);
-    for (let c = 0; c < nrhs; c++) apply(B, c * rows);
-  }
-  const x = new Float64Array(nrhs * np);
-  for (let c = 0; c < nrhs; c++) {
-    const b = c * rows;
-    for (let i = np - 1; i >= 0; i--) {
-      let s = B[b + i];
-      for (let j = i + 1; j < np; j++) s -= G[j * rows + i] * x[c * np + j];
-      x[c * np + i] = s / diag[i];
-    }
-    for (let i = 0; i < np; i++) x[c * np + i] /= scale[i];
-  }
-  return x;
-}
-
-/**
- * FRF synthesised from a modal model at the frequencies f (Hz): the pole–residue sum of docs/methods.md#modal-model
- * plus the model's residual terms, H = (jω)^p·{Σ_r [A_r/(jω − λ_r) + conj(A_r)/(jω − λ_r*)] + U − L/ω²}, in the
- * requested kind (receptance m/N, mobility (m/s)/N, accelerance (m/s²)/N), whatever kind was fitted.
- * (response, reference) must be a pair of the model; the swapped pair is accepted by reciprocity (docs/methods.md#modal-model).
- * The residual terms are only meaningful inside the fitted band; at 0 Hz the lower term is left out.
- */
-export function synthesize(model: ModalModel, f: ArrayLike<number>, response: string, reference: string, kind: ModalFrfKind): Complex {
-  if (!model || !Array.isArray(model.modes)) throw new RangeError(`model=${String(model)} must come from estimateShapes`);
-  const p = kindPower(kind);
-  if (!f || typeof f.length !== 'number' || f.length === 0) throw new RangeError('f is empty: give frequencies in Hz');
-  for (let k = 0; k < f.length; k++) {
-    if (!Number.isFinite(f[k]) || f[k] < 0) throw new RangeError(`f[${k}]=${f[k]} Hz must be finite and ≥ 0`);
-  }
-  let o = model.responses.indexOf(response);
-  let i = model.references.indexOf(reference);
-  if (o < 0 || i < 0) {
-    o = model.responses.indexOf(reference);
-    i = model.references.indexOf(response);
-  }
-  if (o < 0 || i < 0) {
-    throw new RangeError(`the model has no FRF of response ${response}, reference ${reference} (responses ${model.responses.join(', ')}; references ${model.references.join(', ')})`);
-  }
-  const re = new Float64Array(f.length);
-  const im = new Float64Array(f.length);
-  for (let k = 0; k < f.length; k++) {
-    const w = 2 * Math.PI * f[k];
-    let hr = 0;
-    let hi = 0;
-    for (const m of model.modes) {
-      const { re: a, im: b } = m.lambda;
-      const Ar = m.residues[i].re[o];
-      const Ai = m.residues[i].im[o];
-      // A/(jω − λ) + A*/(jω − λ*)
-      const d1 = a * a + (w - b) * (w - b);
-      const d2 = a * a + (w + b) * (w + b);
-      const p1r = -a / d1;
-      const p1i = -(w - b) / d1;
-      const p2r = -a / d2;
-      const p2i = -(w + b) / d2;
-      hr += Ar * p1r - Ai * p1i + Ar * p2r + Ai * p2i;
-      hi += Ar * p1i + Ai * p1r + Ar * p2i - Ai * p2r;
-    }
-    if (model.residuals) {
-      hr += model.residuals.upper[i][o];
-      if (w > 0) hr -= model.residuals.lower[i][o] / (w * w);
-    }
-    for (let q = 0; q < p; q++) {
-      const t = -w * hi;
-      hi = w * hr;
-      hr = t;
-    }
-    re[k] = hr;
-    im[k] = hi;
-  }
-  return { re, im };
-}
+export { synthesize } from './synthesize.ts';

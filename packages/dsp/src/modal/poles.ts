@@ -27,3 +27,17 @@ export function poleValues(p: PoleInput, name: string): PoleValues {
   const wn = 2 * Math.PI * q.fHz;
   return { fHz: q.fHz, zeta: q.zeta, lambda: { re: -q.zeta * wn, im: wn * Math.sqrt(1 - q.zeta * q.zeta) } };
 }
+
+/**
+ * The pole pair's partial fractions at ω (rad/s): 1/(jω − λ) and 1/(jω − λ*) for λ = a + jb, written
+ * into out as [re₁, im₁, re₂, im₂] (out is reused by the callers' loops; docs/methods.md#modal-model).
+ */
+export function polePairTerms(out: Float64Array, lambda: ComplexValue, w: number): void {
+  const { re: a, im: b } = lambda;
+  const d1 = a * a + (w - b) * (w - b);
+  const d2 = a * a + (w + b) * (w + b);
+  out[0] = -a / d1;
+  out[1] = -(w - b) / d1;
+  out[2] = -a / d2;
+  out[3] = -(w + b) / d2;
+}

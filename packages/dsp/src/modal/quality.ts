@@ -2,7 +2,7 @@
 // stable column of the stabilization diagram near them. The API turns them into words.
 import { bandLines, toGrid } from './frf-set.ts';
 import type { ModalModel } from './lsfd.ts';
-import { synthesize } from './lsfd.ts';
+import { synthesize } from './synthesize.ts';
 import type { IndicatorCurves } from './cmif.ts';
 import type { FrfSet } from './types.ts';
 

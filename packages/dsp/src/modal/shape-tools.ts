@@ -34,13 +34,10 @@ export function macMatrix(shapesA: readonly Shape[], shapesB: readonly Shape[]):
 }
 
 /**
- * Modal phase collinearity of a complex shape ψ = x + jy (dimensionless, 0…1): with
- * a = xᵀx, b = xᵀy, c = yᵀy (the uncentred 2×2 matrix [[a, b], [b, c]] whose eigenvalues are λ₁ ≥ λ₂),
- * MPC = ((λ₁ − λ₂)/(λ₁ + λ₂))² = ((a − c)² + 4b²)/(a + c)². 1 for a shape whose entries share one phase
- * (up to sign), 0 for [1, j]. Variant: no centring of the data (docs/methods.md#mpc).
- * Source: Pappa, Elliott & Schenk 1993 (docs/methods.md#mpc). Throws for an all-zero shape.
+ * The shape's points x_i + j·y_i in the complex plane and their second moments a = xᵀx, b = xᵀy, c = yᵀy.
+ * Throws a RangeError for a non-finite entry, or for an all-zero shape (`why` says what is then undefined).
  */
-export function mpc(shape: Shape): number {
+function secondMoments(shape: Shape, why: string): { re: ArrayLike<number>; im: ArrayLike<number> | null; a: number; b: number; c: number } {
   const { re, im } = parts(shape, 'shape');
   let a = 0;
   let b = 0;
@@ -53,7 +50,19 @@ export function mpc(shape: Shape): number {
     b += x * y;
     c += y * y;
   }
-  if (!(a + c > 0)) throw new RangeError('shape is all zeros: MPC is undefined');
+  if (!(a + c > 0)) throw new RangeError(`shape is all zeros: ${why}`);
+  return { re, im, a, b, c };
+}
+
+/**
+ * Modal phase collinearity of a complex shape ψ = x + jy (dimensionless, 0…1): with
+ * a = xᵀx, b = xᵀy, c = yᵀy (the uncentred 2×2 matrix [[a, b], [b, c]] whose eigenvalues are λ₁ ≥ λ₂),
+ * MPC = ((λ₁ − λ₂)/(λ₁ + λ₂))² = ((a − c)² + 4b²)/(a + c)². 1 for a shape whose entries share one phase
+ * (up to sign), 0 for [1, j]. Variant: no centring of the data (docs/methods.md#mpc).
+ * Source: Pappa, Elliott & Schenk 1993 (docs/methods.md#mpc). Throws for an all-zero shape.
+ */
+export function mpc(shape: Shape): number {
+  const { a, b, c } = secondMoments(shape, 'MPC is undefined');
   return Math.min(1, ((a - c) * (a - c) + 4 * b * b) / ((a + c) * (a + c)));
 }
 
@@ -63,17 +72,7 @@ export function mpc(shape: Shape): number {
  * θ = ½·atan2(2xᵀy, xᵀx − yᵀy)), its real part, scaled so the largest entry is +1. Dimensionless.
  */
 export function realShape(shape: Complex): Float64Array {
-  const { re, im } = parts(shape, 'shape');
-  let a = 0;
-  let b = 0;
-  let c = 0;
-  for (let i = 0; i < re.length; i++) {
-    const y = im ? im[i] : 0;
-    a += re[i] * re[i];
-    b += re[i] * y;
-    c += y * y;
-  }
-  if (!(a + c > 0)) throw new RangeError('shape is all zeros: it has no real approximation');
+  const { re, im, a, b, c } = secondMoments(shape, 'it has no real approximation');
   const th = 0.5 * Math.atan2(2 * b, a - c);
   const ct = Math.cos(th);
   const st = Math.sin(th);

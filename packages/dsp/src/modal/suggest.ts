@@ -7,6 +7,7 @@ import { mac } from '../assurance.ts';
 import { median } from '../stats.ts';
 import type { Complex } from '../types.ts';
 import type { Stability } from './stability.ts';
+import { groupKeepRules, type GroupKeepOptions } from './grouping-options.ts';
 
 /** What `suggestModes` needs of a diagram pole; the vectors are optional (a diagram sent to a browser may lack them). */
 export interface SuggestablePole {
@@ -17,19 +18,13 @@ export interface SuggestablePole {
   participation?: Complex;
 }
 
-export interface SuggestOptions {
+export interface SuggestOptions extends GroupKeepOptions {
   /** Largest |Δf|/f between a pole and the mode's latest member; default 0.01 with vectors, 0.002 without. */
   frequencyTolerance?: number;
   /** Smallest MAC between a pole's vectors (shape, and participation when there are ≥ 2 references) and the mode's latest member; default 0.9. */
   macThreshold?: number;
   /** Poles of these classes are clustered; default ['all'] (stable in f, ζ and vector). */
   classes?: Stability[];
-  /** A member whose ζ differs from the mode's median by more than this fraction is dropped; default 0.5. */
-  dampingTolerance?: number;
-  /** A mode is kept when it has poles at this share of the diagram's orders (default 0.4) … */
-  minShare?: number;
-  /** … and at least this many orders (default 3). */
-  minOrders?: number;
 }
 
 /** One suggested mode. */
@@ -69,18 +64,10 @@ export function suggestModes(diagram: { orders: { order: number; poles: Suggesta
   const fTol = options.frequencyTolerance ?? (withVectors ? 0.01 : 0.002);
   const macMin = options.macThreshold ?? 0.9;
   const classes = options.classes ?? ['all'];
-  const dTol = options.dampingTolerance ?? 0.5;
-  const minShare = options.minShare ?? 0.4;
-  const minOrders = options.minOrders ?? 3;
-  for (const [name, v, lo, hi] of [
+  const { dTol, minShare, minOrders } = groupKeepRules(options, [
     ['frequencyTolerance', fTol, 0, 0.5],
     ['macThreshold', macMin, 0, 1],
-    ['dampingTolerance', dTol, 0, 10],
-    ['minShare', minShare, 0, 1],
-  ] as const) {
-    if (typeof v !== 'number' || !(Number.isFinite(v) && v > lo && v <= hi)) throw new RangeError(`${name}=${String(v)} must be in (${lo}, ${hi}]`);
-  }
-  if (!Number.isInteger(minOrders) || minOrders < 1) throw new RangeError(`minOrders=${String(minOrders)} must be an integer ≥ 1`);
+  ]);
   if (!Array.isArray(classes) || classes.length === 0) throw new RangeError('classes is empty: give stability classes such as ["all"]');
   const totalOrders = diagram.orders.length;
   if (totalOrders === 0) return [];

@@ -1,7 +1,7 @@
 // The test systems themselves are checked first: the TypeScript builders against numpy/scipy fixtures
 // (tests/reference/modal_fixtures.py → tests/fixtures/modal/) and against the check values of docs/methods.md#check-systems.
 import { describe, expect, it } from 'vitest';
-import { axis, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, twoDof63 } from '../../test/modal-systems.ts';
+import { axis, fixedChain2, freeFreeRoot, freeFreeShape, lin, loadModalFixture, modalDamping, rayleigh, systemFrfs, threeDof, twoDof63 } from '../../test/modal-systems.ts';
 
 const sys = loadModalFixture('systems.json');
 const bar = loadModalFixture('free-free-bar.json');
@@ -16,22 +16,28 @@ function gridAt(set: ReturnType<typeof twoDof63>, k: number, n: number, refs: nu
   );
 }
 
+/** Every H_ij of the n×n set equals the fixture's (re, im)[k][i·n + j] to 1e-10 relative, on a non-empty axis. */
+function expectSameAsFixture(set: ReturnType<typeof twoDof63>, c: { f: number[]; re: number[][]; im: number[][] }, n: number) {
+  expect(c.f.length).toBeGreaterThan(0);
+  const refs = Array.from({ length: n }, (_, j) => j);
+  for (let k = 0; k < c.f.length; k++) {
+    const H = gridAt(set, k, n, refs);
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        const re = c.re[k][i * n + j];
+        const im = c.im[k][i * n + j];
+        expect(Math.hypot(H[i][j].re - re, H[i][j].im - im) / Math.hypot(re, im)).toBeLessThan(1e-10);
+      }
+    }
+  }
+}
+
 describe('test systems', () => {
   it('builds the docs/methods.md#chain-2dof-lscf 2-DOF receptances exactly as numpy.linalg.inv(K − ω²M + jωC)', () => {
     const c = sys.twoDof63;
     const f = Float64Array.from(c.f as number[]);
-    const set = twoDof63(f, [0, 1]);
-    for (let k = 0; k < f.length; k++) {
-      const H = gridAt(set, k, 2, [0, 1]);
-      for (let i = 0; i < 2; i++) {
-        for (let j = 0; j < 2; j++) {
-          const re = c.re[k][i * 2 + j];
-          const im = c.im[k][i * 2 + j];
-          // numpy 2.4 fixture systems.json, rounding-level agreement
-          expect(Math.hypot(H[i][j].re - re, H[i][j].im - im) / Math.hypot(re, im)).toBeLessThan(1e-10);
-        }
-      }
-    }
+    // numpy 2.4 fixture systems.json, rounding-level agreement
+    expectSameAsFixture(twoDof63(f, [0, 1]), c, 2);
     // scipy.linalg.eig of the state matrix (fixture): Rayleigh damping gives exactly 1 % and 2 %
     expect(c.zeta[0]).toBeCloseTo(0.01, 12);
     expect(c.zeta[1]).toBeCloseTo(0.02, 12);
@@ -43,36 +49,8 @@ describe('test systems', () => {
   it('builds the docs/methods.md#chain-3dof 3-DOF receptances with modal damping exactly as numpy does', () => {
     const c = sys.threeDof73d;
     const f = Float64Array.from(c.f as number[]);
-    const K = [
-      [2000, -1000, 0],
-      [-1000, 2000, -1000],
-      [0, -1000, 2000],
-    ];
-    const M = [
-      [1, 0, 0],
-      [0, 1, 0],
-      [0, 0, 1],
-    ];
-    const s = Math.SQRT1_2;
-    // docs/methods.md#chain-3dof: ω² = (2 − √2, 2, 2 + √2)·k/m, modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½]
-    const phi = [
-      [0.5, -s, 0.5],
-      [s, 0, -s],
-      [0.5, s, 0.5],
-    ];
-    const w = [2 - Math.SQRT2, 2, 2 + Math.SQRT2].map((v) => Math.sqrt(1000 * v));
-    const set = systemFrfs(M, K, modalDamping(M, phi, w, [0.01, 0.015, 0.02]), f, [0, 1, 2]);
-    for (let k = 0; k < f.length; k++) {
-      const H = gridAt(set, k, 3, [0, 1, 2]);
-      for (let i = 0; i < 3; i++) {
-        for (let j = 0; j < 3; j++) {
-          const re = c.re[k][i * 3 + j];
-          const im = c.im[k][i * 3 + j];
-          // numpy 2.4 fixture systems.json
-          expect(Math.hypot(H[i][j].re - re, H[i][j].im - im) / Math.hypot(re, im)).toBeLessThan(1e-10);
-        }
-      }
-    }
+    // numpy 2.4 fixture systems.json (ω² = (2 − √2, 2, 2 + √2)·k/m, modes [½, √2/2, ½], [−√2/2, 0, √2/2], [½, −√2/2, ½])
+    expectSameAsFixture(threeDof(f, 'receptance', [0, 1, 2]), c, 3);
     // docs/methods.md#chain-3dof: 3.85203, 7.11763 and 9.29963 Hz (scipy.linalg.eigh, fixture)
     expect(c.undampedHz[0]).toBeCloseTo(3.85203, 5);
     expect(c.undampedHz[1]).toBeCloseTo(7.11763, 5);
@@ -81,14 +59,7 @@ describe('test systems', () => {
   });
 
   it('gives the damped docs/methods.md#chain-2dof check values α₁₁(6 Hz) and α₁₂(ω₂)', () => {
-    const M = [
-      [1, 0],
-      [0, 1],
-    ];
-    const K = [
-      [2000, -1000],
-      [-1000, 2000],
-    ];
+    const { M, K } = fixedChain2(1000);
     // docs/methods.md#chain-2dof: a = 0.801921 s⁻¹, b = 4.62990e-4 s give ζ = 2 % in both modes
     const { a, b } = rayleigh(0.02, Math.sqrt(1000), 0.02, Math.sqrt(3000));
     expect(a).toBeCloseTo(0.801921, 6);

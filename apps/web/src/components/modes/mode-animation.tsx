@@ -223,7 +223,7 @@ export function ModeAnimation({ points, lines, mode, amplitude, speed, playing, 
   if (failed) return <p className="text-sm text-bad">The animation could not be drawn: {failed}</p>;
   return (
     <div>
-      <div ref={ref} role="img" aria-label={`Mode ${mode.mode} at ${mode.fHz.toFixed(1)} Hz animated on the geometry; the undeformed wireframe is dashed`} className="w-full" style={{ height }} data-testid="mode-animation" />
+      <div ref={ref} role="img" aria-label={`Mode ${mode.mode} at ${mode.fHz.toFixed(1)} Hz animated on the geometry; the undeformed wireframe is dashed`} className="w-full" style={{ height }} data-testid="mode-animation" data-drawn={ready > 0 ? "yes" : "no"} />
       {disp.unmatched.length > 0 && (
         <p className="mt-1 text-xs text-warn">
           <span aria-hidden>! </span>
