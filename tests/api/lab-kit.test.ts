@@ -116,7 +116,8 @@ describe('bookings', () => {
     // The outsider leads the other campaign: days 8–12 overlap days 1–10 (8, 9, 10 in common).
     const other = await crew.outsider.agent.post(`/api/campaigns/${crew.otherCampaignId}/bookings`).send({ labItemId: hammerId, fromOn: dayFromToday(8), toOn: dayFromToday(12) });
     expect(other.status).toBe(201);
-    expect(other.body.overlaps).toEqual([{ id: expect.any(String), campaignId: crew.campaignId, campaignName: 'Bracket modal survey lab', fromOn: dayFromToday(1), toOn: dayFromToday(10), bookedByName: 'Lena Lead lab' }]);
+    // The outsider is not a member of the first campaign: the dates, not its name or who booked.
+    expect(other.body.overlaps).toEqual([{ id: expect.any(String), campaignId: null, campaignName: null, fromOn: dayFromToday(1), toOn: dayFromToday(10), bookedByName: null, otherCampaign: 'booked by another campaign' }]);
     const later = await crew.outsider.agent.post(`/api/campaigns/${crew.otherCampaignId}/bookings`).send({ labItemId: hammerId, fromOn: dayFromToday(11), toOn: dayFromToday(20) });
     expect(later.body.overlaps, 'days 11–20 do not meet days 1–10').toEqual([]);
     const mine = await crew.viewer.agent.get(`/api/campaigns/${crew.campaignId}/bookings`);
@@ -124,6 +125,8 @@ describe('bookings', () => {
     expect(mine.body.bookings).toHaveLength(1);
     // Days 1–10 meet days 8–12 and not days 11–20.
     expect(mine.body.bookings[0].overlaps.map((o: { fromOn: string; toOn: string }) => [o.fromOn, o.toOn])).toEqual([[dayFromToday(8), dayFromToday(12)]]);
+    // The viewer is not in the outsider's campaign either: its booking shows as another campaign's.
+    expect(mine.body.bookings[0].overlaps[0]).toMatchObject({ campaignName: null, bookedByName: null, otherCampaign: 'booked by another campaign' });
   });
 
   it('refuses bad dates and a booking by an engineer', async () => {

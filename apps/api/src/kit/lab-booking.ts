@@ -9,21 +9,28 @@ import type { Db } from '@resonote/db/client';
 import { audit, type Tx } from '../http/audit.ts';
 import { conflict } from '../errors.ts';
 import { labName, type LabRow } from './lab-item.ts';
+import { bookingAsSeen, campaignsOf } from './lab-inventory.ts';
+import type { SessionUser } from '../context.ts';
 
-/** Bookings of `labItemId` (other than `exceptId`) whose dates overlap [fromOn, toOn], with campaign and person. */
-export async function overlapping(db: Db | Tx, labItemId: string, fromOn: string, toOn: string, exceptCampaignId?: string) {
-  return db
+/**
+ * Bookings of `labItemId` (other than `exceptCampaignId`'s) whose dates overlap [fromOn, toOn], as
+ * `me` may see them: campaign and person only for a member of that campaign or an admin.
+ */
+export async function overlapping(db: Db | Tx, labItemId: string, fromOn: string, toOn: string, exceptCampaignId: string, me: Pick<SessionUser, 'id' | 'role'>) {
+  const mine = await campaignsOf(db, me.id);
+  const rows = await db
     .select({ id: labBooking.id, campaignId: labBooking.campaignId, campaignName: campaign.name, fromOn: labBooking.fromOn, toOn: labBooking.toOn, bookedByName: user.name })
     .from(labBooking)
     .innerJoin(campaign, eq(campaign.id, labBooking.campaignId))
     .leftJoin(user, eq(user.id, labBooking.bookedBy))
-    .where(and(eq(labBooking.labItemId, labItemId), lte(labBooking.fromOn, toOn), gte(labBooking.toOn, fromOn), exceptCampaignId ? ne(labBooking.campaignId, exceptCampaignId) : undefined))
+    .where(and(eq(labBooking.labItemId, labItemId), lte(labBooking.fromOn, toOn), gte(labBooking.toOn, fromOn), ne(labBooking.campaignId, exceptCampaignId)))
     .orderBy(asc(labBooking.fromOn));
+  return rows.map((b) => bookingAsSeen(b, me, mine));
 }
 
-export async function bookLabItem(tx: Tx, campaignId: string, item: LabRow, body: z.infer<typeof bookingCreateSchema>, me: { id: string }) {
+export async function bookLabItem(tx: Tx, campaignId: string, item: LabRow, body: z.infer<typeof bookingCreateSchema>, me: Pick<SessionUser, 'id' | 'role'>) {
   if (item.retired) throw conflict(`${labName(item)} is retired in the lab inventory; choose another item.`);
-  const overlaps = await overlapping(tx, item.id, body.fromOn, body.toOn, campaignId);
+  const overlaps = await overlapping(tx, item.id, body.fromOn, body.toOn, campaignId, me);
   let kit: typeof kitItem.$inferSelect | null = null;
   if (item.kind !== 'conditioner') {
     // The campaign's copy: the one linked already, or one registered by hand with the same identity, or a new one.

@@ -6,11 +6,33 @@ import { asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import { calibrationState } from '@resonote/contracts';
 import { campaign, campaignMember, labBooking, labCalibration, labItem, user } from '@resonote/db/schema';
 import type { Db } from '@resonote/db/client';
+import type { Tx } from '../http/audit.ts';
 import type { SessionUser } from '../context.ts';
 import { labItemView, todayISO } from './lab-item.ts';
 
 /** The words a booking of a campaign the reader is not in carries instead of the campaign. */
 export const OTHER_CAMPAIGN = 'booked by another campaign';
+
+interface BookingRow {
+  id: string;
+  campaignId: string;
+  campaignName: string;
+  fromOn: string;
+  toOn: string;
+  bookedByName: string | null;
+}
+
+/** A booking as `me` may see it: whole to a member of its campaign or an admin, else only its dates. */
+export function bookingAsSeen(b: BookingRow, me: Pick<SessionUser, 'role'>, myCampaigns: ReadonlySet<string>) {
+  return me.role === 'admin' || myCampaigns.has(b.campaignId)
+    ? { id: b.id, campaignId: b.campaignId, campaignName: b.campaignName, fromOn: b.fromOn, toOn: b.toOn, bookedByName: b.bookedByName, otherCampaign: null }
+    : { id: b.id, campaignId: null, campaignName: null, fromOn: b.fromOn, toOn: b.toOn, bookedByName: null, otherCampaign: OTHER_CAMPAIGN };
+}
+
+/** The campaigns `userId` is a member of. */
+export async function campaignsOf(db: Db | Tx, userId: string): Promise<Set<string>> {
+  return new Set((await db.select({ campaignId: campaignMember.campaignId }).from(campaignMember).where(eq(campaignMember.userId, userId))).map((m) => m.campaignId));
+}
 
 export async function labInventory(db: Db, me: Pick<SessionUser, 'id' | 'role'>) {
   const memberships = await db.select({ campaignId: campaignMember.campaignId, role: campaignMember.role }).from(campaignMember).where(eq(campaignMember.userId, me.id));
@@ -30,11 +52,7 @@ export async function labInventory(db: Db, me: Pick<SessionUser, 'id' | 'role'>)
         .where(inArray(labBooking.labItemId, ids))
         .orderBy(asc(labBooking.fromOn))
     : [];
-  const seen = bookings.map((b) =>
-    me.role === 'admin' || mine.has(b.campaignId)
-      ? { ...b, otherCampaign: null }
-      : { id: b.id, labItemId: b.labItemId, campaignId: null, campaignName: null, fromOn: b.fromOn, toOn: b.toOn, bookedByName: null, otherCampaign: OTHER_CAMPAIGN },
-  );
+  const seen = bookings.map((b) => ({ labItemId: b.labItemId, ...bookingAsSeen(b, me, mine) }));
   const today = todayISO();
   return {
     today,

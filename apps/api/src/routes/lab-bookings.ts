@@ -16,8 +16,8 @@ export function registerLabBookingRoutes({ routes, db }: Deps): void {
     tag: 'Lab kit',
     access: 'viewer',
     summary: 'The lab kit this campaign has booked, each with the other campaigns that book the same item on overlapping dates',
-    returns: '{ bookings: [{ id, labItemId, kind, model, serial, fromOn, toOn, kitItemId, bookedByName, overlaps: [{ campaignName, fromOn, toOn, bookedByName }] }] }',
-    handler: async ({ campaign: access }) => {
+    returns: '{ bookings: [{ id, labItemId, kind, model, serial, fromOn, toOn, kitItemId, bookedByName, overlaps: [{ id, campaignId, campaignName, fromOn, toOn, bookedByName, otherCampaign }] }] } — campaign and person only to members of that campaign (and admins); others read otherCampaign',
+    handler: async ({ campaign: access, user: me }) => {
       const rows = await db
         .select({ id: labBooking.id, labItemId: labBooking.labItemId, kind: labItem.kind, model: labItem.model, serial: labItem.serial, fromOn: labBooking.fromOn, toOn: labBooking.toOn, kitItemId: labBooking.kitItemId, bookedByName: user.name, createdAt: labBooking.createdAt })
         .from(labBooking)
@@ -26,7 +26,7 @@ export function registerLabBookingRoutes({ routes, db }: Deps): void {
         .where(eq(labBooking.campaignId, access.campaignId))
         .orderBy(asc(labBooking.fromOn), asc(labItem.model));
       const bookings = [];
-      for (const r of rows) bookings.push({ ...r, overlaps: await overlapping(db, r.labItemId, r.fromOn, r.toOn, access.campaignId) });
+      for (const r of rows) bookings.push({ ...r, overlaps: await overlapping(db, r.labItemId, r.fromOn, r.toOn, access.campaignId, me) });
       return { bookings };
     },
   });
@@ -39,7 +39,7 @@ export function registerLabBookingRoutes({ routes, db }: Deps): void {
     summary: 'Book a lab kit item for dates; a hammer or accelerometer joins the campaign’s Kit (with its calibration history) the first time. Overlapping bookings elsewhere are answered, not refused',
     body: bookingCreateSchema,
     status: 201,
-    returns: '{ booking, kitItem | null, overlaps: [{ campaignName, fromOn, toOn, bookedByName }] }',
+    returns: '{ booking, kitItem | null, overlaps: [{ id, campaignId, campaignName, fromOn, toOn, bookedByName, otherCampaign }] }',
     handler: ({ body, campaign: access, user: me }) => db.transaction(async (tx) => bookLabItem(tx, access.campaignId, await lockLabItem(tx, body.labItemId), body, me)),
   });
 

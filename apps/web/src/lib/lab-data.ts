@@ -27,11 +27,13 @@ export interface LabItem {
 
 export interface Overlap {
   id: string;
-  campaignId: string;
-  campaignName: string;
+  /** Null, with `otherCampaign` in words, when the reader is not a member of the booking's campaign. */
+  campaignId: string | null;
+  campaignName: string | null;
   fromOn: string;
   toOn: string;
   bookedByName: string | null;
+  otherCampaign: string | null;
 }
 export interface Booking {
   id: string;

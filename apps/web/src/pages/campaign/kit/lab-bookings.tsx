@@ -23,7 +23,7 @@ function OverlapNote({ overlaps }: { overlaps: Overlap[] }) {
       {overlaps.map((o, i) => (
         <span key={o.id}>
           {i > 0 && '; '}
-          <span className="font-medium">{o.campaignName}</span>
+          <span className="font-medium">{o.campaignName ?? o.otherCampaign}</span>
           {o.bookedByName ? ` (${o.bookedByName})` : ''} <span className="num">{o.fromOn} → {o.toOn}</span>
         </span>
       ))}
@@ -60,7 +60,7 @@ export function LabBookings({ campaignId, canLead }: { campaignId: string; canLe
     try {
       const answer = await api<{ overlaps: Overlap[] }>(`/campaigns/${campaignId}/bookings`, { body: parsed.data });
       await refresh();
-      toast(answer.overlaps.length ? 'info' : 'ok', answer.overlaps.length ? `Booked. It is also booked on overlapping dates by ${answer.overlaps.map((o) => o.campaignName).join(', ')}; agree the hand-over with them.` : 'Booked; the item is in this campaign’s Kit.');
+      toast(answer.overlaps.length ? 'info' : 'ok', answer.overlaps.length ? `Booked. It is also booked on overlapping dates by ${answer.overlaps.map((o) => o.campaignName ?? o.otherCampaign).join(', ')}; agree the hand-over with them.` : 'Booked; the item is in this campaign’s Kit.');
       setAdding(false);
     } catch (err) {
       fail(err);
