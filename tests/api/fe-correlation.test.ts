@@ -25,7 +25,7 @@ let modelId: string;
 
 /** (f_test − f_model)/f_model × 100 for a model with K × 1.04 and the same M (f ∝ √k). */
 const EXPECTED_DIFF_PERCENT = (1 / Math.sqrt(1.04) - 1) * 100;
-// Euler–Bernoulli free–free bar, weak direction (field-reference values used by tests/api/modes.test.ts).
+// Euler–Bernoulli free–free bar, weak direction, 1000 × 40 × 10 mm steel (docs/methods.md#free-free-beam; the same values as tests/api/modes.test.ts).
 const HANDBOOK_HZ = [53.17, 146.55, 287.3, 474.93];
 
 beforeAll(async () => {
