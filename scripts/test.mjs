@@ -31,7 +31,12 @@ let skipped = 0;
 if (fs.existsSync(report)) {
   const json = JSON.parse(fs.readFileSync(report, 'utf8'));
   passed = json.numPassedTests ?? 0;
-  failed = (json.numFailedTests ?? 0) + (json.numFailedTestSuites ?? 0);
+  // A failed test counts once; a file that failed outside its tests (set-up, import, hooks) counts
+  // as one more failure, named below. (numFailedTestSuites would count each failed test's describe
+  // blocks again.)
+  const brokenFiles = (json.testResults ?? []).filter((f) => f.status === 'failed' && !(f.assertionResults ?? []).some((a) => a.status === 'failed'));
+  for (const f of brokenFiles) console.log(`failed outside its tests: ${path.relative(root, f.name)}${f.message ? ` (${String(f.message).split('\n')[0]})` : ''}`);
+  failed = (json.numFailedTests ?? 0) + brokenFiles.length;
   skipped = (json.numPendingTests ?? 0) + (json.numTodoTests ?? 0);
 }
 const code = result.status === 0 && failed === 0 && passed > 0 ? 0 : 1;
