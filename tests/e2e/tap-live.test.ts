@@ -303,9 +303,16 @@ describe('Tap with the live input on a calibrator', () => {
       await page.getByTestId('live-start').click();
       await page.locator('[data-testid="live-panel"][data-engine="armed"]').waitFor({ timeout: 20_000 });
       await page.getByTestId('sensitivity-check').locator('summary').click();
-      await page.getByRole('button', { name: 'Record the calibrator' }).click();
       const result = page.getByTestId('sensitivity-result');
-      await result.filter({ hasText: 'Stored as a check.' }).waitFor({ timeout: 30_000 });
+      const irregular = page.getByText(/came out irregular .* record the calibrator again/);
+      // A loaded machine can drop a quantum of the fake device's stream: the page then says so and
+      // stores nothing, and the engineer records again (at most three tries here).
+      for (let attempt = 1; ; attempt++) {
+        await page.getByRole('button', { name: 'Record the calibrator' }).click();
+        await result.filter({ hasText: 'Stored as a check.' }).or(irregular).first().waitFor({ timeout: 30_000 });
+        if (!(await irregular.count())) break;
+        expect(attempt, (await irregular.textContent()) ?? '').toBeLessThan(3);
+      }
       const text = (await result.textContent())!;
       const m = /Measured ([\d.]+) mV\/\(m\/s²\) at ([\d.]+) Hz against the kit's ([\d.]+) mV\/\(m\/s²\): ([+-][\d.]+) % \(([+-][\d.]+) dB\)/.exec(text);
       expect(m, text).not.toBeNull();

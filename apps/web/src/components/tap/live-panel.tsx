@@ -322,6 +322,7 @@ function SensitivityCheck({ campaignId, channels, scaling, grab }: { campaignId:
       const x = rec.channels[ch.channel - 1]!;
       const volts = Float32Array.from(x, (v) => v * sc.fullScaleVolts);
       const tone = toneOf(volts, rec.sampleRateHz);
+      if (tone.irregularCycles > 0) throw new RangeError(`${tone.irregularCycles} ${tone.irregularCycles === 1 ? 'cycle' : 'cycles'} of the tone came out irregular (a break in the stream, or the sensor moved on the calibrator), so nothing was stored: record the calibrator again.`);
       const dev = sensitivityDeviation(tone.rms, Number(level), ch.sensitivityBase);
       setResult({ measured: dev.measured, kit: ch.sensitivityBase, percent: dev.percent, db: dev.db, hz: tone.frequencyHz, stored: false });
       await api(`/campaigns/${campaignId}/sensitivity-checks`, { body: { channelId: ch.id, referenceMs2Rms: Number(level), referenceHz: Number(freq), measuredVoltsRms: tone.rms, measuredHz: tone.frequencyHz, sampleRateHz: rec.sampleRateHz, durationS: seconds } });
