@@ -6,11 +6,12 @@ import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asc, count, eq } from 'drizzle-orm';
-import { auditEvent, campaign, campaignMember, channel, channelInput, hit, noiseCheck, scheduleEntry, sensitivityCheck, user } from '@resonote/db/schema';
+import { auditEvent, campaign, campaignMember, channel, channelInput, dofNote, dofNoteKey, hit, noiseCheck, scheduleEntry, sensitivityCheck, user } from '@resonote/db/schema';
 import { seedDemo, DEMO_PASSWORD, BAR_CAMPAIGN } from '@resonote/api/seed';
 import { startTestApp, type TestApp } from '../support/app.ts';
 import { signUp } from '../support/accounts.ts';
 import { waitForMail } from '../support/campaign.ts';
+import { platePng } from '../support/photo.ts';
 import { API_TEMPLATE } from '../support/global-setup-api.ts';
 
 const apiRequire = createRequire(new URL('../../apps/api/package.json', import.meta.url));
@@ -24,6 +25,14 @@ let viewer: Agent;
 let engineer: Agent;
 let barId: string;
 let backup: Buffer;
+/** The Idempotency-Key of the note left at the first schedule entry before the backup. */
+const NOTE_KEY = 'note-before-backup-1';
+/** The schedule position of the entry that note was left at. */
+let notePosition: number;
+const notePhoto = platePng(40, 30);
+/** The note upload a flaky connection would send again: same key, same fields, same photo. */
+const postNote = (agent: Agent, campaignId: string, entryId: string) =>
+  agent.post(`/api/campaigns/${campaignId}/schedule/${entryId}/notes`).set('Idempotency-Key', NOTE_KEY).field('topic', 'sensor-mounting').field('text', 'Wax mount, re-seated after hit 3.').attach('file', notePhoto, 'mount.png');
 
 const sha = (b: Uint8Array) => createHash('sha256').update(b).digest('hex');
 const binary = (req: import('supertest').Test) =>
@@ -82,6 +91,10 @@ beforeAll(async () => {
   const accel = chans.find((c) => c.kind === 'accelerometer')!;
   // 0.1 V RMS at 10 m/s² RMS: 10 mV/(m/s²) measured (sensitivity = V_rms / level).
   expect((await engineer.post(`/api/campaigns/${barId}/sensitivity-checks`).send({ channelId: accel.id, referenceMs2Rms: 10, referenceHz: 159.2, measuredVoltsRms: 0.1, measuredHz: 159.3, sampleRateHz: 48_000, durationS: 2 })).status).toBe(201);
+  // A note with a photo, stored under an Idempotency-Key (routes/dof-note-upload.ts).
+  const first = ((await lead.get(`/api/campaigns/${barId}/schedule`)).body.entries as { id: string; position: number }[])[0]!;
+  notePosition = first.position;
+  expect((await postNote(engineer, barId, first.id)).status).toBe(201);
   const res = await binary(lead.get(`/api/campaigns/${barId}/backup`));
   expect(res.status).toBe(200);
   backup = res.body as Buffer;
@@ -98,7 +111,7 @@ describe('campaign backup', () => {
     expect(manifest.version).toBe(1);
     expect(manifest.sourceUrl).toBe(app.config.publicUrl);
     expect(Date.now() - Date.parse(manifest.exportedAt)).toBeLessThan(120_000);
-    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'channel_input', 'sensitivity_check', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'mode_table', 'mode_table_row', 'campaign_member']) {
+    for (const t of ['campaign', 'point', 'line', 'schedule_entry', 'kit_item', 'calibration_record', 'channel', 'channel_input', 'sensitivity_check', 'acquisition_settings', 'audit_event', 'hit', 'noise_check', 'frf_result', 'modal_fit', 'mode_table', 'mode_table_row', 'dof_note', 'dof_note_key', 'campaign_member']) {
       expect(files[`tables/${t}.json`], t).toBeDefined();
       expect(JSON.parse(Buffer.from(files[`tables/${t}.json`]!).toString('utf8')), t).toHaveLength(manifest.counts[t]);
     }
@@ -106,6 +119,7 @@ describe('campaign backup', () => {
     const stored = await db.select({ id: hit.id, samples: hit.samples }).from(hit).where(eq(hit.campaignId, barId));
     expect(stored.length).toBe(manifest.counts.hit);
     expect(manifest.counts.modal_fit).toBe(1);
+    expect(manifest.counts.dof_note_key).toBe(1);
     expect(manifest.counts.noise_check).toBe(2); // the demo's check before the first hit, and the one above
     for (const h of stored) {
       expect(sha(files[`samples/${h.id}.f32`]!)).toBe(sha(h.samples));
@@ -166,6 +180,27 @@ describe('campaign restore', () => {
     // The stored numbers unchanged: 0.1 V / 10 m/s² = 10 mV/(m/s²); the checker is an account the lead shares the campaign with.
     expect(cb[0]!.check.measuredSensitivity).toBeCloseTo(10, 12);
     for (const k of ['measuredVoltsRms', 'kitSensitivity', 'deviationPercent', 'deviationDb', 'checkedAt', 'checkedBy'] as const) expect(cb[0]!.check[k], k).toEqual(ca[0]!.check[k]);
+  });
+
+  it('keeps each note’s Idempotency-Key: the same note upload retried at the restored campaign replays the restored note and stores nothing twice', async () => {
+    const db = app.handle.database.db;
+    const notesOf = async (id: string) => db.select({ id: dofNote.id, entryId: dofNote.entryId, text: dofNote.text }).from(dofNote).where(eq(dofNote.campaignId, id));
+    const keysOf = async (id: string) => db.select({ key: dofNoteKey.key, entryId: dofNoteKey.entryId, noteId: dofNoteKey.noteId }).from(dofNoteKey).where(eq(dofNoteKey.campaignId, id));
+    const [restoredNotes, restoredKeys] = [await notesOf(restoredId), await keysOf(restoredId)];
+    expect(restoredNotes).toHaveLength(1);
+    // The key points at the restored note and entry, not at the original campaign's ids.
+    expect(restoredKeys).toEqual([{ key: NOTE_KEY, entryId: restoredNotes[0]!.entryId, noteId: restoredNotes[0]!.id }]);
+    const entry = ((await lead.get(`/api/campaigns/${restoredId}/schedule`)).body.entries as { id: string; position: number }[]).find((e) => e.position === notePosition)!;
+    expect(entry.id).toBe(restoredNotes[0]!.entryId);
+    const again = await postNote(lead, restoredId, entry.id);
+    expect(again.status, JSON.stringify(again.body)).toBe(200);
+    expect(again.body.replayed).toBe(true);
+    expect(again.body.note).toMatchObject({ id: restoredNotes[0]!.id, text: 'Wax mount, re-seated after hit 3.', photo: { mime: 'image/png', size: notePhoto.length } });
+    expect(await notesOf(restoredId)).toHaveLength(1);
+    // The same key with another text is still refused there (422), as at the original campaign.
+    const other = await lead.post(`/api/campaigns/${restoredId}/schedule/${entry.id}/notes`).set('Idempotency-Key', NOTE_KEY).field('topic', 'tip').field('text', 'Another note');
+    expect(other.status).toBe(422);
+    expect(other.body.error.code).toBe('idempotency-key-reused');
   });
 
   it('restores a backup written before the live input existed (no tables/channel_input.json, tables/sensitivity_check.json) with none', async () => {
@@ -340,7 +375,7 @@ describe('restore from an edited backup', () => {
     }
     expect(answers[1]).toBe(answers[0]);
     expect(answers[0]).toContain('{"email":"<address>","role":"viewer"}');
-  });
+  }, 150_000); // two full restores: about 30 s each on a loaded 2-core machine
 
   it('records as nobody the hits a backup attributes to an address the restorer shares no campaign with', async () => {
     const stranger = await signUp(app, 'Sam Stranger', 'stranger@lab.test');

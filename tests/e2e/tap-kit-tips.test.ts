@@ -1,8 +1,9 @@
 // Tap and the kit and the team around it, at 1366×768, 768×1024 and 1024×768: the tip choice lists
 // the hammer's registered tips (and says so when there are none), the chosen tip is recorded with
 // the hit; the FRF plot's three row titles stay apart when the plot is short; notes per DOF are
-// edited and deleted in the notes panel and their photos are listed as small thumbnails; an
-// archived campaign's Tap offers no recording and says why in words.
+// edited and deleted in the notes panel, and on Review by their author or a lead (a viewer only
+// reads), and their photos are listed as small thumbnails; an archived campaign's Tap offers no
+// recording and says why in words.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Locator, Page } from 'playwright-core';
 import { BAR_CAMPAIGN, SKID_CAMPAIGN } from '@resonote/api/seed';
@@ -160,6 +161,80 @@ describe('notes per DOF on Tap', () => {
         await close();
       }
     }, 120_000);
+  }
+});
+
+describe('notes per DOF on Review', () => {
+  for (const viewport of viewports) {
+    it(`lets the author edit and a lead delete a note on Review, with the same controls as Tap, and a viewer only read it, at ${viewport.width}×${viewport.height}`, async () => {
+      const size = `${viewport.width}x${viewport.height}`;
+      const text = `Review note at ${size}: sensor cable taped down.`;
+      const engineer = await demo.signIn('engineer@demo.resonote.local', viewport);
+      const signedIn = [engineer];
+      try {
+        const { page } = engineer;
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}`);
+        const { entries } = await getJson<{ entries: { id: string; acceptedHits: number }[] }>(page, `/api/campaigns/${skidId}/schedule`);
+        const entry = entries.find((e) => e.acceptedHits > 0)!;
+        expect(entry).toBeDefined();
+        // The note is left as Tap leaves it (multipart, with an Idempotency-Key).
+        const status = await page.evaluate(
+          async ([url, t, key]) => {
+            const form = new FormData();
+            form.set('topic', 'sensor-mounting');
+            form.set('text', t as string);
+            return (await fetch(url as string, { method: 'POST', headers: { 'Idempotency-Key': key as string }, body: form })).status;
+          },
+          [`/api/campaigns/${skidId}/schedule/${entry.id}/notes`, text, `review-note-${size}`] as const,
+        );
+        expect(status).toBe(201);
+        const review = `${demo.app.baseUrl}/campaigns/${skidId}/review?entry=${entry.id}&view=dof`;
+        const noteIn = (p: Page) => p.getByTestId('review-notes').getByTestId('note').filter({ hasText: `Review note at ${size}` });
+
+        // The author edits it on Review.
+        await page.goto(review);
+        const mine = noteIn(page);
+        await mine.waitFor({ timeout: 30_000 });
+        await mine.getByTestId('note-edit').click();
+        await mine.getByTestId('note-edit-text').fill(`${text} Checked again after the redo.`);
+        await mine.getByTestId('note-edit-save').click();
+        await mine.getByTestId('note-edited').waitFor();
+        await expect(mine).toHaveTextEventually(/Checked again after the redo\./);
+        await mine.scrollIntoViewIfNeeded();
+        await settled(page);
+        expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
+        await screenshot(page, `review-notes-edited-${size}`);
+        expect(engineer.errors).toEqual([]);
+
+        // A viewer reads it without Edit or Delete.
+        const viewer = await demo.signIn('viewer@demo.resonote.local', viewport);
+        signedIn.push(viewer);
+        await viewer.page.goto(review);
+        await expect(noteIn(viewer.page)).toHaveTextEventually(/Checked again after the redo\./);
+        expect(await noteIn(viewer.page).getByTestId('note-edit').count()).toBe(0);
+        expect(await noteIn(viewer.page).getByTestId('note-delete').count()).toBe(0);
+        expect(viewer.errors).toEqual([]);
+
+        // A lead deletes the engineer's note there, after the question.
+        const lead = await demo.signIn('lead@demo.resonote.local', viewport);
+        signedIn.push(lead);
+        await lead.page.goto(review);
+        const theirs = noteIn(lead.page);
+        await theirs.waitFor({ timeout: 30_000 });
+        await theirs.getByTestId('note-delete').click();
+        await theirs.getByTestId('note-delete-confirm').waitFor();
+        await theirs.scrollIntoViewIfNeeded();
+        await settled(lead.page);
+        await screenshot(lead.page, `review-notes-delete-question-${size}`);
+        await theirs.getByTestId('note-delete-confirm').click();
+        await theirs.waitFor({ state: 'detached' });
+        const left = await getJson<{ notes: { text: string }[] }>(lead.page, `/api/campaigns/${skidId}/notes?entryId=${entry.id}`);
+        expect(left.notes.filter((n) => n.text.includes(`Review note at ${size}`))).toEqual([]);
+        expect(lead.errors).toEqual([]);
+      } finally {
+        for (const s of signedIn) await s.close();
+      }
+    }, 150_000);
   }
 });
 

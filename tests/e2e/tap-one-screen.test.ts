@@ -12,6 +12,12 @@ import { screenshotDir, settled } from '../support/browser.ts';
 
 let demo: DemoRun;
 let skidId: string;
+/** The laptop, the tablet upright and the tablet (or small laptop) on its side. */
+const sizes = [
+  { width: 1366, height: 768 },
+  { width: 768, height: 1024 },
+  { width: 1024, height: 768 },
+];
 
 interface Entry {
   id: string;
@@ -48,6 +54,22 @@ async function expectInViewport(page: Page, locator: Locator, name: string) {
 }
 const overlaps = (a: Box, b: Box) => a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height;
 
+/** The plot buttons (plotly's modebar) and the legend of every drawn plot on the page lie apart. */
+async function expectButtonsClearOfLegend(page: Page, where: string) {
+  const plots = await page.locator('.js-plotly-plot').evaluateAll((els) =>
+    els.map((el) => {
+      const rect = (q: string) => {
+        const r = el.querySelector(q)?.getBoundingClientRect();
+        return r && r.width > 0 && r.height > 0 ? { x: r.x, y: r.y, width: r.width, height: r.height } : null;
+      };
+      return { label: el.getAttribute('aria-label') ?? '', modebar: rect('.modebar'), legend: rect('.legend') };
+    }),
+  );
+  const withBoth = plots.filter((p) => p.modebar && p.legend);
+  expect(withBoth.length, `${where}: plots with a legend and buttons`).toBeGreaterThan(0);
+  for (const p of withBoth) expect(overlaps(p.modebar!, p.legend!), `${where}: buttons ${JSON.stringify(p.modebar)} over the legend ${JSON.stringify(p.legend)} of “${p.label}”`).toBe(false);
+}
+
 async function viewportShot(page: Page, name: string) {
   await page.screenshot({ path: path.join(screenshotDir, `${name}.png`) });
 }
@@ -58,11 +80,7 @@ async function settleTap(page: Page) {
 }
 
 describe('Tap on one screen', () => {
-  for (const viewport of [
-    { width: 1366, height: 768 },
-    { width: 768, height: 1024 },
-    { width: 1024, height: 768 },
-  ]) {
+  for (const viewport of sizes) {
     it(`keeps the DOF, the verdict, Accept/Reject and the FRF with coherence in view at ${viewport.width}×${viewport.height}, with the message bar clear of them`, async () => {
       const { page, errors, close } = await demo.signIn('engineer@demo.resonote.local', viewport);
       try {
@@ -105,6 +123,7 @@ describe('Tap on one screen', () => {
         const toast = await box(page.getByTestId('toast-bar'), 'the message bar');
         // The bar is the window's bottom edge: the one screen ends above it.
         for (const [locator, name] of checks) expect(overlaps(toast, await box(locator, name)), `the message bar over ${name}`).toBe(false);
+        await expectButtonsClearOfLegend(page, `Tap at ${viewport.width}×${viewport.height}`);
         expect((await page.getByTestId('toast').textContent())!.length).toBeGreaterThan(10);
 
         // Folded is remembered for this user: after a reload the cautions stay one line.
@@ -113,48 +132,63 @@ describe('Tap on one screen', () => {
         expect(await page.getByTestId('safety-note').getAttribute('data-expanded')).toBe('false');
         expect(await page.getByTestId('fold-noise').getAttribute('data-open')).toBe('false');
         expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
+
+        // Review's FRF of the same DOF (titled, H1 and H2 in the legend): its buttons clear the legend too.
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/review?entry=${flagged.id}&view=dof`);
+        await page.locator('[data-testid="dof-detail"] .js-plotly-plot .legend').first().waitFor({ timeout: 45_000 });
+        await page.locator('[data-testid="dof-detail"] .js-plotly-plot').first().scrollIntoViewIfNeeded();
+        await settled(page);
+        await expectButtonsClearOfLegend(page, `Review at ${viewport.width}×${viewport.height}`);
+        await viewportShot(page, `review-frf-legend-${viewport.width}x${viewport.height}`);
+        expect(errors).toEqual([]);
+      } finally {
+        await close();
+      }
+    }, 150_000);
+  }
+});
+
+describe('why a DOF is flagged, and moving freely', () => {
+  for (const viewport of sizes) {
+    const size = `${viewport.width}x${viewport.height}`;
+    it(`shows the flag reason in words with numbers on Tap, Review and Overview at ${viewport.width}×${viewport.height}`, async () => {
+      const { page, errors, close } = await demo.signIn('viewer@demo.resonote.local', viewport);
+      try {
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}`);
+        const flagged = (await schedule(page)).find((e) => e.status === 'flagged')!;
+        const words = /coherence 0\.\d\d mean over \d+–\d+ Hz, below 0\.\d\d/;
+        expect(flagged.flagReasons[0]!.message).toMatch(words);
+
+        const overview = page.locator(`[data-testid="flagged-list"] li[data-entry="${flagged.id}"]`);
+        await overview.waitFor({ timeout: 20_000 });
+        expect(await overview.textContent()).toMatch(words);
+        expect(await overview.textContent()).toMatch(/Try: Re-hit nearer the point/);
+        await settled(page);
+        await viewportShot(page, `overview-flagged-${size}`);
+
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/review?entry=${flagged.id}`);
+        const review = page.locator('[data-testid="dof-detail"] [data-testid="flag-reasons"]');
+        await review.waitFor({ timeout: 20_000 });
+        expect(await review.textContent()).toMatch(words);
+        await review.scrollIntoViewIfNeeded();
+        await settled(page);
+        await viewportShot(page, `review-flagged-${size}`);
+
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap?entry=${flagged.id}`);
+        const tap = page.locator('[data-testid="dof-bar"] [data-testid="flag-reasons"]');
+        await tap.waitFor({ timeout: 20_000 });
+        expect(await tap.textContent()).toMatch(words);
+        await expectInViewport(page, tap, 'why it is flagged on Tap');
+        // Elsewhere on Tap the flagged DOF is named, so Tap never moves on from it in silence.
+        const other = (await schedule(page)).find((e) => e.status !== 'flagged')!;
+        await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap?entry=${other.id}`);
+        await expect(page.getByTestId('other-flagged').getByText(`${flagged.excitationDof} → ${flagged.responseDof}`)).toBeDefinedAndVisible();
         expect(errors).toEqual([]);
       } finally {
         await close();
       }
     }, 120_000);
   }
-});
-
-describe('why a DOF is flagged, and moving freely', () => {
-  it('shows the flag reason in words with numbers on Tap, Review and Overview', async () => {
-    const { page, errors, close } = await demo.signIn('viewer@demo.resonote.local', { width: 1366, height: 768 });
-    try {
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}`);
-      const flagged = (await schedule(page)).find((e) => e.status === 'flagged')!;
-      const words = /coherence 0\.\d\d mean over \d+–\d+ Hz, below 0\.\d\d/;
-      expect(flagged.flagReasons[0]!.message).toMatch(words);
-
-      const overview = page.locator(`[data-testid="flagged-list"] li[data-entry="${flagged.id}"]`);
-      await overview.waitFor({ timeout: 20_000 });
-      expect(await overview.textContent()).toMatch(words);
-      expect(await overview.textContent()).toMatch(/Try: Re-hit nearer the point/);
-      await settled(page);
-      await viewportShot(page, 'overview-flagged-1366');
-
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/review?entry=${flagged.id}`);
-      const review = page.locator('[data-testid="dof-detail"] [data-testid="flag-reasons"]');
-      await review.waitFor({ timeout: 20_000 });
-      expect(await review.textContent()).toMatch(words);
-
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap?entry=${flagged.id}`);
-      const tap = page.locator('[data-testid="dof-bar"] [data-testid="flag-reasons"]');
-      await tap.waitFor({ timeout: 20_000 });
-      expect(await tap.textContent()).toMatch(words);
-      // Elsewhere on Tap the flagged DOF is named, so Tap never moves on from it in silence.
-      const other = (await schedule(page)).find((e) => e.status !== 'flagged')!;
-      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/tap?entry=${other.id}`);
-      await expect(page.getByTestId('other-flagged').getByText(`${flagged.excitationDof} → ${flagged.responseDof}`)).toBeDefinedAndVisible();
-      expect(errors).toEqual([]);
-    } finally {
-      await close();
-    }
-  }, 120_000);
 
   it('jumps to a DOF by its label, asks before leaving one short of its hits, and redoes a DOF keeping the old hits', async () => {
     const { page, errors, close } = await demo.signIn('engineer@demo.resonote.local', { width: 1024, height: 768 });

@@ -10,6 +10,8 @@ import { screenshot, settled, viewports, watchConsole } from '../support/browser
 import { signUp } from '../support/accounts.ts';
 
 const wide = { width: 1024, height: 768 };
+/** The laptop, the tablet upright and on its side. */
+const sizes = [viewports.laptop, viewports.tablet, wide];
 let demo: DemoRun;
 let skidId: string;
 let barId: string;
@@ -154,64 +156,73 @@ describe('the team in the browser', () => {
 });
 
 describe('numbers and words in the browser', () => {
-  it('lists settings changes in words with units on Kit', async () => {
-    const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewports.laptop);
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/kit`);
-    const history = page.getByTestId('settings-history');
-    await expect(history).toHaveTextEventually(/force window length 20 → 40 ms/);
-    expect(await history.textContent()).not.toMatch(/forceWindow\.|lengthS/);
-    await history.scrollIntoViewIfNeeded();
-    await settled(page);
-    await screenshot(page, 'numbers-settings-history-1366');
-    expect(errors).toEqual([]);
-    await close();
-  });
-
-  it('draws log frequency ticks as 10, 20, 50 and the phase unwrapped on request; the reciprocity check has values', async () => {
-    const { page, errors, close } = await demo.signIn('viewer@demo.resonote.local', wide);
-    await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/review`);
-    const plot = page.locator('[data-testid="dof-detail"] .js-plotly-plot').first();
-    await plot.waitFor({ timeout: 20_000 });
-    await page.getByTestId('frequency-choice').getByRole('radio', { name: 'Log' }).click();
-    await page.getByTestId('phase-choice').getByRole('radio', { name: 'Unwrapped' }).click();
-    // Both choices redraw the plot: wait until the log ticks and the unwrapped phase axis are drawn.
-    await page.waitForFunction(() => {
-      const texts = (sel: string) => Array.from(document.querySelectorAll(`[data-testid="dof-detail"] ${sel}`)).map((t) => t.textContent ?? '');
-      return texts('.xtick text').includes('100') && texts('.y2tick text').some((t) => Number(t.replace('−', '-')) < -180);
+  for (const viewport of sizes) {
+    const size = `${viewport.width}x${viewport.height}`;
+    it(`lists settings changes in words with units on Kit at ${size}`, async () => {
+      const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewport);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/kit`);
+      const history = page.getByTestId('settings-history');
+      await expect(history).toHaveTextEventually(/force window length 20 → 40 ms/);
+      expect(await history.textContent()).not.toMatch(/forceWindow\.|lengthS/);
+      await history.scrollIntoViewIfNeeded();
+      await settled(page);
+      await screenshot(page, `numbers-settings-history-${size}`);
+      expect(errors).toEqual([]);
+      await close();
     });
-    const ticks = await page.locator('[data-testid="dof-detail"] .xtick text').allTextContents();
-    expect(ticks.some((t) => /\.00$/.test(t))).toBe(false);
-    // Unwrapped: the phase axis is no longer held to ±180°.
-    const phaseTicks = (await page.locator('[data-testid="dof-detail"] .y2tick text').allTextContents()).map((t) => Number(t.replace('−', '-')));
-    expect(Math.min(...phaseTicks)).toBeLessThan(-180);
-    await settled(page);
-    await screenshot(page, 'numbers-review-log-unwrapped-1024');
+  }
 
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/review?view=checks`);
-    const checks = page.getByTestId('checks');
-    await expect(checks).toHaveTextEventually(/P07:\+Z/);
-    await settled(page);
-    await screenshot(page, 'numbers-reciprocity-1024');
-    expect(errors).toEqual([]);
-    await close();
-  });
+  for (const viewport of sizes) {
+    const size = `${viewport.width}x${viewport.height}`;
+    it(`draws log frequency ticks as 10, 20, 50 and the phase unwrapped on request; the reciprocity check has values, at ${size}`, async () => {
+      const { page, errors, close } = await demo.signIn('viewer@demo.resonote.local', viewport);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${barId}/review`);
+      const plot = page.locator('[data-testid="dof-detail"] .js-plotly-plot').first();
+      await plot.waitFor({ timeout: 20_000 });
+      await page.getByTestId('frequency-choice').getByRole('radio', { name: 'Log' }).click();
+      await page.getByTestId('phase-choice').getByRole('radio', { name: 'Unwrapped' }).click();
+      // Both choices redraw the plot: wait until the log ticks and the unwrapped phase axis are drawn.
+      await page.waitForFunction(() => {
+        const texts = (sel: string) => Array.from(document.querySelectorAll(`[data-testid="dof-detail"] ${sel}`)).map((t) => t.textContent ?? '');
+        return texts('.xtick text').includes('100') && texts('.y2tick text').some((t) => Number(t.replace('−', '-')) < -180);
+      });
+      const ticks = await page.locator('[data-testid="dof-detail"] .xtick text').allTextContents();
+      expect(ticks.some((t) => /\.00$/.test(t))).toBe(false);
+      // Unwrapped: the phase axis is no longer held to ±180°.
+      const phaseTicks = (await page.locator('[data-testid="dof-detail"] .y2tick text').allTextContents()).map((t) => Number(t.replace('−', '-')));
+      expect(Math.min(...phaseTicks)).toBeLessThan(-180);
+      await settled(page);
+      await screenshot(page, `numbers-review-log-unwrapped-${size}`);
 
-  it('draws flagged points in 3D with the legend’s ✖', async () => {
-    const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewports.laptop);
-    await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}`);
-    // The legend is SVG over the 3D canvas; it lists Flagged once the geometry and the schedule are drawn.
-    const legend = page.locator('.js-plotly-plot .legend').first();
-    await legend.waitFor({ timeout: 30_000 });
-    await expect(legend).toHaveTextEventually('Flagged');
-    await settled(page);
-    await screenshot(page, 'numbers-overview-3d-1366');
-    expect(errors).toEqual([]);
-    await close();
-  });
+      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}/review?view=checks`);
+      const checks = page.getByTestId('checks');
+      await expect(checks).toHaveTextEventually(/P07:\+Z/);
+      await settled(page);
+      await screenshot(page, `numbers-reciprocity-${size}`);
+      expect(errors).toEqual([]);
+      await close();
+    });
+  }
+
+  for (const viewport of sizes) {
+    const size = `${viewport.width}x${viewport.height}`;
+    it(`draws flagged points in 3D with the legend’s ✖ at ${size}`, async () => {
+      const { page, errors, close } = await demo.signIn('lead@demo.resonote.local', viewport);
+      await page.goto(`${demo.app.baseUrl}/campaigns/${skidId}`);
+      // The legend is SVG over the 3D canvas; it lists Flagged once the geometry and the schedule are drawn.
+      const legend = page.locator('.js-plotly-plot .legend').first();
+      await legend.waitFor({ timeout: 30_000 });
+      await expect(legend).toHaveTextEventually('Flagged');
+      await settled(page);
+      await screenshot(page, `numbers-overview-3d-${size}`);
+      expect(errors).toEqual([]);
+      await close();
+    });
+  }
 });
 
 describe('team screens at every size', () => {
-  for (const viewport of [viewports.laptop, viewports.tablet, wide]) {
+  for (const viewport of sizes) {
     const size = `${viewport.width}x${viewport.height}`;
     it(`lays out members, invitations, archive/delete and the list filter without overflow at ${size}`, async () => {
       const name = `Size check ${size}`;
@@ -245,6 +256,13 @@ describe('team screens at every size', () => {
         await other.getByLabel('Password').fill('correct-horse-battery');
         await other.getByRole('button', { name: 'Sign in' }).click();
         await expect(other.getByTestId('my-invitations')).toHaveTextEventually(new RegExp(`${name}.*as engineer, invited by`));
+        // The empty list below points to that invitation instead of telling them to ask a lead.
+        await expect(other.getByTestId('campaigns-empty')).toHaveTextEventually(/one invitation waits for you/);
+        const step = (await other.getByTestId('next-step').textContent()) ?? '';
+        expect(step).toBe(`Accept the invitation to “${name}” above to join it as engineer; it then shows in this list.`);
+        expect(step).not.toMatch(/ask your lead/i);
+        const [invBox, emptyBox] = [await other.getByTestId('my-invitations').boundingBox(), await other.getByTestId('campaigns-empty').boundingBox()];
+        expect(invBox!.y + invBox!.height, 'the invitation sits above the empty list').toBeLessThanOrEqual(emptyBox!.y);
         await settled(other);
         expect(await other.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(viewport.width);
         await screenshot(other, `team-my-invitation-${size}`);

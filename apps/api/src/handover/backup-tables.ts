@@ -2,7 +2,7 @@
 // query that reads its rows for one campaign. A new campaign table joins backups with one entry here.
 import { asc, eq, inArray } from 'drizzle-orm';
 import type { PgColumn, PgTable } from 'drizzle-orm/pg-core';
-import { channelInput, dofNote, dofPhoto, dofPhotoThumb, kitPolicy, sensitivityCheck } from '@resonote/db/schema';
+import { channelInput, dofNote, dofNoteKey, dofPhoto, dofPhotoThumb, kitPolicy, sensitivityCheck } from '@resonote/db/schema';
 import { acquisitionSettings, auditEvent, calibrationRecord, campaign, channel, feMode, feModel, fePointLink, frfResult, hit, hitExclusion, kitItem, line, modalFit, modeTable, modeTableRow, noiseCheck, originalRecording, point, scheduleEntry } from '@resonote/db/schema';
 import type { Tx } from '../http/audit.ts';
 
@@ -74,6 +74,10 @@ export const TABLES: TableSpec[] = [
     addedLater: true,
     read: async ({ tx, campaignId }) => (await tx.select({ thumb: dofPhotoThumb }).from(dofPhotoThumb).innerJoin(dofNote, eq(dofNote.id, dofPhotoThumb.noteId)).where(eq(dofNote.campaignId, campaignId))).map((r) => r.thumb as Row),
   },
+  // The Idempotency-Key of each note (routes/dof-note-upload.ts): a restored campaign answers a
+  // retried note upload with the note it already holds instead of storing it twice. Its entry and
+  // note ids are remapped like every id; a key whose note was deleted keeps a null note.
+  { name: 'dof_note_key', table: dofNoteKey, userCols: [], hasUuidId: false, addedLater: true, read: own(dofNoteKey, dofNoteKey.createdAt) },
   { name: 'hit', table: hit, userCols: ['overriddenBy', 'recordedBy'], hasUuidId: true, read: own(hit, hit.recordedAt) },
   // Hits set aside by a redo (routes/redo.ts); a backup from before them restores with none.
   { name: 'hit_exclusion', table: hitExclusion, userCols: ['excludedBy'], hasUuidId: false, addedLater: true, read: own(hitExclusion, hitExclusion.excludedAt) },

@@ -11,7 +11,7 @@ import { useToast } from '../lib/toast.tsx';
 import type { CampaignRole } from '@resonote/contracts';
 import { Button, Notice, Panel } from './ui.tsx';
 
-interface MyInvitation {
+export interface MyInvitation {
   id: string;
   campaignId: string;
   campaignName: string;
@@ -24,12 +24,17 @@ interface MyInvitation {
 
 export const myInvitationsKey = ['account', 'invitations'] as const;
 
+/** The open invitations to the signed-in address (one query, shared by the list and the campaign list's empty state). */
+export function useMyInvitations() {
+  return useQuery({ queryKey: myInvitationsKey, queryFn: () => api<{ invitations: MyInvitation[] }>('/account/invitations') });
+}
+
 export function MyInvitations() {
   const client = useQueryClient();
   const toast = useToast();
   const fail = useFailure();
   const navigate = useNavigate();
-  const list = useQuery({ queryKey: myInvitationsKey, queryFn: () => api<{ invitations: MyInvitation[] }>('/account/invitations') });
+  const list = useMyInvitations();
 
   async function answer(inv: MyInvitation, accept: boolean) {
     try {

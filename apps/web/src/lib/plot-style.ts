@@ -55,12 +55,24 @@ export function axis(c: PlotColours, title: string, extra: Record<string, unknow
   };
 }
 
+/**
+ * The right margin that holds the plot buttons as a column (plotly's vertical modebar: 24 px wide
+ * buttons, 2 px from the figure's edge). Plotly wraps a legend row above the plot within the plot
+ * area's width, so with the buttons in this strip the legend never runs under them, however many
+ * rows it takes and however narrow the window (768 px: the tablet).
+ */
+export const MODEBAR_STRIP = 30;
+
 /** Plot margins in px; a titled plot with a legend row takes a taller top margin. */
-export const baseMargin = { l: 64, r: 16, t: 36, b: 44 };
+export const baseMargin = { l: 64, r: MODEBAR_STRIP, t: 36, b: 44 };
 
 /** Base layout: themed paper, unified cursor with values and units (the traces carry the units). */
 export function baseLayout(c: PlotColours, extra: Record<string, unknown> = {}): Record<string, unknown> {
+  // A layout that keeps the right strip free gets the buttons there; one with a narrower right
+  // margin (a heatmap, a second y axis on the right) keeps plotly's row at the top right.
+  const right = (extra.margin as { r?: number } | undefined)?.r ?? baseMargin.r;
   return {
+    modebar: { orientation: right >= MODEBAR_STRIP ? 'v' : 'h', color: c.muted, activecolor: c.ink, bgcolor: 'rgba(0,0,0,0)' },
     paper_bgcolor: c.paper,
     plot_bgcolor: c.paper,
     font: { color: c.ink, family: 'Inter Variable, ui-sans-serif, sans-serif', size: 12 },

@@ -4,7 +4,8 @@ import { useEffect, useState, type FormEvent } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { campaignCreateSchema, campaignListFilterLabels, campaignListFilters, type CampaignListFilter, type CampaignStatus } from '@resonote/contracts';
-import { MyInvitations } from '../components/my-invitations.tsx';
+import { MyInvitations, useMyInvitations } from '../components/my-invitations.tsx';
+import { emptyListNextStep } from './campaigns-empty.ts';
 import { formatWhen } from '../lib/format-date.ts';
 import { api, ApiError } from '../lib/api.ts';
 import { useMe } from '../lib/session.ts';
@@ -62,6 +63,8 @@ export function CampaignsPage() {
   const all = useQuery({ queryKey: ['campaigns', '', 'all'], queryFn: () => listCampaigns('', 'all') });
   const isAdmin = me.data?.user.role === 'admin';
   const canCreate = isAdmin || Boolean(all.data?.campaigns.some((c) => c.myRole === 'lead'));
+  const invitations = useMyInvitations().data?.invitations ?? [];
+  const nextStep = emptyListNextStep({ isAdmin, canCreate, email: me.data?.user.email, invitations });
 
   return (
     <div className="space-y-4">
@@ -117,13 +120,9 @@ export function CampaignsPage() {
               </>
             ) : (
               <>
-                <p className="text-base font-medium">No campaigns yet</p>
+                <p className="text-base font-medium">{nextStep.title}</p>
                 <p className="mx-auto mt-1 max-w-md text-sm text-[var(--muted)]" data-testid="next-step">
-                  {isAdmin
-                    ? 'As admin you see every campaign of this instance once one exists. Use “New campaign” to start one.'
-                    : canCreate
-                      ? 'Use “New campaign” to start one; you will be its lead and can add your team on its Plan tab.'
-                      : `A test lead adds you to a campaign with a role (lead, engineer or viewer). Ask your lead to add ${me.data?.user.email ?? 'your address'} on the campaign's Plan tab, or to send you an invitation; it shows above as soon as it is sent. Only admins and leads start new campaigns.`}
+                  {nextStep.text}
                 </p>
               </>
             )}

@@ -2,7 +2,7 @@
 // 1 (m/s²)/N over phase in degrees, sharing the frequency axis. Solid measured, dashed synthesized.
 import { useMemo } from 'react';
 import { Plot } from '../plot.tsx';
-import { axis, baseLayout, plotColours, plotConfig } from '../../lib/plot-style.ts';
+import { axis, baseLayout, baseMargin, plotColours, plotConfig } from '../../lib/plot-style.ts';
 import { useThemeName } from '../../lib/theme-name.ts';
 import type { Synthesis } from '../../lib/modes-data.ts';
 
@@ -29,7 +29,7 @@ export function SynthesisPlot({ synthesis, title, height = 420 }: { synthesis: S
   const layout = useMemo(
     () =>
       baseLayout(c, {
-        margin: { l: 64, r: 16, t: 40, b: 44 },
+        margin: { ...baseMargin, t: 40 },
         hovermode: 'x unified',
         xaxis: axis(c, 'Frequency (Hz)', { anchor: 'y2' }),
         yaxis: axis(c, `Magnitude (dB re 1 ${unit})`, { domain: [0.42, 1] }),

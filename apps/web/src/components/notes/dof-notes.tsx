@@ -1,5 +1,6 @@
 // Notes and photos per DOF: a compact button with the count on Tap that opens a side panel (so
-// the FRF keeps its place), the list with small photos on Review, and the form to add one.
+// the FRF keeps its place), the list with small photos on Review, and the form to add one. Edit and
+// delete (note-item.tsx) are the same on both screens.
 import { useEffect, useMemo, useRef, useState, type FormEvent } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import { NOTE_TOPIC_NAMES, noteTopics, PHOTO_MAX_BYTES, type NoteTopic } from '@resonote/contracts';
@@ -107,11 +108,19 @@ function NoteForm({ campaignId, entryId, tips, onSaved }: { campaignId: string; 
   );
 }
 
+/**
+ * Who may change notes on this screen (Tap and Review alike): null to only read; else the signed-in
+ * user, who may edit and delete their own notes, and every note when they lead the campaign.
+ */
+function useNoteEditor(canAct: boolean, isLead: boolean): NoteEditor {
+  const me = useMe();
+  return canAct && me.data ? { userId: me.data.user.id, lead: isLead } : null;
+}
+
 /** Tap: "Notes (n)" with a camera mark when a photo is there; opens a panel over the side of the page. */
 export function DofNotesButton({ campaignId, entryId, canAct, isLead = false }: { campaignId: string; entryId: string; canAct: boolean; isLead?: boolean }) {
   const notes = useNotes(campaignId);
-  const me = useMe();
-  const editor: NoteEditor = canAct && me.data ? { userId: me.data.user.id, lead: isLead } : null;
+  const editor = useNoteEditor(canAct, isLead);
   // The tips registered for the hammer on the channel map (Kit, or the lab inventory it came from).
   const kit = useKit(campaignId);
   const channels = useChannels(campaignId);
@@ -158,9 +167,10 @@ export function DofNotesButton({ campaignId, entryId, canAct, isLead = false }: 
   );
 }
 
-/** Review: the notes of one entry inline. */
-export function DofNotesSection({ campaignId, entryId }: { campaignId: string; entryId: string }) {
+/** Review: the notes of one entry inline; their author (and a lead) edit and delete them here as on Tap. */
+export function DofNotesSection({ campaignId, entryId, canAct = false, isLead = false }: { campaignId: string; entryId: string; canAct?: boolean; isLead?: boolean }) {
   const notes = useNotes(campaignId);
+  const editor = useNoteEditor(canAct, isLead);
   const here = (notes.data?.notes ?? []).filter((n) => n.entryId === entryId);
   return (
     <section className="space-y-2" data-testid="review-notes">
@@ -169,7 +179,7 @@ export function DofNotesSection({ campaignId, entryId }: { campaignId: string; e
       </h4>
       {notes.isPending && <Spinner label="Loading the notes…" />}
       {notes.isError && <Notice tone="error">The notes could not be loaded: {notes.error.message}</Notice>}
-      {notes.data && <NoteList campaignId={campaignId} notes={here} />}
+      {notes.data && <NoteList campaignId={campaignId} notes={here} editor={editor} />}
     </section>
   );
 }

@@ -1,5 +1,5 @@
-// One DOF on Review: its averaged FRF and coherence in the chosen view, its hits (read-only) and
-// the chosen hit's time traces and force spectrum.
+// One DOF on Review: its averaged FRF and coherence in the chosen view, its notes (their author or a
+// lead edits them here), its hits (read-only) and the chosen hit's time traces and force spectrum.
 import { useEffect, useState } from 'react';
 import type { ScheduleEntry } from '../../lib/campaign-data.ts';
 import { useEntryFrf, useEntryHits } from '../../lib/hits-data.ts';
@@ -13,7 +13,8 @@ import { formatWhen } from '../../lib/format-date.ts';
 import { FlagReasons } from '../flag-reasons.tsx';
 import { SetAsideNote } from '../tap/set-aside-note.tsx';
 
-export function DofDetail({ campaignId, entry, display }: { campaignId: string; entry: ScheduleEntry; display: FrfDisplay }) {
+/** `canAct`: the caller may change this campaign (an engineer or lead of a campaign that is not archived); `isLead`: leads it. */
+export function DofDetail({ campaignId, entry, display, canAct = false, isLead = false }: { campaignId: string; entry: ScheduleEntry; display: FrfDisplay; canAct?: boolean; isLead?: boolean }) {
   const frf = useEntryFrf(campaignId, entry.id, display.kind);
   const hits = useEntryHits(campaignId, entry.id);
   const [hitId, setHitId] = useState<string | null>(null);
@@ -37,7 +38,7 @@ export function DofDetail({ campaignId, entry, display }: { campaignId: string; 
       {frf.isSuccess && !frf.data && <p className="text-sm text-[var(--muted)]">This DOF has no accepted hit yet, so there is no FRF to show.</p>}
       {frf.data && <FrfPlot frf={frf.data} display={display} height={display.view === 'nyquist' ? 480 : 520} showH2 uirevision={entry.id + display.view} />}
       {frf.data && <p className="text-xs text-[var(--muted)]">Solid: H1; dotted: H2 of the same channel (H1/H2 = γ²). Coherence on a linear 0–1 scale.</p>}
-      <DofNotesSection campaignId={campaignId} entryId={entry.id} />
+      <DofNotesSection campaignId={campaignId} entryId={entry.id} canAct={canAct} isLead={isLead} />
       <section className="space-y-2">
         <h4 className="text-sm font-semibold">Hits</h4>
         {hits.isPending && <Spinner label="Loading the hits…" />}

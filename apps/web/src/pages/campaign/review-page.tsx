@@ -9,6 +9,7 @@ import type { FrfDisplay } from '../../components/tap/frf-panel.tsx';
 import { ChecksTables } from '../../components/review/checks-table.tsx';
 import { DisplayControls } from '../../components/review/display-controls.tsx';
 import { DofDetail } from '../../components/review/dof-detail.tsx';
+import { useCampaignContext } from './campaign-context.ts';
 import { EntryList, OVERLAY_LIMIT } from '../../components/review/entry-list.tsx';
 import { OverlayPanel } from '../../components/review/overlay-panel.tsx';
 import { preloadPlotly } from '../../lib/preload-plotly.ts';
@@ -19,6 +20,9 @@ const tabLabel: Record<Tab, string> = { dof: 'One DOF', overlay: 'Overlay', chec
 
 export function ReviewPage() {
   const { campaignId = '' } = useParams();
+  const { myRole, archived } = useCampaignContext();
+  // As on Tap: an archived campaign is read-only; engineers and leads change their notes here.
+  const canAct = !archived && (myRole === 'engineer' || myRole === 'lead' || myRole === 'admin');
   const [params, setParams] = useSearchParams();
   const schedule = useSchedule(campaignId);
   useLiveCampaign(campaignId);
@@ -91,7 +95,7 @@ export function ReviewPage() {
         <section className="rounded-lg border border-[var(--line)] bg-[var(--panel)] p-3 sm:p-4">
           {tab === 'dof' &&
             (entry ? (
-              <DofDetail campaignId={campaignId} entry={entry} display={display} />
+              <DofDetail campaignId={campaignId} entry={entry} display={display} canAct={canAct} isLead={myRole === 'lead' || myRole === 'admin'} />
             ) : (
               <p className="text-sm text-[var(--muted)]">No DOF has an accepted hit yet. Pick an entry from the schedule list once hits are in.</p>
             ))}
