@@ -12,6 +12,7 @@
 // dropped), and the APIs believe it from loopback only (TRUST_PROXY=loopback).
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import { buildWeb, ensureChromium, ensureNginx, ensurePostgres, installDependencies, log, root } from './bootstrap.mjs';
 
@@ -94,8 +95,15 @@ await Promise.all(
   Array.from({ length: workerCount }, (_, i) => startChild(`worker-${i + 1}`, process.execPath, ['--import', 'tsx', 'src/worker.ts'], { cwd: apiDir, env: baseEnv }, 'working jobs', true)),
 );
 
-const conf = `# Written by scripts/cluster.mjs; see docs/decisions/0009-nginx-load-balancer.md.
-worker_processes 1;
+// nginx started by root runs its worker processes as \`nobody\` unless told otherwise; they could then
+// not write their temporary files (the buffers of large answers, client bodies) under the checkout's
+// .run folder, which the API keeps owner-only for its secret (apps/api/src/config.ts) — nginx logs
+// "open() … failed (13: Permission denied)" and cuts the answer, which a browser reports as
+// ERR_CONTENT_LENGTH_MISMATCH. Every process of the cluster runs as the one user who started it.
+// (Started by anyone else, nginx cannot change user and its workers are that user already.)
+const workerUser = process.getuid?.() === 0 ? `user ${os.userInfo().username};\n` : '';
+const conf = `# Written by scripts/cluster.mjs; see docs/decisions/nginx-load-balancer.md.
+${workerUser}worker_processes 1;
 pid ${runDir}/nginx.pid;
 error_log ${runDir}/error.log warn;
 events { worker_connections 4096; }

@@ -5,6 +5,10 @@
 // posted to either upstream, a modal fit and a report PDF done by workers, a campaign reprocess, a
 // worker killed (SIGKILL) in the middle of a fit leaving it to the other, and the client address
 // nginx passes on (a forged X-Forwarded-For is replaced by the address nginx was connected from).
+import nodeFs from 'node:fs';
+import http from 'node:http';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { eq, sql } from 'drizzle-orm';
 import { openDb, type DbHandle } from '@resonote/db/client';
@@ -18,6 +22,7 @@ import { requestFrom } from '../support/client-address.ts';
 import { BENCH_LEAD, BENCH_REFS, benchCampaignAt } from '../bench/bench-campaign.ts';
 
 const PORT = Number(process.env.RESONOTE_CLUSTER_TEST_PORT ?? 40180);
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 let cluster: RunningCluster;
 let database: DbHandle;
 let built: Awaited<ReturnType<typeof benchCampaignAt>>['built'];
@@ -38,6 +43,10 @@ function wavFor(excitationDof: string, seed: number, count = 1) {
 }
 
 beforeAll(async () => {
+  // The checkout's .run folder as the API leaves it when it made its secret there (owner only,
+  // apps/api/src/config.ts); nginx keeps its buffers of large answers under it (scripts/cluster.mjs).
+  nodeFs.mkdirSync(path.join(root, '.run'), { recursive: true });
+  nodeFs.chmodSync(path.join(root, '.run'), 0o700);
   const databaseUrl = await freshClusterDatabase('resonote_cluster_check');
   // A lease of 4 s, so a killed worker's fit is taken over within seconds; a dead worker is started
   // again only after 10 minutes, so the one that takes it over is the other worker.
@@ -65,6 +74,36 @@ describe('two API processes and two workers behind nginx', () => {
     const res = await fetch(`${cluster.url}/api/campaigns/${built.campaignId}/events`, { headers: { cookie: client.cookie } });
     expect(res.headers.get('content-type')).toBe('text/event-stream');
     await res.body?.cancel();
+  });
+
+  it('passes a large answer through nginx whole to a client slower than the upstream: the biggest script of the web app, byte for byte as built', async () => {
+    // A client that reads nothing until nginx has had to hold the answer in a temporary file (nginx
+    // logs that it did, or that it could not): issue 18's ERR_CONTENT_LENGTH_MISMATCH was such an
+    // answer cut short because nginx's workers could not write their temporary files.
+    const assets = path.join(root, 'apps/web/dist/assets');
+    const largest = nodeFs.readdirSync(assets).filter((f) => f.endsWith('.js')).sort((a, b) => nodeFs.statSync(path.join(assets, b)).size - nodeFs.statSync(path.join(assets, a)).size)[0]!;
+    const onDisk = nodeFs.readFileSync(path.join(assets, largest));
+    expect(onDisk.length).toBeGreaterThan(1_000_000);
+    const errorLog = path.join(root, '.run', `cluster-${PORT}`, 'error.log');
+    const logged = () => (nodeFs.existsSync(errorLog) ? nodeFs.readFileSync(errorLog, 'utf8') : '').split('\n').filter((l) => l.includes(`/assets/${largest}`));
+    const before = logged().length;
+    const res = await new Promise<http.IncomingMessage>((resolve, reject) => http.get(`${cluster.url}/assets/${largest}`, resolve).once('error', reject));
+    res.pause();
+    while (logged().length === before) await new Promise((r) => setTimeout(r, 100));
+    expect(logged().at(-1)).toContain('an upstream response is buffered to a temporary file');
+    expect(res.statusCode).toBe(200);
+    expect(Number(res.headers['content-length'])).toBe(onDisk.length);
+    const chunks: Buffer[] = [];
+    await new Promise<void>((resolve, reject) => {
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.once('end', resolve);
+      res.once('aborted', () => reject(new Error(`the answer was cut after ${Buffer.concat(chunks).length} of ${onDisk.length} bytes`)));
+      res.once('error', reject);
+      res.resume();
+    });
+    const body = Buffer.concat(chunks);
+    expect(body.length).toBe(onDisk.length);
+    expect(body.equals(onDisk)).toBe(true);
   });
 
   it('stores uploads through nginx and answers each with the updated averaged FRF', async () => {
