@@ -5,7 +5,8 @@
 // /proc/<pid>/stat before and after the measured uploads, so the figure does not depend on what
 // else runs on a shared machine (the wall-clock latency does; the load average is printed beside it).
 //   npm run bench:hit-cost     (BENCH_HITS=200 measured after BENCH_WARMUP=25, RESONOTE_BENCH_PORT (a free port);
-//                               BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the API there)
+//                               BENCH_CPU_PROF=<dir> writes a V8 CPU profile of the API there,
+//                               BENCH_API_NODE_FLAGS='--trace-gc' passes flags to the API's node)
 import { spawn } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import os from 'node:os';
@@ -37,7 +38,7 @@ const dbUrl = new URL(adminUrl);
 dbUrl.pathname = `/${dbName}`;
 
 const port = process.env.RESONOTE_BENCH_PORT ? Number(process.env.RESONOTE_BENCH_PORT) : await freePort();
-const args = [...(profileDir ? ['--cpu-prof', '--cpu-prof-dir', profileDir] : []), '--import', 'tsx', 'src/server.ts'];
+const args = [...(profileDir ? ['--cpu-prof', '--cpu-prof-dir', profileDir] : []), ...(process.env.BENCH_API_NODE_FLAGS ?? '').split(' ').filter(Boolean), '--import', 'tsx', 'src/server.ts'];
 const child = spawn(process.execPath, args, {
   cwd: apiDir,
   env: { ...process.env, NODE_ENV: 'development', DATABASE_URL: dbUrl.toString(), PORT: String(port), PUBLIC_URL: `http://127.0.0.1:${port}`, SMTP_CAPTURE_PORT: '0', LOG_REQUESTS: 'false', AUTH_RATE_LIMIT_MAX: '10000' },
@@ -48,6 +49,8 @@ await new Promise<void>((resolve, reject) => {
   child.stdout!.on('data', (d: Buffer) => {
     text += d.toString();
     if (text.includes('serving on')) resolve();
+    // What the flags print (e.g. --trace-gc) goes through.
+    if (process.env.BENCH_API_NODE_FLAGS) process.stdout.write(d);
   });
   child.once('exit', (code) => reject(new Error(`the API exited with ${code}:\n${text}`)));
 });

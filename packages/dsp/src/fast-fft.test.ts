@@ -42,7 +42,7 @@ describe('fast FFT (PFFFT WebAssembly SIMD)', () => {
   it('loads on this Node without network and serves power-of-two lengths from 32 up', () => {
     // Node 20 runs WebAssembly 128-bit SIMD (V8 ≥ 9.1); the .wasm ships in the package.
     expect(active).toBe(true);
-    expect(fftPathName()).toBe('pffft-wasm-simd-f32');
+    expect(fftPathName()).toBe('pffft-wasm-simd-f32-235');
     expect(realFftPlan(16384).constructor.name).toBe('PffftPlan');
   });
 
@@ -54,6 +54,21 @@ describe('fast FFT (PFFFT WebAssembly SIMD)', () => {
       // Not bit-identical: the fast path really runs in float32 (an error of at least ~u/10 remains).
       expect(err, `N = ${n}`).toBeGreaterThan(U32 / 10);
     }
+  });
+
+  it('serves the other lengths PFFFT takes (multiples of 32 with factors 2, 3, 5: 1 s at 48 or 96 kHz) within the same bound, and leaves the rest to Bluestein', () => {
+    // PFFFT's real transform takes N = 2^a·3^b·5^c with a ≥ 5 (pffft.h, Pommier). The bound is the
+    // radix-2 one of Higham (2002) with log2 N rounded up; mixed-radix FFTs grow their error with
+    // log N alike (Higham 2002, §24.1, from memory), and the measured error is far below it.
+    for (const n of [96, 480, 48000, 96000]) {
+      expect(realFftPlan(n).constructor.name, `N = ${n}`).toBe('PffftPlan');
+      const x = noise(n, 1.5, gaussian(n + 11));
+      const err = relativeError(spectrum(realFftPlan(n), x), spectrum(referenceRealFftPlan(n), x));
+      expect(err, `N = ${n}`).toBeLessThanOrEqual(bound(2 ** Math.ceil(Math.log2(n))));
+      expect(err, `N = ${n}`).toBeGreaterThan(U32 / 10);
+    }
+    // 44 100 is not a multiple of 32; 224 = 32·7 has the factor 7.
+    for (const n of [44100, 224, 1000]) expect(realFftPlan(n).constructor.name, `N = ${n}`).toBe('BluesteinPlan');
   });
 
   it('forwardCross() accumulates the same sums as the float64 path within the bound', () => {

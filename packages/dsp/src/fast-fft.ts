@@ -1,7 +1,8 @@
 // The server's fast real FFT: PFFFT (J. Pommier, "PFFFT: a pretty fast FFT", after FFTPACK,
 // P. N. Swarztrauber 1982) compiled to WebAssembly with 128-bit SIMD, from @echogarden/pffft-wasm
-// (BSD-3-Clause; the .wasm ships inside the package, nothing is fetched). It serves power-of-two
-// lengths >= 32 behind the RealFftPlan interface of fft.ts; every other length, and every process
+// (BSD-3-Clause; the .wasm ships inside the package, nothing is fetched). It serves the lengths PFFFT
+// takes (multiples of 32 whose only prime factors are 2, 3 and 5: powers of two, and e.g. 48 000 for
+// 1 s at 48 kHz) behind the RealFftPlan interface of fft.ts; every other length, and every process
 // that never calls useFastFft() (the browser, the tests by default), keeps fft.js in double precision.
 //
 // Precision: PFFFT computes in float32 (unit roundoff u = 2⁻²⁴ ≈ 5.96e-8, ≈ 7.2 significant digits).
@@ -77,7 +78,7 @@ class PffftPlan implements RealFftPlan {
 
 let loaded: PffftModule | null = null;
 
-/** The PFFFT plan for n, or null when PFFFT does not take n (it needs a multiple of 32 for real input). */
+/** The PFFFT plan for n, or null when PFFFT does not take n (real input: a multiple of 32 with prime factors 2, 3, 5 only; pffft_new_setup answers 0 otherwise). */
 export function pffftPlan(mod: PffftModule, n: number): RealFftPlan | null {
   if (n < 32 || n % 32 !== 0) return null;
   const setup = mod._pffft_new_setup(n, PFFFT_REAL);
@@ -86,8 +87,8 @@ export function pffftPlan(mod: PffftModule, n: number): RealFftPlan | null {
 }
 
 /**
- * Loads the SIMD WebAssembly build of PFFFT and makes it the plan source for power-of-two lengths
- * (>= 32). Resolves true when the fast path is active, false when this runtime cannot run it (no
+ * Loads the SIMD WebAssembly build of PFFFT and makes it the plan source for the lengths it takes
+ * (see pffftPlan; the name 'pffft-wasm-simd-f32-235' keys stored results, hits/entry-result.ts). Resolves true when the fast path is active, false when this runtime cannot run it (no
  * WebAssembly, or no 128-bit SIMD): fft.js then stays in use. Idempotent. Call once at start.
  */
 export async function useFastFft(): Promise<boolean> {
@@ -101,7 +102,7 @@ export async function useFastFft(): Promise<boolean> {
     }
   }
   const mod = loaded;
-  setFastPlanFactory((n) => pffftPlan(mod, n), 'pffft-wasm-simd-f32');
+  setFastPlanFactory((n) => pffftPlan(mod, n), 'pffft-wasm-simd-f32-235');
   return true;
 }
 

@@ -223,8 +223,8 @@ class BluesteinPlan extends CrossSums implements RealFftPlan {
 const plans = new Map<number, RealFftPlan>();
 
 /**
- * A source of faster plans for power-of-two lengths (e.g. the WebAssembly build of fast-fft.ts on
- * the server). It returns null for a length it does not handle, and fft.js serves that length.
+ * A source of faster plans (e.g. the WebAssembly build of fast-fft.ts on the server: powers of two and
+ * other lengths with factors 2, 3, 5). It returns null for a length it does not handle, and fft.js serves that length.
  */
 export type FastPlanFactory = (n: number) => RealFftPlan | null;
 let fastFactory: FastPlanFactory | null = null;
@@ -261,7 +261,8 @@ export function realFftPlan(n: number): RealFftPlan {
   if (!plan) {
     if (n <= 2) plan = new TinyPlan(n);
     else if (isPowerOfTwo(n)) plan = fastFactory?.(n) ?? new PowerOfTwoPlan(n);
-    else plan = new BluesteinPlan(n);
+    // Other lengths: the fast source where it takes them (PFFFT: multiples of 32 with factors 2, 3, 5 only, e.g. 48 000), else Bluestein.
+    else plan = fastFactory?.(n) ?? new BluesteinPlan(n);
     plans.set(n, plan);
   }
   return plan;

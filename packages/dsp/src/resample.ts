@@ -89,13 +89,12 @@ export function resamplePoly(x: ArrayLike<number>, up: number, down: number): Fl
   down /= g;
   if (up === 1 && down === 1) return Float64Array.from(x);
   const nOut = Math.ceil((nIn * up) / down);
-  const core = resampleFilter(up, down);
-  const half = (core.length - 1) / 2;
-  // Pre-padding puts output sample 0 at the filter's centre (as resample_poly does).
-  const prePad = down - (half % down);
-  const preRemove = Math.floor((half + prePad) / down);
-  const lenH = core.length + prePad;
-  const h = (m: number) => (m >= prePad && m < lenH ? core[m - prePad]! : 0);
+  const hp = paddedFilter(up, down);
+  const lenH = hp.length;
+  const half = (lenH - hp.prePad - 1) / 2;
+  const preRemove = Math.floor((half + hp.prePad) / down);
+  // A typed copy of the input, so the inner loop reads one kind of array (no copy when it already is one).
+  const xs = x instanceof Float64Array ? x : Float64Array.from(x);
   const out = new Float64Array(nOut);
   // y[k] = Σ_j x[j] · h[k·down − j·up] over 0 ≤ k·down − j·up < lenH (upfirdn).
   for (let k = 0; k < nOut; k++) {
@@ -103,8 +102,25 @@ export function resamplePoly(x: ArrayLike<number>, up: number, down: number): Fl
     const jHi = Math.min(nIn - 1, Math.floor(m / up));
     const jLo = Math.max(0, Math.ceil((m - lenH + 1) / up));
     let acc = 0;
-    for (let j = jLo; j <= jHi; j++) acc += x[j]! * h(m - j * up);
+    for (let j = jLo, t = m - jLo * up; j <= jHi; j++, t -= up) acc += xs[j]! * hp[t]!;
     out[k] = acc;
   }
   return out;
+}
+
+/** resampleFilter(up, down) behind `prePad` zeros (output sample 0 at the filter's centre, as resample_poly does), made once per ratio. */
+const paddedFilters = new Map<string, Float64Array & { prePad: number }>();
+function paddedFilter(up: number, down: number): Float64Array & { prePad: number } {
+  const key = `${up}/${down}`;
+  let hp = paddedFilters.get(key);
+  if (!hp) {
+    const core = resampleFilter(up, down);
+    const half = (core.length - 1) / 2;
+    const prePad = down - (half % down);
+    hp = Object.assign(new Float64Array(core.length + prePad), { prePad });
+    hp.set(core, prePad);
+    if (paddedFilters.size >= 16) paddedFilters.delete(paddedFilters.keys().next().value!);
+    paddedFilters.set(key, hp);
+  }
+  return hp;
 }

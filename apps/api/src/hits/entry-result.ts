@@ -3,7 +3,7 @@
 // stored off the request path, hits/result-cache.ts). Raw hits are never changed: everything here
 // is recomputable from them and the settings.
 import { createHash } from 'node:crypto';
-import { and, asc, eq } from 'drizzle-orm';
+import { and, asc, eq, sql } from 'drizzle-orm';
 import { FRF_ALGORITHM_VERSION, averageFrf, fftPathName, type AverageFrfOptions, type AveragedFrf } from '@resonote/dsp';
 import type { AcquisitionSettings } from '@resonote/contracts';
 import { frfResult, hit } from '@resonote/db/schema';
@@ -79,6 +79,11 @@ export function entryInputHash(settingsVersion: number, hits: readonly { id: str
     .update(JSON.stringify({ algorithm: FRF_ALGORITHM_VERSION, fft: fftPathName(), v: settingsVersion, hits: hits.map((h) => `${h.id}:${h.version}`) }))
     .digest('hex');
 }
+
+/** The columns an frf_result upsert replaces, each from the row it tried to insert (`excluded.*`). */
+const upsertFromExcluded = Object.fromEntries(
+  (['inputHash', 'settingsVersion', 'hitIds', 'averages', 'sampleRateHz', 'samples', 'channels', 'data', 'computedAt', 'campaignId'] as const).map((k) => [k, sql.raw(`excluded."${frfResult[k].name}"`)]),
+);
 
 /** Index of the response channel that measures the entry's own response DOF (same point and axis), else 0. */
 export function mainChannel(channels: { dof: string }[], responseDof: string): number {
@@ -169,18 +174,19 @@ export async function entryResult(db: Db, campaignId: string, entryId: string, c
     sampleRateHz: s.sampleRateHz,
     samples: n,
     channels,
-    data: encodeFrf(frf),
     computedAt,
   };
   const result: EntryResult = { inputHash: hash, settingsVersion: settings.version, hitIds: values.hitIds, averages: frf.averages, sampleRateHz: s.sampleRateHz, samples: n, channels, excitationDof, frf, excluded, computedAt };
   rememberResult(db, entryId, result);
   // The stored copy serves other processes and restarts; writing it is not on the request path,
   // and a burst of hits at one DOF writes only its last result.
+  // The spectra are encoded only when written (once per quiet DOF, not once per hit), and the
+  // upsert takes the new row's values as `excluded.*`, so its ≈ 1.6 MB go over the wire once.
   scheduleResultWrite(db, entryId, () =>
     db
       .insert(frfResult)
-      .values(values)
-      .onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: values })
+      .values({ ...values, data: encodeFrf(frf) })
+      .onConflictDoUpdate({ target: frfResult.scheduleEntryId, set: upsertFromExcluded })
       .then(() => undefined),
   );
   return result;

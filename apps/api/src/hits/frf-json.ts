@@ -7,7 +7,10 @@ import type { EntryResult } from './entry-result.ts';
 export { frfUnits, type FrfKind };
 
 function pick(values: Float64Array, from: number, to: number): number[] {
-  return Array.from(values.subarray(from, to));
+  // A counted loop, not Array.from(subarray): the iterator would allocate a result object per line.
+  const out = new Array<number>(to - from);
+  for (let k = from; k < to; k++) out[k - from] = values[k]!;
+  return out;
 }
 
 function rounded(c: Complex, from: number, to: number) {

@@ -79,21 +79,17 @@ export function decodeWav(buf: Buffer): DecodedRecording {
   const frames = Math.floor(data.length / frame);
   if (frames === 0) throw new RecordingError('The WAV file holds no samples.');
   const out = Array.from({ length: channels }, () => new Float64Array(frames));
-  // One loop per sample format, reading through a DataView (little-endian), channel by channel.
+  // One loop per sample format, reading through a DataView (little-endian), channel by channel,
+  // written out per format so no sample passes through a function call (which would box it).
   const view = new DataView(buf.buffer, buf.byteOffset + data.start, frames * frame);
-  const read: (at: number) => number =
-    format === 3
-      ? bits === 32
-        ? (at) => view.getFloat32(at, true)
-        : (at) => view.getFloat64(at, true)
-      : bits === 16
-        ? (at) => view.getInt16(at, true) / 32768
-        : bits === 24
-          ? (at) => ((view.getUint8(at) | (view.getUint8(at + 1) << 8) | (view.getInt8(at + 2) << 16)) / 8388608)
-          : (at) => view.getInt32(at, true) / 2147483648;
   for (let c = 0; c < channels; c++) {
     const ch = out[c]!;
-    for (let i = 0, at = c * bytes; i < frames; i++, at += frame) ch[i] = read(at);
+    let at = c * bytes;
+    if (format === 3 && bits === 32) for (let i = 0; i < frames; i++, at += frame) ch[i] = view.getFloat32(at, true);
+    else if (format === 3) for (let i = 0; i < frames; i++, at += frame) ch[i] = view.getFloat64(at, true);
+    else if (bits === 16) for (let i = 0; i < frames; i++, at += frame) ch[i] = view.getInt16(at, true) / 32768;
+    else if (bits === 24) for (let i = 0; i < frames; i++, at += frame) ch[i] = (view.getUint8(at) | (view.getUint8(at + 1) << 8) | (view.getInt8(at + 2) << 16)) / 8388608;
+    else for (let i = 0; i < frames; i++, at += frame) ch[i] = view.getInt32(at, true) / 2147483648;
   }
   checkFinite(out);
   return { sampleRateHz: rate, channels: out, fractionOfFullScale: format === 1 };

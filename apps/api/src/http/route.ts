@@ -127,7 +127,13 @@ export class ApiRoutes {
         // A handler may choose another success status through res.locals.status (a replayed upload answers 200).
         const status = (res.locals.status as number | undefined) ?? spec.status;
         if (result === undefined) res.status(status ?? 204).end();
-        else res.status(status ?? 200).json(result);
+        else if (spec.method === 'get') res.status(status ?? 200).json(result);
+        else {
+          // Not res.json: Express would hash the body for an ETag, which only a GET can use (a hit's
+          // answer is ≈ 0.4 MB of FRF, docs/decisions/hit-cost.md).
+          const body = Buffer.from(JSON.stringify(result), 'utf8');
+          res.status(status ?? 200).type('application/json').set('Content-Length', String(body.length)).end(body);
+        }
       } catch (err) {
         next(err);
       }
