@@ -67,6 +67,7 @@ interface RunResult {
   framesSeen: number;
   droppedByWorklet: number;
   meters: number;
+  trackChannels: number | null;
   records: { startFrame: number; lostFrames: number; silentRun: number; frames: number; badSteps: number; missing: number; misaligned: number }[];
 }
 
@@ -77,88 +78,113 @@ try {
   page.on('console', (m) => logs.push(`${m.type()}: ${m.text()}`));
   await page.goto(base);
   console.log(`load average at the start: ${os.loadavg().map((l) => l.toFixed(2)).join(', ')} on ${os.cpus().length} cores`);
-  console.log(`running ${SECONDS} s at ${FS} Hz × ${CHANNELS} channels through ${workletFile}…`);
-  const r: RunResult = await page.evaluate(
-    async ({ fs, channels, seconds }) => {
-      let ctx: AudioContext;
-      try {
-        ctx = new AudioContext({ sampleRate: fs, latencyHint: 'interactive' });
-      } catch (err) {
-        return { error: `new AudioContext({ sampleRate: ${fs} }) threw: ${String(err)}` } as RunResult;
-      }
-      await ctx.audioWorklet.addModule('/counter-source.js');
-      await ctx.audioWorklet.addModule('/capture-worklet.js');
-      if (ctx.state !== 'running') await Promise.race([ctx.resume(), new Promise((r) => setTimeout(r, 3000))]);
-      if (ctx.state !== 'running') return { error: `the AudioContext stays "${ctx.state}"`, contextRate: ctx.sampleRate } as RunResult;
-      const options = { channels, sampleRateHz: ctx.sampleRate, forceChannel: 0, forceNPerUnit: 1, triggerLevelN: 0.25, slope: 'rising', hysteresis: 0.5, preTriggerSamples: Math.round(0.01 * fs), recordSamples: Math.round(0.5 * fs), meterFrames: Math.round(fs / 20) };
-      const source = new AudioWorkletNode(ctx, 'counter-source', { numberOfInputs: 0, numberOfOutputs: 1, outputChannelCount: [channels] });
-      const capture = new AudioWorkletNode(ctx, 'resonote-live-capture', { numberOfInputs: 1, numberOfOutputs: 1, outputChannelCount: [1], channelCount: channels, channelCountMode: 'explicit', channelInterpretation: 'discrete', processorOptions: options });
-      const mute = ctx.createGain();
-      mute.gain.value = 0;
-      const out = { framesSeen: 0, dropped: 0, meters: 0, firstMeterTime: -1, firstMeterFrames: 0, lastMeterTime: 0 };
-      const records: RunResult['records'] = [];
-      capture.port.onmessage = (e: MessageEvent) => {
-        const m = e.data;
-        if (m.type === 'meter') {
-          out.meters += 1;
-          if (out.firstMeterTime < 0) {
-            out.firstMeterTime = ctx.currentTime;
-            out.firstMeterFrames = m.framesSeen;
+  // Chromium's MediaStreamAudioDestinationNode gives a 2-channel track whatever its channelCount
+  // (measured here: "stream track 2 channels"), so the MediaStream hop runs 2 of the 4 channels.
+  for (const [via, channels] of [['direct', CHANNELS], ['stream', 2]] as const) {
+    console.log(`${via === 'direct' ? 'generator worklet → capture worklet (one context)' : 'generator → MediaStream → second context → capture worklet'}: running ${SECONDS} s at ${FS} Hz × ${channels} channels through ${workletFile}…`);
+    const r: RunResult = await page.evaluate(
+      async ({ fs, channels, seconds, via }) => {
+        // (No named function in here: the page gets this code as text, without tsx's helpers.)
+        const contexts: AudioContext[] = [];
+        try {
+          for (let i = 0; i < (via === 'stream' ? 2 : 1); i++) {
+            const c = new AudioContext({ sampleRate: fs, latencyHint: 'interactive' });
+            if (c.state !== 'running') await Promise.race([c.resume(), new Promise((r) => setTimeout(r, 3000))]);
+            contexts.push(c);
           }
-          out.lastMeterTime = ctx.currentTime;
-          out.framesSeen = m.framesSeen;
-          out.dropped = m.droppedFrames;
-        } else if (m.type === 'record') {
-          const chs = m.channels as Float32Array[];
-          const n = chs[0]!.length;
-          let badSteps = 0;
-          let missing = 0;
-          let misaligned = 0;
-          for (let c = 0; c < chs.length; c++) {
-            const x = chs[c]!;
-            for (let i = 1; i < n; i++) {
-              const step = (Math.round(x[i]! * 131072) - Math.round(x[i - 1]! * 131072)) & 65535;
-              if (step !== 1) {
-                badSteps += 1;
-                missing += (step - 1) & 65535;
-              }
-            }
-            if (c > 0) for (let i = 0; i < n; i++) if (((Math.round(x[i]! * 131072) - Math.round(chs[0]![i]! * 131072)) & 65535) !== c * 16384) misaligned += 1;
-          }
-          records.push({ startFrame: m.startFrame, lostFrames: m.lostFrames, silentRun: m.silentRun, frames: n, badSteps, missing, misaligned });
+        } catch (err) {
+          return { error: `new AudioContext({ sampleRate: ${fs} }) threw: ${String(err)}` } as RunResult;
         }
-      };
-      source.connect(capture).connect(mute).connect(ctx.destination);
-      await new Promise((r) => setTimeout(r, seconds * 1000));
-      // Expected frames between the first and the last meter reading, from the context's clock.
-      const result: RunResult = {
-        contextRate: ctx.sampleRate,
-        baseLatency: ctx.baseLatency,
-        outputLatency: 'outputLatency' in ctx ? ctx.outputLatency : null,
-        seconds: out.lastMeterTime - out.firstMeterTime,
-        expectedFrames: Math.round((out.lastMeterTime - out.firstMeterTime) * ctx.sampleRate),
-        framesSeen: out.framesSeen - out.firstMeterFrames,
-        droppedByWorklet: out.dropped,
-        meters: out.meters,
-        records,
-      };
-      capture.port.postMessage({ type: 'stop' });
-      await ctx.close();
-      return result;
-    },
-    { fs: FS, channels: CHANNELS, seconds: SECONDS },
-  );
-  if (r.error) {
-    console.log(`Chromium could not run the capture at ${FS} Hz: ${r.error}`);
-    process.exitCode = 1;
-  } else {
-    const broken = r.records.map((x) => streamBreak({ lostInWorklet: x.lostFrames, silentRun: x.silentRun, droppedUpstream: 0 }, SILENT_RUN_FRAMES, r.contextRate)).filter((b): b is string => b !== null);
-    const bad = r.records.filter((x) => x.badSteps > 0 || x.misaligned > 0);
-    console.log(`context: ${r.contextRate} Hz (asked ${FS}), base latency ${(r.baseLatency * 1000).toFixed(1)} ms, output latency ${r.outputLatency === null ? 'not reported' : `${(r.outputLatency * 1000).toFixed(1)} ms`}`);
-    console.log(`frames: ${r.framesSeen.toLocaleString('en')} seen by the capture worklet against ${r.expectedFrames.toLocaleString('en')} expected from currentTime over ${r.seconds.toFixed(2)} s (difference ${r.framesSeen - r.expectedFrames}; resolution one meter window, ${Math.round(FS / 20)} frames); ${r.meters} meter readings`);
-    console.log(`skipped by the audio thread (currentFrame gaps): ${r.droppedByWorklet} frames`);
-    console.log(`records: ${r.records.length} of ${r.records[0]?.frames ?? 0} frames × ${CHANNELS} channels; counter steps ≠ +1: ${r.records.reduce((s, x) => s + x.badSteps, 0)} (${r.records.reduce((s, x) => s + x.missing, 0)} counts missing) in ${bad.length} records; samples off their channel offset: ${r.records.reduce((s, x) => s + x.misaligned, 0)}`);
-    console.log(`stream-break detection: ${broken.length} of ${r.records.length} records flagged${broken.length ? ` (first: ${broken[0]})` : ''}`);
+        const ctx = contexts[0]!;
+        const gen = contexts[contexts.length - 1]!;
+        if (ctx.state !== 'running' || gen.state !== 'running') return { error: `the AudioContext stays "${ctx.state}"`, contextRate: ctx.sampleRate } as RunResult;
+        await gen.audioWorklet.addModule('/counter-source.js');
+        await ctx.audioWorklet.addModule('/capture-worklet.js');
+        const options = { channels, sampleRateHz: ctx.sampleRate, forceChannel: 0, forceNPerUnit: 1, triggerLevelN: 0.25, slope: 'rising', hysteresis: 0.5, preTriggerSamples: Math.round(0.01 * fs), recordSamples: Math.round(0.5 * fs), meterFrames: Math.round(fs / 20) };
+        const counter = new AudioWorkletNode(gen, 'counter-source', { numberOfInputs: 0, numberOfOutputs: 1, outputChannelCount: [channels] });
+        // "stream": through a MediaStream from a second context at the same rate, as an interface's
+        // samples reach the capture worklet on Tap (MediaStreamAudioSourceNode).
+        let source: AudioNode = counter;
+        let trackChannels: number | null = null;
+        if (via === 'stream') {
+          const dest = gen.createMediaStreamDestination();
+          dest.channelCount = channels;
+          dest.channelCountMode = 'explicit';
+          dest.channelInterpretation = 'discrete';
+          counter.connect(dest);
+          trackChannels = dest.stream.getAudioTracks()[0]?.getSettings().channelCount ?? null;
+          source = ctx.createMediaStreamSource(dest.stream);
+        }
+        const capture = new AudioWorkletNode(ctx, 'resonote-live-capture', { numberOfInputs: 1, numberOfOutputs: 1, outputChannelCount: [1], channelCount: channels, channelCountMode: 'explicit', channelInterpretation: 'discrete', processorOptions: options });
+        const mute = ctx.createGain();
+        mute.gain.value = 0;
+        const out = { framesSeen: 0, dropped: 0, meters: 0, firstMeterTime: -1, firstMeterFrames: 0, lastMeterTime: 0 };
+        const records: RunResult['records'] = [];
+        capture.port.onmessage = (e: MessageEvent) => {
+          const m = e.data;
+          if (m.type === 'meter') {
+            out.meters += 1;
+            if (out.firstMeterTime < 0) {
+              out.firstMeterTime = ctx.currentTime;
+              out.firstMeterFrames = m.framesSeen;
+            }
+            out.lastMeterTime = ctx.currentTime;
+            out.framesSeen = m.framesSeen;
+            out.dropped = m.droppedFrames;
+          } else if (m.type === 'record') {
+            const chs = m.channels as Float32Array[];
+            const n = chs[0]!.length;
+            let badSteps = 0;
+            let missing = 0;
+            let misaligned = 0;
+            for (let c = 0; c < chs.length; c++) {
+              const x = chs[c]!;
+              for (let i = 1; i < n; i++) {
+                const step = (Math.round(x[i]! * 131072) - Math.round(x[i - 1]! * 131072)) & 65535;
+                if (step !== 1) {
+                  badSteps += 1;
+                  missing += (step - 1) & 65535;
+                }
+              }
+              if (c > 0) for (let i = 0; i < n; i++) if (((Math.round(x[i]! * 131072) - Math.round(chs[0]![i]! * 131072)) & 65535) !== c * 16384) misaligned += 1;
+            }
+            records.push({ startFrame: m.startFrame, lostFrames: m.lostFrames, silentRun: m.silentRun, frames: n, badSteps, missing, misaligned });
+          }
+        };
+        source.connect(capture).connect(mute).connect(ctx.destination);
+        await new Promise((r) => setTimeout(r, seconds * 1000));
+        // Expected frames between the first and the last meter reading, from the context's clock.
+        const result: RunResult = {
+          contextRate: ctx.sampleRate,
+          baseLatency: ctx.baseLatency,
+          outputLatency: 'outputLatency' in ctx ? ctx.outputLatency : null,
+          seconds: out.lastMeterTime - out.firstMeterTime,
+          expectedFrames: Math.round((out.lastMeterTime - out.firstMeterTime) * ctx.sampleRate),
+          framesSeen: out.framesSeen - out.firstMeterFrames,
+          droppedByWorklet: out.dropped,
+          meters: out.meters,
+          records,
+          trackChannels: null,
+        };
+        capture.port.postMessage({ type: 'stop' });
+        await ctx.close();
+        if (gen !== ctx) await gen.close();
+        return { ...result, trackChannels };
+      },
+      { fs: FS, channels, seconds: SECONDS, via },
+    );
+    if (r.error) {
+      console.log(`Chromium could not run the capture at ${FS} Hz: ${r.error}`);
+      process.exitCode = 1;
+    } else {
+      const broken = r.records.map((x) => streamBreak({ lostInWorklet: x.lostFrames, silentRun: x.silentRun, droppedUpstream: 0 }, SILENT_RUN_FRAMES, r.contextRate)).filter((b): b is string => b !== null);
+      const bad = r.records.filter((x) => x.badSteps > 0 || x.misaligned > 0);
+      console.log(`  context: ${r.contextRate} Hz (asked ${FS})${r.trackChannels !== null ? `, stream track ${r.trackChannels} channels` : ''}, base latency ${(r.baseLatency * 1000).toFixed(1)} ms, output latency ${r.outputLatency === null ? 'not reported' : `${(r.outputLatency * 1000).toFixed(1)} ms`}`);
+      console.log(`  frames: ${r.framesSeen.toLocaleString('en')} seen by the capture worklet against ${r.expectedFrames.toLocaleString('en')} expected from currentTime over ${r.seconds.toFixed(2)} s (difference ${r.framesSeen - r.expectedFrames}; resolution one meter window, ${Math.round(FS / 20)} frames); ${r.meters} meter readings`);
+      console.log(`  skipped by the audio thread (currentFrame gaps): ${r.droppedByWorklet} frames`);
+      console.log(`  records: ${r.records.length} of ${r.records[0]?.frames ?? 0} frames × ${channels} channels; counter steps ≠ +1: ${r.records.reduce((s, x) => s + x.badSteps, 0)} (${r.records.reduce((s, x) => s + x.missing, 0)} counts missing) in ${bad.length} records; samples off their channel offset: ${r.records.reduce((s, x) => s + x.misaligned, 0)}`);
+      console.log(`  stream-break detection: ${broken.length} of ${r.records.length} records flagged${broken.length ? ` (first: ${broken[0]})` : ''}`);
+    }
   }
   console.log(`load average (1, 5, 15 min) at the end: ${os.loadavg().map((l) => l.toFixed(2)).join(', ')} on ${os.cpus().length} cores`);
   const noisy = logs.filter((l) => !l.startsWith('log:'));
