@@ -93,13 +93,14 @@ async function openLive(page: Page, dof: string, stopAfter: number) {
 
 // Tap's one screen while capturing, first in the file so no other DOF is flagged yet (a flagged DOF
 // adds a line to the DOF bar). Its own fake device plays clean hits only, so the verdict on screen
-// is always an accepted hit's ("All checks passed…"), whichever hit is the latest.
+// is always an accepted hit's ("All checks passed…"), whichever hit is the latest; they come 30 s
+// apart, so the FRF is seldom redrawn while its boxes are read (each box waits for its element).
 describe('Tap with the live input on one screen', () => {
   let cleanBrowser: Browser;
   beforeAll(async () => {
     const wavPath = path.join(screenshotDir, '..', 'live', 'bar-clean-44k1.wav');
     fs.mkdirSync(path.dirname(wavPath), { recursive: true });
-    fs.writeFileSync(wavPath, liveBarWav('B01:+Z', { kinds: Array(6).fill('clean') }).wav);
+    fs.writeFileSync(wavPath, liveBarWav('B01:+Z', { kinds: ['clean', 'clean'], spacingS: 30 }).wav);
     cleanBrowser = await launchBrowser(fakeAudioInput(wavPath));
   }, 60_000);
   afterAll(async () => {
@@ -141,7 +142,9 @@ describe('Tap with the live input on one screen', () => {
         const vp = page.viewportSize()!;
         type Box = { x: number; y: number; width: number; height: number };
         const boxOf = async (testId: string | ReturnType<Page['locator']>, name: string): Promise<Box> => {
-          const b = await (typeof testId === 'string' ? page.getByTestId(testId).first() : testId).boundingBox();
+          const locator = typeof testId === 'string' ? page.getByTestId(testId).first() : testId;
+          await locator.waitFor();
+          const b = await locator.boundingBox();
           expect(b, `${name} is laid out ${at}`).not.toBeNull();
           const inside = b!.x >= 0 && b!.y >= 0 && b!.x + b!.width <= vp.width + 0.5 && b!.y + b!.height <= vp.height + 0.5;
           expect(inside, `${name} ${JSON.stringify(b)} inside the window ${at}`).toBe(true);
