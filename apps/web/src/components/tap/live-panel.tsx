@@ -13,6 +13,7 @@ import { keys, useChannels, useSettings, type Channel } from '../../lib/campaign
 import type { HitsAnswer } from '../../lib/hits-data.ts';
 import { toneOf } from '../../lib/live/calibrator.ts';
 import { OVERLOAD_PEAK, type Slope } from '../../lib/live/capture-engine.ts';
+import { useReadings, type ReadingStore } from '../../lib/live/readings.ts';
 import { useFailure } from '../../lib/mutation.ts';
 import { Button, Notice, Spinner } from '../ui.tsx';
 import { SafetyNote } from './safety-note.tsx';
@@ -48,9 +49,9 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   const plan = s && { campaignId, entryId, entryLabel, channels: sorted, scaling: scale, settings: s, slope, hysteresis: hyst, stopAfter: stopN };
 
   const { retarget, resume } = live;
-  // Tap's slot under the DOF (tap-page.tsx, id tap-live-strip): while capturing, the state and the
+  // Tap's slot beside the DOF's progress (tap-page.tsx, id tap-live-strip): while capturing, the state and the
   // meters go there so they stay in view with the verdict and the FRF.
-  // Looked up at every render (the meters re-render it every 50 ms), so a re-rendered Tap page is followed.
+  // Looked up at every render of the panel (each change of state and each capture).
   const strip = live.running ? document.getElementById('tap-live-strip') : null;
   useEffect(() => {
     if (plan && optionsOk) retarget(plan);
@@ -74,11 +75,11 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   const lowCuts = scale.filter((x) => x.acLowCutHz !== null && s !== undefined && s.bandHz.low < x.acLowCutHz);
   const blocked = !s || unscaled.length > 0 || sorted.length === 0 || !optionsOk || (rateDiffers && !s.resampleUploads);
 
-  const stateLine = (
-    <div className={`flex flex-wrap items-center justify-between gap-x-2 text-sm ${live.running ? '-order-4' : ''}`} aria-live="polite">
+  const stateLine = (compact: boolean) => (
+    <div className={`flex flex-wrap items-center justify-between gap-x-2 ${compact ? 'text-xs' : `text-sm ${live.running ? '-order-4' : ''}`}`} aria-live="polite">
       <p>
         Live input: <strong data-testid="live-state-word">{stateWords[live.engine]}</strong>
-        {live.engine === 'armed' && s && <span className="text-[var(--muted)]"> — strike when ready (above {s.triggerLevelN} N)</span>}
+        {live.engine === 'armed' && s && <span className="text-[var(--muted)]">{compact ? ` — strike above ${s.triggerLevelN} N` : ` — strike when ready (above ${s.triggerLevelN} N)`}</span>}
       </p>
       <p className={live.pending ? 'font-semibold text-warn' : 'text-[var(--muted)]'} data-testid="live-pending" data-count={live.pending}>
         {live.pending === 0 ? 'none waiting to be sent' : `${live.pending} hit${live.pending === 1 ? '' : 's'} waiting to be sent${live.waitingFor ? ` (${live.waitingFor.reason === 'unreachable' ? 'server not reachable' : 'server busy'}; kept on this device, sent in order)` : ''}`}
@@ -201,33 +202,24 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
         </div>
       )}
 
-      {!(live.running && strip) && stateLine}
+      {!(live.running && strip) && stateLine(false)}
 
       {live.running && !strip && (
         <div className="-order-3">
-          <Meters channels={sorted} meter={live.meter} />
+          <Meters channels={sorted} readings={live.readings} />
         </div>
       )}
       {live.running &&
         strip &&
         createPortal(
-          <div className="space-y-1 rounded-md border border-accent/40 px-3 py-1.5" data-testid="live-strip">
-            {stateLine}
-            <Meters channels={sorted} meter={live.meter} wide />
+          <div className="space-y-0.5 rounded-md border border-accent/40 px-2 py-1" data-testid="live-strip">
+            {stateLine(true)}
+            <Meters channels={sorted} readings={live.readings} compact />
           </div>,
           strip,
         )}
-      {live.running && strip && <p className="-order-3 text-xs text-[var(--muted)]">State and level meters: under the DOF, above.</p>}
-      {(live.running || live.frames.seen > 0) && (
-        <p className="num text-xs text-[var(--muted)]" data-testid="live-frames">
-          {live.frames.seen.toLocaleString('en')} frames read, {live.frames.dropped} skipped by the audio thread
-          {live.frames.upstream !== null ? `, ${live.frames.upstream} dropped before it` : ' (this browser does not report frames dropped before it)'}
-          {'; '}
-          <span data-testid="live-interrupted" data-count={live.frames.interrupted} className={live.frames.interrupted ? 'font-semibold text-warn' : ''}>
-            {live.frames.interrupted === 0 ? 'no record interrupted' : `${live.frames.interrupted} record${live.frames.interrupted === 1 ? '' : 's'} interrupted (not sent — hit again)`}
-          </span>
-        </p>
-      )}
+      {live.running && strip && <p className="-order-3 text-xs text-[var(--muted)]">State and level meters: beside the DOF, above.</p>}
+      <FrameLine readings={live.readings} running={live.running} />
 
       <div className={live.running ? '-order-1' : ''}>
         <CaptureList captures={live.captures} max={live.running ? 4 : 30} />
@@ -249,9 +241,25 @@ export function LivePanel({ campaignId, entryId, entryLabel, isLead, onStored }:
   );
 }
 
-function Meters({ channels, meter, wide = false }: { channels: Channel[]; meter: { peaks: number[]; headroomDb: number[]; overload: boolean[] } | null; wide?: boolean }) {
+function FrameLine({ readings, running }: { readings: ReadingStore; running: boolean }) {
+  const { frames } = useReadings(readings);
+  if (!running && frames.seen === 0) return null;
   return (
-    <div className={wide ? 'grid gap-x-6 gap-y-1 sm:grid-cols-2' : 'space-y-1.5'} data-testid="live-meters" aria-label="Level per channel" title="Headroom below digital full scale; overload from 1 dB below it.">
+    <p className="num text-xs text-[var(--muted)]" data-testid="live-frames">
+      {frames.seen.toLocaleString('en')} frames read, {frames.dropped} skipped by the audio thread
+      {frames.upstream !== null ? `, ${frames.upstream} dropped before it` : ' (this browser does not report frames dropped before it)'}
+      {'; '}
+      <span data-testid="live-interrupted" data-count={frames.interrupted} className={frames.interrupted ? 'font-semibold text-warn' : ''}>
+        {frames.interrupted === 0 ? 'no record interrupted' : `${frames.interrupted} record${frames.interrupted === 1 ? '' : 's'} interrupted (not sent — hit again)`}
+      </span>
+    </p>
+  );
+}
+
+function Meters({ channels, readings, compact = false }: { channels: Channel[]; readings: ReadingStore; compact?: boolean }) {
+  const { meter } = useReadings(readings);
+  return (
+    <div className={compact ? 'space-y-0.5' : 'space-y-1.5'} data-testid="live-meters" aria-label="Level per channel" title="Headroom below digital full scale; overload from 1 dB below it.">
       {channels.map((c) => {
         const i = c.channel - 1;
         const peak = meter?.peaks[i] ?? 0;
@@ -260,9 +268,9 @@ function Meters({ channels, meter, wide = false }: { channels: Channel[]; meter:
         // Bar on a dB scale: −60 dBFS at the left, 0 dBFS at the right.
         const width = peak > 0 ? Math.max(0, Math.min(100, ((20 * Math.log10(peak) + 60) / 60) * 100)) : 0;
         return (
-          <div key={c.id} className="grid grid-cols-[4.5rem_minmax(0,1fr)_6.5rem] items-center gap-2 text-xs" data-testid="live-meter" data-channel={c.channel} data-overload={over}>
+          <div key={c.id} className={`grid items-center gap-2 ${compact ? 'grid-cols-[3rem_minmax(0,1fr)_5.5rem] text-[11px] leading-4' : 'grid-cols-[4.5rem_minmax(0,1fr)_6.5rem] text-xs'}`} data-testid="live-meter" data-channel={c.channel} data-overload={over}>
             <span className="num">ch {c.channel} {c.kind === 'hammer' ? 'F' : 'a'}</span>
-            <div className="relative h-3 overflow-hidden rounded bg-[var(--line)]">
+            <div className={`relative overflow-hidden rounded bg-[var(--line)] ${compact ? 'h-2' : 'h-3'}`}>
               <div className={`h-full ${over ? 'bg-bad' : 'bg-accent'}`} style={{ width: `${width}%` }} />
               <div className="absolute inset-y-0 border-l border-bad" style={{ left: `${((20 * Math.log10(OVERLOAD_PEAK) + 60) / 60) * 100}%` }} aria-hidden />
             </div>
@@ -270,7 +278,7 @@ function Meters({ channels, meter, wide = false }: { channels: Channel[]; meter:
           </div>
         );
       })}
-      {!wide && <p className="text-xs text-[var(--muted)]">Headroom below digital full scale; overload from 1 dB below it.</p>}
+      {!compact && <p className="text-xs text-[var(--muted)]">Headroom below digital full scale; overload from 1 dB below it.</p>}
     </div>
   );
 }

@@ -4,15 +4,19 @@
 // (lib/live/outbox.ts) and is sent in capture order through the ordinary upload route; hits wait
 // there while the server or the network is away. See docs/decisions/live-capture.md.
 import { useCallback, useEffect, useRef, useState } from 'react';
+import { flushSync } from 'react-dom';
 import { useQueryClient } from '@tanstack/react-query';
 import type { AcquisitionSettings } from '@resonote/contracts';
 import workletUrl from '../../lib/live/capture-worklet.ts?worker&url';
 import { armingFailure, contextNotRunning, tooFewChannels } from '../../lib/live/arming-words.ts';
 import { DropLedger, streamBreak, trackDroppedFrames } from '../../lib/live/stream-break.ts';
-import { recordFrames, SILENT_RUN_FRAMES, type CaptureOptions, type MeterReading, type Slope } from '../../lib/live/capture-engine.ts';
+import { recordFrames, SILENT_RUN_FRAMES, type CaptureOptions, type Slope } from '../../lib/live/capture-engine.ts';
+import { ReadingStore } from '../../lib/live/readings.ts';
 import type { WorkletIn, WorkletOut } from '../../lib/live/capture-worklet.ts';
-import { encodeFloat32Wav } from '../../lib/live/wav.ts';
+import { encodeWavBuffer } from '../../lib/live/wav.ts';
+import { showFreshHit } from '../../lib/live/fresh-verdict.ts';
 import * as outbox from '../../lib/live/outbox.ts';
+import type { OutboxItem } from '../../lib/live/outbox.ts';
 import { ApiError } from '../../lib/api.ts';
 import type { Channel } from '../../lib/campaign-data.ts';
 import { hitKeys, invalidateTestData, markApplied, newIdempotencyKey, uploadRecording, type EntryHits, type HitsAnswer, type HitSummary } from '../../lib/hits-data.ts';
@@ -49,6 +53,12 @@ export interface Capture {
   message?: string;
 }
 
+/** A hit waiting to be sent; `kept` resolves to its IndexedDB id once it is on disk (undefined if that failed). */
+interface Queued {
+  item: OutboxItem;
+  kept: Promise<number | undefined>;
+}
+
 export type EngineState = 'off' | 'starting' | 'armed' | 'recording';
 
 export interface LivePlan {
@@ -72,8 +82,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
   const [devices, setDevices] = useState<MediaDeviceInfo[]>([]);
   const [device, setDevice] = useState<DeviceInfo | null>(null);
   const [engine, setEngine] = useState<EngineState>('off');
-  const [meter, setMeter] = useState<MeterReading | null>(null);
-  const [frames, setFrames] = useState({ seen: 0, dropped: 0, upstream: null as number | null, interrupted: 0 });
+  const [readings] = useState(() => new ReadingStore());
   const [captures, setCaptures] = useState<Capture[]>([]);
   const [pending, setPending] = useState(0);
   const [waitingFor, setWaitingFor] = useState<Waiting | null>(null);
@@ -97,9 +106,11 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
 
   const patch = (key: string, change: Partial<Capture>) => setCaptures((list) => list.map((c) => (c.key === key ? { ...c, ...change } : c)));
 
-  // The verdict comes from the POST answer alone; the entry's full FRF (every channel) is fetched
-  // once by `refresh` after the verdict is painted, so the plot's redraw and the refetches never
-  // delay it. markApplied: the campaign event of this same change then refetches nothing again.
+  // The verdict comes from the POST answer alone and is painted first (flushSync of the capture
+  // list and lib/live/fresh-verdict.ts: only the verdict words re-render); the Tap page's list of
+  // hits, the selection, the refetches and the FRF plot's redraw follow after that frame is
+  // painted, so none of them delays it. markApplied: the campaign event of this same change then
+  // refetches nothing again.
   const apply = useCallback(
     (campaignId: string, entryId: string, answer: HitsAnswer) => {
       markApplied(answer.hits);
@@ -114,6 +125,13 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
   );
   const refresh = useCallback((campaignId: string) => void invalidateTestData(client, campaignId), [client]);
 
+  // Hits to send, in capture order. A fresh capture is sent at once, while its IndexedDB write
+  // runs beside the POST (`kept`); it leaves memory only once that write is done, so a reload or
+  // a crash at any point finds it on disk, and its Idempotency-Key makes the resend store nothing twice.
+  const queue = useRef<Queued[]>([]);
+  const refreshDue = useRef(false);
+  const waitingIn = (campaignId: string) => queue.current.filter((q) => q.item.campaignId === campaignId).length;
+
   /** Sends the campaign's waiting hits one at a time, oldest first, until none is left. */
   const drain = useCallback(
     async (campaignId: string) => {
@@ -122,46 +140,62 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
       let attempt = 0;
       try {
         for (;;) {
-          const list = (await outbox.waiting(campaignId)).filter((i) => !i.refused);
-          setPending(list.length);
-          const item = list[0];
-          if (!item) break;
+          setPending(waitingIn(campaignId));
+          const next = queue.current.find((q) => q.item.campaignId === campaignId);
+          if (!next) break;
+          const item = next.item;
           const form = new FormData();
           form.append('units', 'volts');
           form.append('kind', 'accelerance');
           form.append('file', new Blob([item.wav], { type: 'audio/wav' }), `live-${new Date(item.capturedAt).toISOString()}.wav`);
+          const leave = async () => {
+            const id = await next.kept;
+            queue.current = queue.current.filter((q) => q !== next);
+            return id;
+          };
           try {
             const sentAt = performance.now();
-            // Capture → sent: the WAV encoding and the IndexedDB write (and any hit before it in the queue).
+            // Capture → sent: the volts and the WAV (and any hit before it in the queue).
             performance.measure('resonote-live-keep', { start: item.capturedAt - performance.timeOrigin, end: sentAt });
             const answer = await uploadRecording(`/campaigns/${campaignId}/schedule/${item.entryId}/hits`, form, item.key, () => {});
-            performance.measure('resonote-live-post', { start: sentAt, end: performance.now() });
-            await outbox.drop(item.id!);
+            const answerAt = performance.now();
+            performance.measure('resonote-live-post', { start: sentAt, end: answerAt });
             attempt = 0;
-            setWaitingFor(null);
-            apply(campaignId, item.entryId, answer);
-            patch(item.key, { state: 'stored', hit: answer.hits[0], message: answer.hits.length === 0 ? answer.skipped.map((s) => s.reason).join('; ') || 'no hit found in the record' : undefined });
-            // Capture → verdict on screen (two frames later it is painted), read by tests/bench/live-latency.ts;
-            // then the FRF and the rest are refetched and redrawn.
-            const start = item.capturedAt - performance.timeOrigin;
-            const applied = performance.now();
-            onStoredRef.current(answer);
-            let refreshed = false;
-            const refreshOnce = () => {
-              if (refreshed) return;
-              refreshed = true;
-              refresh(item.campaignId);
+            const hit = answer.hits[answer.hits.length - 1];
+            // The verdict words first: the capture list and the verdict panel, nothing else.
+            flushSync(() => {
+              setWaitingFor(null);
+              patch(item.key, { state: 'stored', hit: answer.hits[0], message: answer.hits.length === 0 ? answer.skipped.map((s) => s.reason).join('; ') || 'no hit found in the record' : undefined });
+              if (hit) showFreshHit(item.entryId, hit);
+            });
+            // Then the page, the refetches and the FRF, in a task after the frame that shows it.
+            let followed = false;
+            const follow = () => {
+              if (followed) return;
+              followed = true;
+              apply(campaignId, item.entryId, answer);
+              onStoredRef.current(answer);
+              // The refetches and the FRF's redraw (hundreds of ms of main thread on a slow machine)
+              // wait while more hits are queued behind this one, so they never hold up those
+              // hits' verdicts; the last hit of a run brings the FRF up to date.
+              if (queue.current.some((q) => q !== next && q.item.campaignId === campaignId)) refreshDue.current = true;
+              else refresh(campaignId);
             };
+            // Capture → verdict on screen: two frames after the answer, the first is painted; read by
+            // tests/bench/live-latency.ts.
+            const start = item.capturedAt - performance.timeOrigin;
             requestAnimationFrame(() =>
               requestAnimationFrame(() => {
                 const end = performance.now();
-                performance.measure('resonote-live-paint', { start: applied, end });
+                performance.measure('resonote-live-paint', { start: answerAt, end });
                 performance.measure('resonote-live-verdict', { start, end });
-                refreshOnce();
+                setTimeout(follow, 0);
               }),
             );
-            // A tab in the background paints no frames: refresh anyway.
-            setTimeout(refreshOnce, 1000);
+            // A tab in the background paints no frames: follow anyway.
+            setTimeout(follow, 1000);
+            const id = await leave();
+            if (id !== undefined) await outbox.drop(id).catch(() => undefined);
           } catch (err) {
             if (isTransient(err)) {
               attempt += 1;
@@ -171,7 +205,9 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
               await new Promise((r) => setTimeout(r, delay));
             } else {
               const message = err instanceof ApiError ? `${err.message} (${err.status})` : err instanceof Error ? err.message : 'refused';
-              await outbox.markRefused(item, message);
+              const id = await leave();
+              // Kept on this device with the server's words, shown, not sent again.
+              if (id !== undefined) await outbox.markRefused({ ...item, id }, message);
               patch(item.key, { state: 'refused', message });
             }
           }
@@ -179,6 +215,10 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
       } finally {
         sending.current = false;
         setWaitingFor(null);
+        if (refreshDue.current) {
+          refreshDue.current = false;
+          refresh(campaignId);
+        }
       }
     },
     [apply, refresh],
@@ -195,8 +235,8 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
     r.stream.getTracks().forEach((t) => t.stop());
     await r.ctx.close().catch(() => undefined);
     setEngine('off');
-    setMeter(null);
-  }, []);
+    readings.set({ meter: null });
+  }, [readings]);
   useEffect(() => () => void stop(), [stop]);
 
   /** Asks for the input (labels of devices appear after the permission) without starting capture. */
@@ -284,8 +324,7 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
           if (m.type === 'meter') {
             const upstream = trackDroppedFrames(track);
             if (upstream !== null) ledger.add({ frame: m.framesSeen, dropped: upstream });
-            setMeter(m);
-            setFrames({ seen: m.framesSeen, dropped: m.droppedFrames, upstream, interrupted: current.interrupted });
+            readings.set({ meter: m, frames: { seen: m.framesSeen, dropped: m.droppedFrames, upstream, interrupted: current.interrupted } });
             setEngine(m.state);
           } else if (m.type === 'grab') {
             grabs.current.get(m.id)?.(m.channels);
@@ -298,26 +337,27 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
             if (broken) {
               // Not a measurement of one hit: not sent, counted, and the next hit is already armed.
               current.interrupted += 1;
-              setFrames((f) => ({ ...f, interrupted: current.interrupted }));
+              readings.set({ frames: { ...readings.get().frames, interrupted: current.interrupted } });
               setCaptures((list) => [{ key: `interrupted-${m.triggerFrame}`, entryLabel: p.entryLabel, capturedAt: Date.now(), triggerFrame: m.triggerFrame, state: 'interrupted' as const, peaks: sorted.map((c) => m.peaks[c.channel - 1] ?? 0), message: `input stream interrupted — hit again (${broken}; not sent)` }, ...list].slice(0, 30));
               return;
             }
             current.taken += 1;
             const capturedAt = Date.now();
-            const volts = sorted.map((c) => {
-              const raw = m.channels[c.channel - 1]!;
-              const k = byNumber.get(c.channel)!.fullScaleVolts;
-              const out = new Float32Array(raw.length);
-              for (let i = 0; i < raw.length; i++) out[i] = raw[i]! * k;
-              return out;
-            });
             const key = `live-${newIdempotencyKey()}`;
             setCaptures((list) => [{ key, entryLabel: p.entryLabel, capturedAt, triggerFrame: m.triggerFrame, state: 'checking' as const, peaks: sorted.map((c) => m.peaks[c.channel - 1] ?? 0) }, ...list].slice(0, 30));
-            void (async () => {
-              const wav = await encodeFloat32Wav(volts, Math.round(fs)).arrayBuffer();
-              await outbox.keep({ key, campaignId: p.campaignId, entryId: p.entryId, entryLabel: p.entryLabel, capturedAt, sampleRateHz: fs, wav });
-              void drain(p.campaignId);
-            })().catch((err) => setError(`A captured hit could not be kept on this device: ${err instanceof Error ? err.message : String(err)}`));
+            // Volts in channel-number order, written straight into the WAV's data chunk.
+            const wav = encodeWavBuffer(
+              sorted.map((c) => m.channels[c.channel - 1]!),
+              Math.round(fs),
+              sorted.map((c) => byNumber.get(c.channel)!.fullScaleVolts),
+            );
+            const item: OutboxItem = { key, campaignId: p.campaignId, entryId: p.entryId, entryLabel: p.entryLabel, capturedAt, sampleRateHz: fs, wav };
+            const kept = outbox.keep(item).catch((err: unknown) => {
+              setError(`A captured hit could not be kept on this device (it is being sent from memory; do not reload until it is stored): ${err instanceof Error ? err.message : String(err)}`);
+              return undefined;
+            });
+            queue.current.push({ item, kept });
+            void drain(p.campaignId);
             if (p.stopAfter !== null && current.taken >= p.stopAfter) void stop();
           }
         };
@@ -351,7 +391,10 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
   const resume = useCallback(
     async (campaignId: string) => {
       const list = await outbox.waiting(campaignId);
-      setPending(list.filter((i) => !i.refused).length);
+      // Older than anything captured in this visit: ahead of it in the queue.
+      const known = new Set(queue.current.map((q) => q.item.key));
+      queue.current = [...list.filter((i) => !i.refused && !known.has(i.key)).map((item) => ({ item, kept: Promise.resolve(item.id) })), ...queue.current];
+      setPending(waitingIn(campaignId));
       if (list.length) {
         setCaptures((old) => [...list.filter((i) => !old.some((c) => c.key === i.key)).map((i) => ({ key: i.key, entryLabel: i.entryLabel, capturedAt: i.capturedAt, state: i.refused ? ('refused' as const) : ('waiting' as const), peaks: [], message: i.refused })), ...old]);
         void drain(campaignId);
@@ -360,5 +403,5 @@ export function useLiveInput(onStored: (answer: HitsAnswer) => void) {
     [drain],
   );
 
-  return { devices, device, engine, meter, frames, captures, pending, waitingFor, error, allow, start, stop, retarget, grab, resume, running: engine !== 'off' };
+  return { devices, device, engine, readings, captures, pending, waitingFor, error, allow, start, stop, retarget, grab, resume, running: engine !== 'off' };
 }

@@ -23,7 +23,8 @@ import { SafetyNote } from '../../components/tap/safety-note.tsx';
 import { Kbd, StrikePanel } from '../../components/tap/strike-panel.tsx';
 import { useRecordHits } from '../../components/tap/use-record.ts';
 import { useHammerTips, type TipOption } from '../../components/tap/use-hammer-tips.ts';
-import { VerdictPanel } from '../../components/tap/verdict-panel.tsx';
+import { FreshVerdictPanel } from '../../components/tap/fresh-verdict-panel.tsx';
+import { freshHitAhead } from '../../lib/live/fresh-verdict.ts';
 import { ServerBanner } from '../../components/tap/server-banner.tsx';
 import { useServerHealth } from '../../lib/server-health.ts';
 import { useCampaignContext } from './campaign-context.ts';
@@ -134,8 +135,9 @@ export function TapPage() {
   const actions = useRef({ strike: () => {}, accept: () => {}, reject: () => {}, next: () => {} });
   actions.current = {
     strike: () => tip && void record.strike(tip),
-    accept: () => selected && void record.override(selected, 'accept', 'accepted by hand at the structure'),
-    reject: () => selected && void record.override(selected, 'reject', 'rejected by hand at the structure'),
+    // Not while a live hit's verdict is on screen ahead of the page's list (a frame): A / R act on the hit shown.
+    accept: () => selected && entry && !freshHitAhead(entry.id, hitList) && void record.override(selected, 'accept', 'accepted by hand at the structure'),
+    reject: () => selected && entry && !freshHitAhead(entry.id, hitList) && void record.override(selected, 'reject', 'rejected by hand at the structure'),
     next: goNext,
   };
   useEffect(() => {
@@ -236,11 +238,12 @@ export function TapPage() {
               <span className="mx-1">·</span>
               <span data-testid="live-state" title="Others’ hits appear within seconds while live">{live === 'live' ? '● Live' : live === 'polling' ? '○ Refreshing every 5 s' : '○ Connecting…'}</span>
             </p>
+            {/* The live input's state and level meters while it captures (components/tap/live-panel.tsx),
+                in the room beside the DOF's progress, so they add no height to Tap's one screen. */}
+            <div id="tap-live-strip" className="w-full min-w-64 empty:hidden" />
           </div>
         </div>
         <FlagReasons reasons={reasons} compact />
-        {/* The live input's state and level meters while it captures (components/tap/live-panel.tsx). */}
-        <div id="tap-live-strip" className="empty:hidden" />
         {otherFlagged.length > 0 && (
           <p className="truncate text-xs text-[var(--muted)]" data-testid="other-flagged">
             <span className="font-semibold text-bad">⚑ Flagged elsewhere:</span>{' '}
@@ -262,7 +265,7 @@ export function TapPage() {
       <div className="grid gap-3 md:grid-cols-[minmax(280px,340px)_minmax(0,1fr)]">
         <div className="space-y-3">
           <Panel title="Verdict" dense>
-            {hits.isPending ? <Spinner label="Loading the hits…" /> : hits.isError ? <Notice tone="error">The hits could not be loaded: {hits.error.message}</Notice> : <VerdictPanel hit={selected} canAct={canAct} busy={record.busy !== null} onOverride={(v, note) => selected && void record.override(selected, v, note)} />}
+            {hits.isPending ? <Spinner label="Loading the hits…" /> : hits.isError ? <Notice tone="error">The hits could not be loaded: {hits.error.message}</Notice> : <FreshVerdictPanel entryId={entry.id} hits={hitList} selected={selected} canAct={canAct} busy={record.busy !== null} onOverride={(v, note) => selected && void record.override(selected, v, note)} />}
           </Panel>
           {canAct ? (
             <Panel title="Record a hit" dense>
