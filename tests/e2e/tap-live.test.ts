@@ -47,8 +47,13 @@ afterAll(async () => {
   await app?.close();
 });
 
-async function signIn(viewport: { width: number; height: number }): Promise<{ page: Page; errors: string[]; close: () => Promise<void> }> {
-  const context = await browser.newContext({ viewport, hasTouch: viewport.width < 1100 });
+/** The engineer signed in, in a new context of `from` (the file's browser unless another device is asked for). */
+async function signIn(
+  viewport: { width: number; height: number },
+  { from = browser, touch = viewport.width < 1100, init }: { from?: Browser; touch?: boolean; init?: () => void } = {},
+): Promise<{ page: Page; errors: string[]; close: () => Promise<void> }> {
+  const context = await from.newContext({ viewport, hasTouch: touch });
+  if (init) await context.addInitScript(init);
   const page = await context.newPage();
   const errors = watchConsole(page);
   await page.goto(`${app.baseUrl}/sign-in`);
@@ -110,15 +115,7 @@ describe('Tap with the live input on one screen', () => {
   it('keeps the live strip (state in words, a meter per channel with its headroom in dB) in view with the DOF, the verdict, Accept/Reject and the FRF with coherence at 1366×768, 768×1024 and 1024×768, none over another', { timeout: 240_000 }, async () => {
     // Issue 17's one-screen rule for Tap (as tests/e2e/tap-one-screen.test.ts checks it for the
     // rig), with the live input capturing: measured with element bounding boxes at each size.
-    const context = await cleanBrowser.newContext({ viewport: viewports.laptop });
-    const page = await context.newPage();
-    const errors = watchConsole(page);
-    const close = () => context.close();
-    await page.goto(`${app.baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill(engineer.email);
-    await page.getByLabel('Password').fill(PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/campaigns$/);
+    const { page, errors, close } = await signIn(viewports.laptop, { from: cleanBrowser });
     const entry = rig.entries.find((e) => !['B01:+Z', 'B11:+Z'].includes(e.excitationDof))!;
     try {
       // Stopped by hand below: "Stop after" far above what is captured while the boxes are read.
@@ -376,22 +373,14 @@ describe('Tap with the live input on a calibrator', () => {
   });
 
   async function calPage(viewport: { width: number; height: number }, init?: () => void) {
-    const context = await calBrowser.newContext({ viewport });
-    if (init) await context.addInitScript(init);
-    const page = await context.newPage();
-    const errors = watchConsole(page);
-    await page.goto(`${app.baseUrl}/sign-in`);
-    await page.getByLabel('E-mail').fill(engineer.email);
-    await page.getByLabel('Password').fill(PASSWORD);
-    await page.getByRole('button', { name: 'Sign in' }).click();
-    await page.waitForURL(/\/campaigns$/);
+    const { page, errors, close } = await signIn(viewport, { from: calBrowser, touch: false, init });
     await page.goto(`${app.baseUrl}/campaigns/${rig.campaignId}/tap?entry=${entryOf('B11:+Z').id}`);
     await page.getByTestId('current-dof').waitFor({ timeout: 30_000 });
     await settled(page);
     await foldCautions(page);
     await page.getByRole('tab', { name: 'Live input' }).click({ timeout: 60_000 });
     await page.getByTestId('live-panel').waitFor({ timeout: 30_000 });
-    return { page, errors, close: () => context.close() };
+    return { page, errors, close };
   }
 
   it('records the calibrator on the response channel and shows the measured sensitivity and its deviation from the kit in % and dB, stored as an audited check', { timeout: 120_000 }, async () => {
